@@ -1,0 +1,182 @@
+// Anomaly conversions for any conic (e >= 0), and the time of flight between two true anomalies.
+// The conic is chosen by e: e < 1 ellipse (eccentric anomaly E), e = 1 parabola (D = tan(nu/2)),
+// e > 1 hyperbola (hyperbolic anomaly H). "Anomaly" below means E, D or H accordingly.
+//
+// Formulas (half-angle forms, no cancellation anywhere on the conic):
+//   ellipse    tan(E/2) = sqrt((1-e)/(1+e)) tan(nu/2), written E = 2 atan2(sqrt(1-e) sin(nu/2), sqrt(1+e) cos(nu/2))
+//   hyperbola  tanh(H/2) = sqrt((e-1)/(e+1)) tan(nu/2)
+//   parabola   D = tan(nu/2)
+//   mean       M = E - e sin E, M = e sinh H - H, M = D + D^3/3 (series forms near periapsis, series.ts)
+// For the ellipse the anomaly keeps the revolution of its input: nu = 2 pi k + nu_r with |nu_r| <= pi
+// (exact reduction, reduce.ts) gives E = nu + (E_r - nu_r). The hyperbola and parabola have no revolutions:
+// |nu| must be below the asymptote angle acos(-1/e) (pi for the parabola), else ERR_UNREACHABLE.
+//
+// Time of flight, from the areal velocity (Kepler's second law): the radius sweeps area at the constant
+// rate h/2, h = sqrt(mu p), so t2 - t1 = A / (h/2) with A = (p^2 / 2) I and
+// I = integral of dnu / (1 + e cos nu)^2 from nu1 to nu2, which is
+//   (M2 - M1) / (1 - e^2)^(3/2) (ellipse), (M2 - M1) / (e^2 - 1)^(3/2) (hyperbola), (M2 - M1) / 2 (parabola).
+//
+// Output slot 0 holds the result; time_of_flight also writes slot 1 = swept area, slot 2 = h/2.
+
+import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_UNREACHABLE, ERR_OVERFLOW, FIRST_ERROR } from "./status";
+import { put, got } from "./io";
+import { INTEGER_LIMIT } from "./real";
+import { reduceTurns, reducedLo } from "./reduce";
+import { SERIES_MAX, xMinusSinSeries, sinhMinusXSeries } from "./series";
+import { kepler_elliptic } from "./kepler_elliptic";
+import { kepler_hyperbolic } from "./kepler_hyperbolic";
+import { kepler_parabolic } from "./kepler_parabolic";
+
+// Result of the helpers below (kept out of linear memory so kernels can chain them).
+let res: real = 0;
+
+function checkConic(e: real, x: real): i32 {
+  if (!isFinite(e) || !isFinite(x)) return ERR_NONFINITE;
+  if (!(e >= 0)) return ERR_DOMAIN;
+  return OK;
+}
+
+// Ellipse, one revolution: E_r from nu_r (|nu_r| <= pi).
+function eccFromTrue(e: real, nu: real): real {
+  const h = <real>0.5 * nu;
+  return <real>2.0 * RMath.atan2(RMath.sqrt(<real>1.0 - e) * RMath.sin(h), RMath.sqrt(<real>1.0 + e) * RMath.cos(h));
+}
+
+function trueFromEcc(e: real, E: real): real {
+  const h = <real>0.5 * E;
+  return <real>2.0 * RMath.atan2(RMath.sqrt(<real>1.0 + e) * RMath.sin(h), RMath.sqrt(<real>1.0 - e) * RMath.cos(h));
+}
+
+// Apply a one-revolution map f to x keeping x's revolution: f(x_r) + (x - x_r).
+function keepRevolution(e: real, x: real, toTrue: bool): real {
+  if (abs(x) >= INTEGER_LIMIT) return x; // no fractional part is representable: the map moves it by < 1 ulp
+  const xh = reduceTurns(x);
+  const xl = reducedLo;
+  const y = toTrue ? trueFromEcc(e, xh) : eccFromTrue(e, xh);
+  if (xh == x) return y;
+  return x + ((y - xh) - xl);
+}
+
+// Shared by the conversions: sets `res`, returns a status.
+function trueToAnomaly(e: real, nu: real): i32 {
+  if (e < 1) {
+    res = keepRevolution(e, nu, false);
+    return OK;
+  }
+  if (!(abs(nu) < RMath.acos(<real>-1.0 / e)) || abs(nu) >= <real>3.141592653589793) return ERR_UNREACHABLE;
+  const t = RMath.tan(<real>0.5 * nu);
+  if (e == 1) {
+    res = t;
+    return OK;
+  }
+  const u = RMath.sqrt((e - <real>1.0) / (e + <real>1.0)) * t;
+  if (!(abs(u) < 1)) return ERR_UNREACHABLE;
+  res = RMath.log1p(<real>2.0 * u / (<real>1.0 - u)); // 2 atanh(u)
+  return OK;
+}
+
+function anomalyToTrue(e: real, x: real): i32 {
+  if (e < 1) {
+    res = keepRevolution(e, x, true);
+    return OK;
+  }
+  if (e == 1) {
+    res = <real>2.0 * RMath.atan(x);
+    return OK;
+  }
+  res = <real>2.0 * RMath.atan(RMath.sqrt((e + <real>1.0) / (e - <real>1.0)) * RMath.tanh(<real>0.5 * x));
+  return OK;
+}
+
+function anomalyToMean(e: real, x: real): i32 {
+  if (e < 1) {
+    if (abs(x) <= SERIES_MAX) {
+      res = (<real>1.0 - e) * x + e * xMinusSinSeries(x);
+    } else {
+      res = x - e * RMath.sin(x);
+    }
+    return OK;
+  }
+  if (e == 1) {
+    res = x + x * x * x / <real>3.0;
+  } else if (abs(x) <= SERIES_MAX) {
+    res = (e - <real>1.0) * x + e * sinhMinusXSeries(x);
+  } else {
+    res = e * RMath.sinh(x) - x;
+  }
+  return isFinite(res) ? OK : ERR_OVERFLOW;
+}
+
+/** True anomaly -> eccentric (e < 1), parabolic (e = 1) or hyperbolic (e > 1) anomaly. Slot 0. */
+export function true_to_anomaly(e: real, nu: real): i32 {
+  let s = checkConic(e, nu);
+  if (s != OK) return s;
+  s = trueToAnomaly(e, nu);
+  if (s == OK) put(0, res);
+  return s;
+}
+
+/** Eccentric, parabolic or hyperbolic anomaly -> true anomaly. Slot 0. */
+export function anomaly_to_true(e: real, x: real): i32 {
+  const s = checkConic(e, x);
+  if (s != OK) return s;
+  anomalyToTrue(e, x);
+  put(0, res);
+  return OK;
+}
+
+/** True anomaly -> mean anomaly (M, M_h or the Barker M of kepler_parabolic.ts). Slot 0. */
+export function true_to_mean(e: real, nu: real): i32 {
+  let s = checkConic(e, nu);
+  if (s != OK) return s;
+  s = trueToAnomaly(e, nu);
+  if (s != OK) return s;
+  s = anomalyToMean(e, res);
+  if (s == OK) put(0, res);
+  return s;
+}
+
+/** Mean anomaly -> true anomaly through the Kepler solvers. Slot 0 = nu, slot 1 = iterations. */
+export function mean_to_true(e: real, M: real): i32 {
+  const s0 = checkConic(e, M);
+  if (s0 != OK) return s0;
+  const s = e < 1 ? kepler_elliptic(e, M) : e == 1 ? kepler_parabolic(M) : kepler_hyperbolic(e, M);
+  if (s >= FIRST_ERROR) return s;
+  anomalyToTrue(e, got(0));
+  put(0, res);
+  return OK;
+}
+
+/**
+ * Time of flight from nu1 to nu2 on the conic (mu, p, e), from the areal velocity h/2. Negative when
+ * nu2 < nu1. Slot 0 = time, slot 1 = area swept, slot 2 = areal velocity h/2.
+ */
+export function time_of_flight(mu: real, p: real, e: real, nu1: real, nu2: real): i32 {
+  if (!isFinite(mu) || !isFinite(p) || !isFinite(e) || !isFinite(nu1) || !isFinite(nu2)) return ERR_NONFINITE;
+  if (!(mu > 0) || !(p > 0) || !(e >= 0)) return ERR_DOMAIN;
+  let s = trueToAnomaly(e, nu1);
+  if (s != OK) return s;
+  s = anomalyToMean(e, res);
+  if (s != OK) return s;
+  const m1 = res;
+  s = trueToAnomaly(e, nu2);
+  if (s != OK) return s;
+  s = anomalyToMean(e, res);
+  if (s != OK) return s;
+  const dm = res - m1;
+  let integral: real;
+  if (e == 1) {
+    integral = <real>0.5 * dm;
+  } else {
+    const k = e < 1 ? (<real>1.0 - e) * (<real>1.0 + e) : (e - <real>1.0) * (e + <real>1.0);
+    integral = dm / (k * RMath.sqrt(k));
+  }
+  const area = <real>0.5 * p * p * integral;
+  const arealRate = <real>0.5 * RMath.sqrt(mu * p);
+  const t = area / arealRate;
+  if (!isFinite(t) || !isFinite(area)) return ERR_OVERFLOW;
+  put(0, t);
+  put(1, area);
+  put(2, arealRate);
+  return OK;
+}

@@ -1,0 +1,6 @@
+// The module's exports: the ABI documented in docs/abi.md. This file only re-exports.
+export { areal_out, areal_real_bytes, areal_abi_version } from "./io";
+export { kepler_elliptic } from "./kepler_elliptic";
+export { kepler_hyperbolic } from "./kepler_hyperbolic";
+export { kepler_parabolic } from "./kepler_parabolic";
+export { true_to_anomaly, anomaly_to_true, true_to_mean, mean_to_true, time_of_flight } from "./anomaly";

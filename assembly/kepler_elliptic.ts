@@ -1,0 +1,123 @@
+// Kepler's equation for the ellipse: find E with E - e sin E = M, 0 <= e < 1, M any finite real.
+//
+// Method
+//  1. Special cases, in order: NaN or infinite input -> ERR_NONFINITE; e outside [0, 1) -> ERR_DOMAIN;
+//     e = 0 -> E = M; |M| >= 2^53 -> E = M (every real there is an even integer and |E - M| <= e < 1,
+//     so M is the correctly rounded root).
+//  2. Remove whole turns exactly: M = 2 pi k + m, m a double-real (reduce.ts). By symmetry solve for |m|.
+//  3. Starter: F. L. Markley, "Kepler equation solver", Celest. Mech. Dyn. Astron. 63 (1995) 101-111:
+//     sin E is replaced by a Pade approximant whose parameter alpha depends on M, and the resulting cubic is
+//     solved in closed form (one sqrt, one cbrt).
+//  4. Correction: the quartic (fourth-order Householder) step of J. M. A. Danby and T. M. Burkardt,
+//     "The solution of Kepler's equation, I", Celest. Mech. 31 (1983) 95-107, repeated until the step is
+//     below STOP_REL * E; at most MAX_ITER steps, else ERR_NOT_CONVERGED.
+//     The residual is written f = (1 - e) E + e (E - sin E) - m, with 1 - e exact for e >= 1/2 (Sterbenz),
+//     E - sin E from its series for E <= 1 (series.ts), and f' = (1 - e) + e (1 - cos E) with
+//     1 - cos E = sin^2 E / (1 + cos E) while cos E > 0: no term cancels near the e -> 1, M -> 0 corner,
+//     which a naive E - e sin E - M would limit to eps * sqrt(2 / (1 - e)) (see the numerics notes).
+//     Below LINEAR_MAX the root is (m / (1 - e)) itself, one correctly rounded division.
+//  5. k = 0: E is the solution itself. k != 0: E = M + (E_m - m), so no rounding of 2 pi k enters.
+//
+// Output slots: 0 = E, 1 = iterations (correction steps applied).
+// Accuracy (release f64 build, vectors/kepler-elliptic.csv, 40-digit references): see limits in
+// vectors/limits.json; the error budget is ~1.5 ulp from the residual, ~1 ulp from sin for E > 1, 0.5 ulp
+// from the last addition.
+
+import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED } from "./status";
+import { put } from "./io";
+import { IS_F32, INTEGER_LIMIT, PI } from "./real";
+import { reduceTurns, turns, reducedLo } from "./reduce";
+import { SERIES_MAX, xMinusSinSeries } from "./series";
+
+/** Iteration cap of the correction loop. */
+export const ELLIPTIC_MAX_ITER: i32 = 6;
+/** Stop once a quartic step is below this fraction of E: the next step would be below 2^-70 E. */
+const STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>3.814697265625e-6; // 2^-9, 2^-18
+// Markley's constants: 3 pi^2, 1.6 pi, pi^2 - 6.
+const THREE_PI_SQ: real = <real>29.608813203268074;
+const PI_1_6: real = <real>5.026548245743669;
+const PI_SQ_MINUS_6: real = <real>3.869604401089358;
+/**
+ * Below this |m| the root is m / (1 - e) to within a relative 2^-440 (f64; 2^-40 for f32): E <= m / (1 - e)
+ * and the cubic term's share e E^2 / (6 (1 - e)) is below that. A direct quotient also keeps the residual
+ * out of the subnormal range, where q E would lose relative precision.
+ */
+const LINEAR_MAX: real = IS_F32 ? <real>8.673617379884035e-19 : <real>2.409919865102884e-181; // 2^-60, 2^-600
+
+let iterations: i32 = 0;
+
+/** Solve E - e sin E = M. Writes E to slot 0 and the step count to slot 1. */
+export function kepler_elliptic(e: real, M: real): i32 {
+  put(1, 0);
+  if (!isFinite(e) || !isFinite(M)) return ERR_NONFINITE;
+  if (!(e >= 0 && e < 1)) return ERR_DOMAIN;
+  if (e == 0 || abs(M) >= INTEGER_LIMIT) {
+    put(0, M);
+    return OK;
+  }
+  const mh0 = reduceTurns(M);
+  const ml0 = reducedLo;
+  const k = turns;
+  const neg = mh0 < 0;
+  const mh = neg ? -mh0 : mh0;
+  const ml = neg ? -ml0 : ml0;
+  let E: real = 0;
+  if (mh != 0) {
+    E = solveReduced(e, mh, ml);
+    if (iterations < 0) {
+      put(1, <real>ELLIPTIC_MAX_ITER);
+      return ERR_NOT_CONVERGED;
+    }
+  } else {
+    iterations = 0;
+  }
+  let out: real;
+  if (k == 0) {
+    out = neg ? -E : E;
+  } else {
+    const d = (E - mh) - ml; // = e sin E_m, exact subtraction when E and mh are within a factor 2
+    out = M + (neg ? -d : d);
+  }
+  put(0, out);
+  put(1, <real>iterations);
+  return OK;
+}
+
+// Root of (1 - e) E + e (E - sin E) = mh + ml for 0 < mh <= ~pi, 0 < e < 1. Sets `iterations`
+// (negative when the cap is reached).
+function solveReduced(e: real, mh: real, ml: real): real {
+  const q: real = <real>1.0 - e;
+  if (mh < LINEAR_MAX) {
+    iterations = 0;
+    return (mh + ml) / q;
+  }
+  // Markley (1995) starter.
+  const alpha = (THREE_PI_SQ + PI_1_6 * (PI - mh) / (<real>1.0 + e)) / PI_SQ_MINUS_6;
+  const d = <real>3.0 * q + alpha * e;
+  const qq = <real>2.0 * alpha * d * q - mh * mh;
+  const r = <real>3.0 * alpha * d * (d - q) * mh + mh * mh * mh;
+  const w0 = RMath.cbrt(abs(r) + RMath.sqrt(qq * qq * qq + r * r));
+  const w = w0 * w0;
+  let E = (<real>2.0 * r * w / (w * w + w * qq + qq * qq) + mh) / d;
+  if (!(E > 0 && E <= <real>4.0)) E = mh + <real>0.85 * e; // Danby-Burkardt fallback; not expected
+  for (let it = 1; it <= ELLIPTIC_MAX_ITER; it++) {
+    const s = RMath.sin(E);
+    const c = RMath.cos(E);
+    const es = E <= SERIES_MAX ? xMinusSinSeries(E) : E - s;
+    const f0 = (q * E + e * es - mh) - ml;
+    const omc = c > 0 ? s * s / (<real>1.0 + c) : <real>1.0 - c;
+    const f1 = q + e * omc;
+    const f2 = e * s;
+    const f3 = e * c;
+    const d1 = -f0 / f1;
+    const d2 = -f0 / (f1 + <real>0.5 * d1 * f2);
+    const d3 = -f0 / (f1 + <real>0.5 * d2 * f2 + d2 * d2 * f3 * <real>0.16666666666666666);
+    E += d3;
+    if (abs(d3) <= STOP_REL * E) {
+      iterations = it;
+      return E;
+    }
+  }
+  iterations = -1;
+  return E;
+}

@@ -1,0 +1,117 @@
+// Kepler's equation for the hyperbola: find H with e sinh H - H = M, e > 1, M any finite real.
+// H has the sign of M; the kernel solves for |M| and restores the sign.
+//
+// Method
+//  1. Special cases, in order: NaN or infinite input -> ERR_NONFINITE; e <= 1 -> ERR_DOMAIN; M = 0 -> H = M.
+//     |M| < LINEAR_MAX: H = M / (e - 1), one correctly rounded division.
+//  2. Starter. The cubic (e - 1) H + (e / 6) H^3 = M (sinh H - H >= H^3 / 6, so its root is an upper
+//     bound) solved in Cardano's form H = 2b / (t^2 + p + p^2 / t^2), t^3 = b + sqrt(b^2 + p^3), which has
+//     no cancellation; used when that root is below CUBIC_MAX. Otherwise the lower bound
+//     h2 = asinh((M + asinh(M / e)) / e) (from e sinh H = M + H >= M + asinh(M / e)).
+//     The cubic starter is the one in the numerics notes; compare A. W. Odell and R. H. Gooding,
+//     "Procedures for solving Kepler's equation", Celest. Mech. 38 (1986) 307-334.
+//  3. Small H (<= LOG_FORM_H): the quartic step of Danby and Burkardt (1983) on
+//     f = (e - 1) H + e (sinh H - H) - M (series for sinh H - H when H <= 1; e - 1 exact for e <= 2),
+//     f' = (e - 1) + e (cosh H - 1), cosh H - 1 = sinh^2 H / (cosh H + 1).
+//     Large H: Newton on g = ln(e sinh H) - ln(M + H), nearly linear in H, with
+//     ln(e sinh H) = ln e + H - ln 2 + log1p(-exp(-2H)): no sinh or cosh is formed, so nothing overflows for
+//     any finite M and e (M up to 1.8e308 gives H about 710).
+//  4. Stop when the step is below STOP_REL * H; at most HYPERBOLIC_MAX_ITER steps, else ERR_NOT_CONVERGED.
+//
+// Output slots: 0 = H, 1 = iterations.
+
+import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED } from "./status";
+import { put } from "./io";
+import { IS_F32 } from "./real";
+import { SERIES_MAX, sinhMinusXSeries } from "./series";
+
+export const HYPERBOLIC_MAX_ITER: i32 = 8;
+const STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>3.814697265625e-6; // 2^-9, 2^-18
+/** Newton on the logarithmic form beyond this H (there exp(-2H) < 1e-17 and sinh H > 2e8). */
+const LOG_FORM_H: real = 20.0;
+/** The cubic starter is used below this H. */
+const CUBIC_MAX: real = 1.0;
+const LN2: real = <real>0.6931471805599453;
+const SIXTH: real = <real>0.16666666666666666;
+
+/** Below this |M| the root is M / (e - 1) (the cubic term is below 2^-440 relative; see kepler_elliptic.ts). */
+const LINEAR_MAX: real = IS_F32 ? <real>8.673617379884035e-19 : <real>2.409919865102884e-181; // 2^-60, 2^-600
+
+let iterations: i32 = 0;
+
+/** Solve e sinh H - H = M. Writes H to slot 0 and the step count to slot 1. */
+export function kepler_hyperbolic(e: real, M: real): i32 {
+  put(1, 0);
+  if (!isFinite(e) || !isFinite(M)) return ERR_NONFINITE;
+  if (!(e > 1)) return ERR_DOMAIN;
+  if (M == 0) {
+    put(0, M);
+    return OK;
+  }
+  const m = abs(M);
+  const H = solvePositive(e, m);
+  if (iterations < 0) {
+    put(1, <real>HYPERBOLIC_MAX_ITER);
+    return ERR_NOT_CONVERGED;
+  }
+  put(0, M < 0 ? -H : H);
+  put(1, <real>iterations);
+  return OK;
+}
+
+function starter(e: real, em1: real, m: real): real {
+  // Cubic: H^3 + 3p H - 2b = 0 with 3p = 6 (e - 1) / e, 2b = 6 m / e.
+  const p = <real>2.0 * em1 / e;
+  const b = <real>3.0 * m / e;
+  if (b < <real>1.0) {
+    const t = RMath.cbrt(b + RMath.sqrt(b * b + p * p * p));
+    if (t > 0) {
+      const t2 = t * t;
+      const Hc = <real>2.0 * b / (t2 + p + p * p / t2);
+      if (Hc < CUBIC_MAX && Hc > 0) return Hc;
+    }
+  }
+  const h1 = RMath.asinh(m / e);
+  return RMath.asinh((m + h1) / e);
+}
+
+function solvePositive(e: real, m: real): real {
+  const em1 = e - <real>1.0;
+  if (m < LINEAR_MAX) {
+    iterations = 0;
+    return m / em1;
+  }
+  let H = starter(e, em1, m);
+  if (!(H > 0)) H = m / em1 < <real>1.0 ? m / em1 : <real>1.0; // underflowed starter: linear regime
+  const lnE = RMath.log(e);
+  for (let it = 1; it <= HYPERBOLIC_MAX_ITER; it++) {
+    let step: real;
+    if (H > LOG_FORM_H) {
+      const lnS = lnE + H - LN2 + RMath.log1p(-RMath.exp(<real>-2.0 * H));
+      const g = lnS - RMath.log(m + H);
+      const g1 = <real>1.0 / RMath.tanh(H) - <real>1.0 / (m + H);
+      step = -g / g1;
+    } else {
+      const sh = RMath.sinh(H);
+      const ch = RMath.sqrt(<real>1.0 + sh * sh);
+      const shm = H <= SERIES_MAX ? sinhMinusXSeries(H) : sh - H;
+      const f0 = (em1 * H + e * shm) - m;
+      const f1 = em1 + e * (sh * sh / (ch + <real>1.0));
+      const f2 = e * sh;
+      const f3 = e * ch;
+      const d1 = -f0 / f1;
+      const d2 = -f0 / (f1 + <real>0.5 * d1 * f2);
+      step = -f0 / (f1 + <real>0.5 * d2 * f2 + d2 * d2 * f3 * SIXTH);
+    }
+    let Hn = H + step;
+    if (!(Hn > 0)) Hn = H * <real>0.25; // stay on the positive branch (the root is positive)
+    const moved = abs(Hn - H);
+    H = Hn;
+    if (moved <= STOP_REL * H) {
+      iterations = it;
+      return H;
+    }
+  }
+  iterations = -1;
+  return H;
+}

@@ -1,0 +1,17 @@
+/** Writing output files whole or not at all: write a temporary file beside the target, then rename. */
+import { writeFileSync, renameSync, rmSync, mkdirSync } from "node:fs";
+import { dirname, basename, join } from "node:path";
+
+/** Write `data` to `path` atomically. Creates the parent folder. Throws with a plain message on failure. */
+export function writeAtomic(path: string, data: string | Uint8Array): void {
+  const dir = dirname(path);
+  const tmp = join(dir, `.${basename(path)}.${process.pid}.tmp`);
+  try {
+    mkdirSync(dir, { recursive: true });
+    writeFileSync(tmp, data);
+    renameSync(tmp, path);
+  } catch (err) {
+    rmSync(tmp, { force: true });
+    throw new Error(`cannot write ${path}: ${(err as NodeJS.ErrnoException).code ?? (err as Error).message}`);
+  }
+}

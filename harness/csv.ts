@@ -1,0 +1,79 @@
+/**
+ * A strict reader and writer for numeric CSV: one header line of column names, then rows of numbers (or a
+ * status word). Lines starting with '#' are comments (vector files keep their provenance there). CRLF and LF
+ * are both accepted. Errors name the line and column, so a user can find the bad cell.
+ */
+import { parseNumber, shortest } from "./float.js";
+
+export class CsvError extends Error {}
+
+export interface Table {
+  readonly columns: readonly string[];
+  /** Each row's cells as text, in column order. */
+  readonly rows: readonly (readonly string[])[];
+  /** Source line number (1-based) of each row, for messages. */
+  readonly lines: readonly number[];
+  /** The comment lines before the header, without the leading '# '. */
+  readonly comments: readonly string[];
+}
+
+/** Parse CSV text. `source` names the file in messages. */
+export function parseCsv(text: string, source: string): Table {
+  const raw = text.split(/\r?\n/);
+  const comments: string[] = [];
+  let i = 0;
+  for (; i < raw.length; i++) {
+    const l = raw[i]!;
+    if (l.startsWith("#")) comments.push(l.replace(/^#\s?/, ""));
+    else if (l.trim() !== "") break;
+  }
+  if (i >= raw.length) throw new CsvError(`${source}: empty file (no header line)`);
+  const columns = raw[i]!.split(",").map((c) => c.trim());
+  const seen = new Set<string>();
+  columns.forEach((c, j) => {
+    if (c === "") throw new CsvError(`${source}:${i + 1}: header column ${j + 1} is empty`);
+    if (seen.has(c)) throw new CsvError(`${source}:${i + 1}: header names column '${c}' twice`);
+    seen.add(c);
+  });
+  const rows: string[][] = [];
+  const lines: number[] = [];
+  for (let k = i + 1; k < raw.length; k++) {
+    const l = raw[k]!;
+    if (l.trim() === "" || l.startsWith("#")) continue;
+    const cells = l.split(",").map((c) => c.trim());
+    if (cells.length !== columns.length) {
+      throw new CsvError(`${source}:${k + 1}: ${cells.length} cells, the header has ${columns.length} columns`);
+    }
+    rows.push(cells);
+    lines.push(k + 1);
+  }
+  return { columns, rows, lines, comments };
+}
+
+/** Index of a column, or -1. */
+export function columnIndex(t: Table, name: string): number {
+  return t.columns.indexOf(name);
+}
+
+/** The number in row r, column c; throws a CsvError naming the place when the cell is not a number. */
+export function numberAt(t: Table, source: string, r: number, c: number): number {
+  const cell = t.rows[r]![c]!;
+  const v = parseNumber(cell);
+  if (v === undefined) {
+    throw new CsvError(`${source}:${t.lines[r]}: column '${t.columns[c]}' holds '${cell}', which is not a number`);
+  }
+  return v;
+}
+
+/** Format one cell: shortest round-trip decimal for numbers, text as is. */
+export function cell(v: number | string): string {
+  return typeof v === "number" ? shortest(v) : v;
+}
+
+/** CSV text from a header and rows (LF line ends, a final newline). */
+export function formatCsv(columns: readonly string[], rows: readonly (readonly (number | string)[])[], comments: readonly string[] = []): string {
+  const out: string[] = comments.map((c) => `# ${c}`);
+  out.push(columns.join(","));
+  for (const row of rows) out.push(row.map(cell).join(","));
+  return out.join("\n") + "\n";
+}

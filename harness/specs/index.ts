@@ -1,0 +1,10 @@
+/** Every vector suite, in check-table order. A new suite file adds its specs here (DEVELOPERS.md). */
+import { KEPLER_SPECS } from "./kepler.js";
+import type { VectorSpec } from "./types.js";
+
+export const SPECS: readonly VectorSpec[] = [...KEPLER_SPECS];
+
+/** The spec of a suite, or undefined. */
+export function findSpec(suite: string): VectorSpec | undefined {
+  return SPECS.find((s) => s.suite === suite);
+}
