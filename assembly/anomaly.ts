@@ -20,15 +20,23 @@
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_UNREACHABLE, ERR_OVERFLOW, FIRST_ERROR } from "./status";
 import { put, got } from "./io";
-import { INTEGER_LIMIT } from "./real";
-import { reduceTurns, reducedLo } from "./reduce";
+import { INTEGER_LIMIT, PI } from "./real";
+import { reduceTurns, reducedLo, turns } from "./reduce";
+
+const TWO_PI: real = <real>2.0 * PI;
 import { SERIES_MAX, xMinusSinSeries, sinhMinusXSeries } from "./series";
 import { kepler_elliptic } from "./kepler_elliptic";
 import { kepler_hyperbolic } from "./kepler_hyperbolic";
 import { kepler_parabolic } from "./kepler_parabolic";
 
-// Result of the helpers below (kept out of linear memory so kernels can chain them).
+// Results of the helpers below (kept out of linear memory so kernels can chain them): `res` is the value;
+// for the ellipse `resReduced` is the same quantity within one revolution and `resTurns` the whole turns
+// removed, so that a difference of two anomalies on different revolutions keeps its small part.
 let res: real = 0;
+let resReduced: real = 0;
+let resTurns: real = 0;
+let redHi: real = 0;
+let redLo: real = 0;
 
 function checkConic(e: real, x: real): i32 {
   if (!isFinite(e) || !isFinite(x)) return ERR_NONFINITE;
@@ -47,23 +55,43 @@ function trueFromEcc(e: real, E: real): real {
   return <real>2.0 * RMath.atan2(RMath.sqrt(<real>1.0 + e) * RMath.sin(h), RMath.sqrt(<real>1.0 - e) * RMath.cos(h));
 }
 
-// Apply a one-revolution map f to x keeping x's revolution: f(x_r) + (x - x_r).
-function keepRevolution(e: real, x: real, toTrue: bool): real {
-  if (abs(x) >= INTEGER_LIMIT) return x; // no fractional part is representable: the map moves it by < 1 ulp
-  const xh = reduceTurns(x);
-  const xl = reducedLo;
-  const y = toTrue ? trueFromEcc(e, xh) : eccFromTrue(e, xh);
-  if (xh == x) return y;
-  return x + ((y - xh) - xl);
+// Mean anomaly from an eccentric anomaly within one revolution (|E| <= pi), without cancellation.
+function meanFromEccReduced(e: real, E: real): real {
+  if (abs(E) <= SERIES_MAX) return (<real>1.0 - e) * E + e * xMinusSinSeries(E);
+  return E - e * RMath.sin(E);
 }
 
-// Shared by the conversions: sets `res`, returns a status.
+// Split x into whole turns and a remainder (redHi + redLo, |redHi| <= pi); sets resTurns.
+function split(x: real): void {
+  if (abs(x) >= INTEGER_LIMIT) {
+    // No fractional part is representable: treat x as whole turns of nothing (callers keep x itself).
+    redHi = 0;
+    redLo = 0;
+    resTurns = 0;
+    return;
+  }
+  redHi = reduceTurns(x);
+  redLo = reducedLo;
+  resTurns = turns;
+}
+
+// y_r (the image of the remainder) carried back to x's revolution: x + (y_r - x_r).
+function carry(x: real, yr: real): real {
+  if (abs(x) >= INTEGER_LIMIT) return x; // the map moves x by less than half an ulp
+  if (resTurns == 0) return yr;
+  return x + ((yr - redHi) - redLo);
+}
+
+// Shared by the conversions: sets `res` (and for the ellipse `resReduced`, `resTurns`), returns a status.
 function trueToAnomaly(e: real, nu: real): i32 {
   if (e < 1) {
-    res = keepRevolution(e, nu, false);
+    split(nu);
+    resReduced = eccFromTrue(e, redHi);
+    res = carry(nu, resReduced);
     return OK;
   }
-  if (!(abs(nu) < RMath.acos(<real>-1.0 / e)) || abs(nu) >= <real>3.141592653589793) return ERR_UNREACHABLE;
+  resTurns = 0;
+  if (!(abs(nu) < RMath.acos(<real>-1.0 / e)) || abs(nu) >= PI) return ERR_UNREACHABLE;
   const t = RMath.tan(<real>0.5 * nu);
   if (e == 1) {
     res = t;
@@ -72,12 +100,14 @@ function trueToAnomaly(e: real, nu: real): i32 {
   const u = RMath.sqrt((e - <real>1.0) / (e + <real>1.0)) * t;
   if (!(abs(u) < 1)) return ERR_UNREACHABLE;
   res = RMath.log1p(<real>2.0 * u / (<real>1.0 - u)); // 2 atanh(u)
+  resReduced = res;
   return OK;
 }
 
 function anomalyToTrue(e: real, x: real): i32 {
   if (e < 1) {
-    res = keepRevolution(e, x, true);
+    split(x);
+    res = carry(x, trueFromEcc(e, redHi));
     return OK;
   }
   if (e == 1) {
@@ -88,15 +118,15 @@ function anomalyToTrue(e: real, x: real): i32 {
   return OK;
 }
 
-function anomalyToMean(e: real, x: real): i32 {
+// Mean anomaly from the state left by trueToAnomaly (same conic). For the ellipse `resReduced` becomes the
+// reduced mean anomaly and `res` the full one (same revolution as the true anomaly `nu`).
+function meanAfterTrue(e: real, nu: real): i32 {
   if (e < 1) {
-    if (abs(x) <= SERIES_MAX) {
-      res = (<real>1.0 - e) * x + e * xMinusSinSeries(x);
-    } else {
-      res = x - e * RMath.sin(x);
-    }
+    resReduced = meanFromEccReduced(e, resReduced);
+    res = carry(nu, resReduced);
     return OK;
   }
+  const x = res;
   if (e == 1) {
     res = x + x * x * x / <real>3.0;
   } else if (abs(x) <= SERIES_MAX) {
@@ -104,6 +134,7 @@ function anomalyToMean(e: real, x: real): i32 {
   } else {
     res = e * RMath.sinh(x) - x;
   }
+  resReduced = res;
   return isFinite(res) ? OK : ERR_OVERFLOW;
 }
 
@@ -131,7 +162,7 @@ export function true_to_mean(e: real, nu: real): i32 {
   if (s != OK) return s;
   s = trueToAnomaly(e, nu);
   if (s != OK) return s;
-  s = anomalyToMean(e, res);
+  s = meanAfterTrue(e, nu);
   if (s == OK) put(0, res);
   return s;
 }
@@ -155,15 +186,17 @@ export function time_of_flight(mu: real, p: real, e: real, nu1: real, nu2: real)
   if (!isFinite(mu) || !isFinite(p) || !isFinite(e) || !isFinite(nu1) || !isFinite(nu2)) return ERR_NONFINITE;
   if (!(mu > 0) || !(p > 0) || !(e >= 0)) return ERR_DOMAIN;
   let s = trueToAnomaly(e, nu1);
+  if (s == OK) s = meanAfterTrue(e, nu1);
   if (s != OK) return s;
-  s = anomalyToMean(e, res);
-  if (s != OK) return s;
-  const m1 = res;
+  const m1 = resReduced;
+  const k1 = resTurns;
   s = trueToAnomaly(e, nu2);
+  if (s == OK) s = meanAfterTrue(e, nu2);
   if (s != OK) return s;
-  s = anomalyToMean(e, res);
-  if (s != OK) return s;
-  const dm = res - m1;
+  // Reduced parts first, whole turns after: a near-parabolic ellipse has mean anomalies within 1e-16 of a
+  // multiple of 2 pi, which a difference of full values would lose.
+  let dm = resReduced - m1;
+  if (resTurns != k1) dm += (resTurns - k1) * TWO_PI;
   let integral: real;
   if (e == 1) {
     integral = <real>0.5 * dm;

@@ -29,8 +29,8 @@ export const HYPERBOLIC_MAX_ITER: i32 = 8;
 const STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>3.814697265625e-6; // 2^-9, 2^-18
 /** Newton on the logarithmic form beyond this H (there exp(-2H) < 1e-17 and sinh H > 2e8). */
 const LOG_FORM_H: real = 20.0;
-/** The cubic starter is used below this H. */
-const CUBIC_MAX: real = 1.0;
+/** The cubic starter is used below this H (there it is within 9% of the root; beyond, the asinh bound is closer). */
+const CUBIC_MAX: real = 2.2;
 const LN2: real = <real>0.6931471805599453;
 const SIXTH: real = <real>0.16666666666666666;
 

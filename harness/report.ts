@@ -37,14 +37,14 @@ export function formatCheckTable(results: readonly SuiteResult[], k: Kernels, ve
     r.metrics.map((m) => formatFigure(m.maxAbs)).join("; "),
     r.maxIterations !== undefined ? `${r.maxIterations} / ${r.meanIterations?.toFixed(2)}` : "-",
     limitText(r),
-    r.pass ? "pass" : "FAIL",
+    !r.applicable ? "n/a" : r.pass ? "pass" : "FAIL",
   ]);
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((row) => row[i]!.length)));
   const line = (cells: string[]): string => cells.map((c, i) => c.padEnd(widths[i]!)).join("  ").trimEnd();
   const out: string[] = [`areal check: build ${k.label} (${k.realBytes === 8 ? "f64" : "f32"} reals)`, line(head), line(widths.map((w) => "-".repeat(w)))];
   for (const row of rows) out.push(line(row));
   out.push("", "worst case per suite (inputs, tag, got, want):");
-  for (const r of results) out.push(`  ${r.suite}: ${worstText(r)}`);
+  for (const r of results) if (r.applicable) out.push(`  ${r.suite}: ${worstText(r)}`);
   for (const r of results) {
     if (!r.pass) out.push(`  FAIL ${r.suite}: ${r.reasons.join("; ")}`);
     if (verbose && r.iterationHistogram) {
@@ -54,7 +54,8 @@ export function formatCheckTable(results: readonly SuiteResult[], k: Kernels, ve
     if (verbose && r.limits.why) out.push(`  ${r.suite} limit: ${r.limits.why}`);
   }
   const failed = results.filter((r) => !r.pass).length;
-  out.push("", `${results.length - failed} suite(s) passed, ${failed} failed.`, CAUTION);
+  const na = results.filter((r) => !r.applicable).length;
+  out.push("", `${results.length - failed - na} suite(s) passed, ${failed} failed${na ? `, ${na} not applicable to this build (inputs not exact in its precision)` : ""}.`, CAUTION);
   return out.join("\n") + "\n";
 }
 

@@ -3,7 +3,7 @@
  * evaluated in decimal arithmetic (decimal.js, 60 digits) from the exact input doubles. The time of flight is
  * checked a second way, by quadrature of dt = r^2 / h dnu, in tests/anomaly-time-of-flight.test.ts.
  */
-import { Dec, decimalAt, exact, toDouble, piOf } from "./decimal.js";
+import { Dec, decimalAt, exact, toDouble, piOf, conditionUlps } from "./decimal.js";
 
 const D = decimalAt(70);
 const ONE = new D(1);
@@ -45,20 +45,34 @@ function anomalyToMeanDec(e: Dec, x: Dec): Dec {
   return e.times(D.sinh(x)).minus(x);
 }
 
-/** Eccentric / parabolic / hyperbolic anomaly from the true anomaly; NaN where the conic does not reach nu. */
-export function referenceTrueToAnomaly(e: number, nu: number): number {
-  const r = trueToAnomalyDec(exact(D, e), exact(D, nu));
-  return r === undefined ? NaN : toDouble(r);
+/** A perturbed eccentricity must stay on the same kind of conic (e = 1 is a conic of its own). */
+function sameConic(e: number): (i: number, x: number) => boolean {
+  return (i, x) => i !== 0 || (e === 1 ? false : e < 1 ? x < 1 && x >= 0 : x > 1);
 }
 
-export function referenceAnomalyToTrue(e: number, x: number): number {
-  return toDouble(anomalyToTrueDec(exact(D, e), exact(D, x)));
+function withCondition(f: (xs: Dec[]) => Dec | undefined, e: number, x: number): [number, number] {
+  const v = f([exact(D, e), exact(D, x)]);
+  if (v === undefined) return [NaN, NaN];
+  return [toDouble(v), conditionUlps(D, f, [e, x], sameConic(e))];
 }
 
-export function referenceTrueToMean(e: number, nu: number): number {
-  const eD = exact(D, e);
-  const a = trueToAnomalyDec(eD, exact(D, nu));
-  return a === undefined ? NaN : toDouble(anomalyToMeanDec(eD, a));
+/**
+ * Eccentric / parabolic / hyperbolic anomaly from the true anomaly (NaN where the conic does not reach nu),
+ * and the conditioning in ulps.
+ */
+export function referenceTrueToAnomaly(e: number, nu: number): [number, number] {
+  return withCondition(([eD, n]) => trueToAnomalyDec(eD!, n!), e, nu);
+}
+
+export function referenceAnomalyToTrue(e: number, x: number): [number, number] {
+  return withCondition(([eD, a]) => anomalyToTrueDec(eD!, a!), e, x);
+}
+
+export function referenceTrueToMean(e: number, nu: number): [number, number] {
+  return withCondition(([eD, n]) => {
+    const a = trueToAnomalyDec(eD!, n!);
+    return a === undefined ? undefined : anomalyToMeanDec(eD!, a);
+  }, e, nu);
 }
 
 /** [time, area, areal velocity] from nu1 to nu2 on the conic (mu, p, e). */

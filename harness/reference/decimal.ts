@@ -33,3 +33,46 @@ export function toDouble(x: Dec): number {
 export function piOf(D: typeof Dec): Dec {
   return D.acos(-1);
 }
+
+/**
+ * The problem's own conditioning in units in the last place: the largest change of f, in ulps of the rounded
+ * result, when one input double moves to a neighbouring double (both directions, each input in turn), all at
+ * high precision. A method working in the same precision as its inputs cannot be expected to beat a small
+ * multiple of it. `keep(i, x)` may refuse a perturbed input (for example one that changes the kind of conic).
+ */
+export function conditionUlps(D: typeof Dec, f: (xs: Dec[]) => Dec | undefined, inputs: readonly number[], keep: (i: number, x: number) => boolean = () => true): number {
+  const xs = inputs.map((x) => exact(D, x));
+  const base = f(xs);
+  if (base === undefined) return NaN;
+  const rounded = toDouble(base);
+  const ulp = Math.abs(rounded) === 0 ? 5e-324 : ulpOfDouble(rounded);
+  let worst = 0;
+  inputs.forEach((x, i) => {
+    for (const dir of [1, -1]) {
+      const y = neighbour(x, dir);
+      if (!Number.isFinite(y) || !keep(i, y)) continue;
+      const moved = [...xs];
+      moved[i] = exact(D, y);
+      const v = f(moved);
+      if (v === undefined) continue;
+      const change = v.minus(base).abs().div(ulp).toNumber();
+      if (change > worst) worst = change;
+    }
+  });
+  return worst;
+}
+
+function neighbour(x: number, dir: number): number {
+  if (x === 0) return dir * 5e-324;
+  const b = new DataView(new ArrayBuffer(8));
+  b.setFloat64(0, x);
+  const bits = b.getBigUint64(0);
+  const away = (x > 0) === (dir > 0);
+  b.setBigUint64(0, away ? bits + 1n : bits - 1n);
+  return b.getFloat64(0);
+}
+
+function ulpOfDouble(x: number): number {
+  const ax = Math.abs(x);
+  return neighbour(ax, 1) - ax;
+}

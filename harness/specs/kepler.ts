@@ -11,6 +11,7 @@ import type { Case, VectorSpec } from "./types.js";
 
 const KEPLER_GENERATOR = "areal vectors: harness/reference/kepler.ts (decimal.js, bracketed Newton to 1e-52, exact input doubles)";
 const CONVERSION_GENERATOR = "areal vectors: harness/reference/anomaly.ts (decimal.js, textbook closed forms, exact input doubles)";
+const COND_NOTE = "cond_ulp: the problem's conditioning, the largest change of the exact result in ulps when one input moves to a neighbouring double (reference/decimal.ts conditionUlps)";
 const PRECISION = "60 significant digits (60 + log10|M| for |M| > 1), rounded to nearest double";
 
 const next = (x: number): number => fromBits(toBits(x) + (x >= 0 ? 1n : -1n));
@@ -144,11 +145,11 @@ export const trueToAnomaly: VectorSpec = {
   suite: "true-to-anomaly",
   routine: "true-to-anomaly",
   inputs: ["e", "nu"],
-  refs: ["anomaly_ref"],
-  compare: [{ output: "anomaly", ref: "anomaly_ref", metric: "ulp" }],
+  refs: ["anomaly_ref", "cond_ulp"],
+  compare: [{ output: "anomaly", ref: "anomaly_ref", metric: "ulp", cond: "cond_ulp" }],
   generator: CONVERSION_GENERATOR,
   precision: "70 significant digits, rounded to nearest double",
-  notes: ["anomaly_ref: E (e < 1, same revolution as nu), D = tan(nu/2) (e = 1) or H (e > 1)", "tags: random (seed 20261205)"],
+  notes: [COND_NOTE, "anomaly_ref: E (e < 1, same revolution as nu), D = tan(nu/2) (e = 1) or H (e > 1)", "tags: random (seed 20261205)"],
   cases(): Case[] {
     const rng = new Rng(20261205);
     const out: Case[] = [];
@@ -158,18 +159,18 @@ export const trueToAnomaly: VectorSpec = {
     }
     return out;
   },
-  reference: ([e, nu]) => [referenceTrueToAnomaly(e!, nu!)],
+  reference: ([e, nu]) => referenceTrueToAnomaly(e!, nu!),
 };
 
 export const anomalyToTrue: VectorSpec = {
   suite: "anomaly-to-true",
   routine: "anomaly-to-true",
   inputs: ["e", "anomaly"],
-  refs: ["nu_ref"],
-  compare: [{ output: "nu", ref: "nu_ref", metric: "ulp" }],
+  refs: ["nu_ref", "cond_ulp"],
+  compare: [{ output: "nu", ref: "nu_ref", metric: "ulp", cond: "cond_ulp" }],
   generator: CONVERSION_GENERATOR,
   precision: "70 significant digits, rounded to nearest double",
-  notes: ["nu_ref: true anomaly (same revolution as E for e < 1)", "tags: random (seed 20261206)"],
+  notes: [COND_NOTE, "nu_ref: true anomaly (same revolution as E for e < 1)", "tags: random (seed 20261206)"],
   cases(): Case[] {
     const rng = new Rng(20261206);
     const out: Case[] = [];
@@ -180,18 +181,18 @@ export const anomalyToTrue: VectorSpec = {
     }
     return out;
   },
-  reference: ([e, x]) => [referenceAnomalyToTrue(e!, x!)],
+  reference: ([e, x]) => referenceAnomalyToTrue(e!, x!),
 };
 
 export const trueToMean: VectorSpec = {
   suite: "true-to-mean",
   routine: "true-to-mean",
   inputs: ["e", "nu"],
-  refs: ["M_ref"],
-  compare: [{ output: "M", ref: "M_ref", metric: "ulp" }],
+  refs: ["M_ref", "cond_ulp"],
+  compare: [{ output: "M", ref: "M_ref", metric: "ulp", cond: "cond_ulp" }],
   generator: CONVERSION_GENERATOR,
   precision: "70 significant digits, rounded to nearest double",
-  notes: ["M_ref: mean anomaly M (e < 1), Barker's D + D^3/3 (e = 1), M_h (e > 1)", "tags: random (seed 20261207)"],
+  notes: [COND_NOTE, "M_ref: mean anomaly M (e < 1), Barker's D + D^3/3 (e = 1), M_h (e > 1)", "tags: random (seed 20261207)"],
   cases(): Case[] {
     const rng = new Rng(20261207);
     const out: Case[] = [];
@@ -201,7 +202,7 @@ export const trueToMean: VectorSpec = {
     }
     return out;
   },
-  reference: ([e, nu]) => [referenceTrueToMean(e!, nu!)],
+  reference: ([e, nu]) => referenceTrueToMean(e!, nu!),
 };
 
 export const timeOfFlight: VectorSpec = {
@@ -240,4 +241,45 @@ export const timeOfFlight: VectorSpec = {
   reference: ([mu, p, e, nu1, nu2]) => referenceTimeOfFlight(mu!, p!, e!, nu1!, nu2!),
 };
 
-export const KEPLER_SPECS: readonly VectorSpec[] = [keplerElliptic, keplerHyperbolic, keplerParabolic, trueToAnomaly, anomalyToTrue, trueToMean, timeOfFlight];
+/**
+ * A companion suite whose inputs are exact binary32 values (every case of `base`, thinned to about `count`,
+ * inputs rounded to f32 and kept where `valid` holds), so that the single-precision build can be checked against
+ * references for exactly the inputs it receives. The f64 build runs these too.
+ */
+function singleInputs(base: VectorSpec, count: number, valid: (x: readonly number[]) => boolean): VectorSpec {
+  return {
+    ...base,
+    suite: `${base.suite}-f32in`,
+    notes: [...base.notes, `inputs: the cases of ${base.suite}, thinned to about ${count} and rounded to binary32 (exact f32 values)`],
+    cases(): Case[] {
+      const all = base.cases();
+      const stride = Math.max(1, Math.floor(all.length / count));
+      const out: Case[] = [];
+      for (let i = 0; i < all.length; i += stride) {
+        const x = all[i]!.inputs.map((v) => Math.fround(v));
+        const normal = x.every((v) => Number.isFinite(v) && (v === 0 || Math.abs(v) >= 1.1754943508222875e-38));
+        if (normal && valid(x)) out.push({ inputs: x, tag: all[i]!.tag });
+      }
+      return out;
+    },
+  };
+}
+
+const reachable = ([e, nu]: readonly number[]): boolean => e! >= 0 && (e! < 1 || Math.abs(nu!) < 0.999 * Math.acos(-1 / e!));
+
+export const KEPLER_SPECS: readonly VectorSpec[] = [
+  keplerElliptic,
+  keplerHyperbolic,
+  keplerParabolic,
+  trueToAnomaly,
+  anomalyToTrue,
+  trueToMean,
+  timeOfFlight,
+  singleInputs(keplerElliptic, 2000, ([e]) => e! < 1),
+  singleInputs(keplerHyperbolic, 1000, ([e]) => e! > 1),
+  singleInputs(keplerParabolic, 500, () => true),
+  singleInputs(trueToAnomaly, 500, reachable),
+  singleInputs(anomalyToTrue, 500, ([e]) => e! >= 0),
+  singleInputs(trueToMean, 500, reachable),
+  singleInputs(timeOfFlight, 500, ([, , e, nu1, nu2]) => reachable([e!, nu1!]) && reachable([e!, nu2!]) && nu1 !== nu2),
+];

@@ -18,7 +18,10 @@ export interface Comparison {
    * `abs`: |got - want| (limit key `max_abs`).
    */
   readonly metric: "ulp" | "rel" | "abs";
-  /** Vector column with the case's conditioning; the relative limit becomes max(max_rel, cond_factor * cond). */
+  /**
+   * Vector column with the case's conditioning; the limit becomes max(max_rel, cond_factor * cond) for `rel`,
+   * and max(max_ulp, cond_factor * cond) for `ulp` (cond then in ulps).
+   */
   readonly cond?: string;
   /** Vector column with a revolution count; the relative limit scales by (1 + revs). */
   readonly revs?: string;
