@@ -2,7 +2,7 @@
 //
 // Method
 //  1. Special cases, in order: NaN or infinite input -> ERR_NONFINITE; e outside [0, 1) -> ERR_DOMAIN;
-//     e = 0 -> E = M; |M| >= 2^53 -> E = M (every real there is an even integer and |E - M| <= e < 1,
+//     e = 0 or M = 0 -> E = M (keeps the sign of a zero); |M| >= 2^53 -> E = M (every real there is an even integer and |E - M| <= e < 1,
 //     so M is the correctly rounded root).
 //  2. Remove whole turns exactly: M = 2 pi k + m, m a double-real (reduce.ts). By symmetry solve for |m|.
 //  3. Starter: F. L. Markley, "Kepler equation solver", Celest. Mech. Dyn. Astron. 63 (1995) 101-111:
@@ -51,7 +51,7 @@ export function kepler_elliptic(e: real, M: real): i32 {
   put(1, 0);
   if (!isFinite(e) || !isFinite(M)) return ERR_NONFINITE;
   if (!(e >= 0 && e < 1)) return ERR_DOMAIN;
-  if (e == 0 || abs(M) >= INTEGER_LIMIT) {
+  if (e == 0 || M == 0 || abs(M) >= INTEGER_LIMIT) {
     put(0, M);
     return OK;
   }
