@@ -10,6 +10,7 @@ const OUT: usize = memory.data(OUT_SLOTS * 8, 16);
 /** Write output slot `i` (0 <= i < OUT_SLOTS; callers use constant indices). */
 // @ts-ignore: decorator
 @inline export function put(i: i32, v: real): void {
+  assert(i >= 0 && i < OUT_SLOTS, "output slot out of range"); // debug build only
   store<real>(OUT + (<usize>i << alignof<real>()), v);
 }
 

@@ -25,7 +25,7 @@
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED } from "./status";
 import { put } from "./io";
-import { IS_F32, INTEGER_LIMIT, PI } from "./real";
+import { IS_F32, INTEGER_LIMIT, PI, EPS } from "./real";
 import { reduceTurns, turns, reducedLo } from "./reduce";
 import { SERIES_MAX, xMinusSinSeries } from "./series";
 
@@ -78,6 +78,9 @@ export function kepler_elliptic(e: real, M: real): i32 {
     const d = (E - mh) - ml; // = e sin E_m, exact subtraction when E and mh are within a factor 2
     out = M + (neg ? -d : d);
   }
+  // Cannot trigger for finite inputs (|E - M| <= e); kept so that no path returns OK with a non-finite value.
+  if (!isFinite(out)) return ERR_NOT_CONVERGED;
+  assert(abs(out - M) <= e + abs(M) * EPS, "root outside |E - M| <= e"); // debug build only
   put(0, out);
   put(1, <real>iterations);
   return OK;

@@ -54,6 +54,7 @@ export function kepler_hyperbolic(e: real, M: real): i32 {
     put(1, <real>HYPERBOLIC_MAX_ITER);
     return ERR_NOT_CONVERGED;
   }
+  if (!isFinite(H)) return ERR_NOT_CONVERGED; // not reachable for finite inputs (H <= ~711); no OK with non-finite
   put(0, M < 0 ? -H : H);
   put(1, <real>iterations);
   return OK;

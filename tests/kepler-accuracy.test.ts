@@ -5,6 +5,7 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single } from "./helpers.js";
+import { loadBuild } from "../harness/load.js";
 import { runSuite } from "../harness/check.js";
 import { KEPLER_SPECS } from "../harness/specs/kepler.js";
 
@@ -25,6 +26,13 @@ describe("Kepler suites against the 60-digit references", () => {
       if (spec.suite.endsWith("-f32in")) expect(r.applicable).toBe(true);
     });
   }
+
+  it("the debug build (assertions on: output slot range, |E - M| <= e) runs the solver suites without an assertion firing", () => {
+    const debug = loadBuild("debug");
+    for (const spec of KEPLER_SPECS.filter((s) => s.suite.startsWith("kepler-"))) {
+      expect(runSuite(spec, debug).reasons).toEqual([]);
+    }
+  });
 
   it("the corner (e >= 0.99, |M| <= 0.0045) is in the elliptic set, thousands of cases deep", () => {
     const spec = KEPLER_SPECS.find((s) => s.suite === "kepler-elliptic")!;
