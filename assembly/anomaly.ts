@@ -17,6 +17,8 @@
 //   (M2 - M1) / (1 - e^2)^(3/2) (ellipse), (M2 - M1) / (e^2 - 1)^(3/2) (hyperbola), (M2 - M1) / 2 (parabola).
 //
 // Output slot 0 holds the result; time_of_flight also writes slot 1 = swept area, slot 2 = h/2.
+// time_of_flight returns ERR_DOMAIN on the ellipse when |nu1| or |nu2| >= 2^53 (the turn count is not
+// determined there) and ERR_OVERFLOW when the time, the area or h/2 is beyond the floating-point range.
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_UNREACHABLE, ERR_OVERFLOW, FIRST_ERROR } from "./status";
 import { put, got } from "./io";
@@ -185,6 +187,9 @@ export function mean_to_true(e: real, M: real): i32 {
 export function time_of_flight(mu: real, p: real, e: real, nu1: real, nu2: real): i32 {
   if (!isFinite(mu) || !isFinite(p) || !isFinite(e) || !isFinite(nu1) || !isFinite(nu2)) return ERR_NONFINITE;
   if (!(mu > 0) || !(p > 0) || !(e >= 0)) return ERR_DOMAIN;
+  // On the ellipse the whole turns between nu1 and nu2 count; beyond 2^53 rad a true anomaly no longer
+  // determines its turn count to one turn, so the time is not defined there.
+  if (e < 1 && (abs(nu1) >= INTEGER_LIMIT || abs(nu2) >= INTEGER_LIMIT)) return ERR_DOMAIN;
   let s = trueToAnomaly(e, nu1);
   if (s == OK) s = meanAfterTrue(e, nu1);
   if (s != OK) return s;
@@ -207,7 +212,7 @@ export function time_of_flight(mu: real, p: real, e: real, nu1: real, nu2: real)
   const area = <real>0.5 * p * p * integral;
   const arealRate = <real>0.5 * RMath.sqrt(mu * p);
   const t = area / arealRate;
-  if (!isFinite(t) || !isFinite(area)) return ERR_OVERFLOW;
+  if (!isFinite(t) || !isFinite(area) || !isFinite(arealRate)) return ERR_OVERFLOW;
   put(0, t);
   put(1, area);
   put(2, arealRate);

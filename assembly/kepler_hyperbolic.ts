@@ -15,7 +15,9 @@
 //     f' = (e - 1) + e (cosh H - 1), cosh H - 1 = sinh^2 H / (cosh H + 1).
 //     Large H: Newton on g = ln(e sinh H) - ln(M + H), nearly linear in H, with
 //     ln(e sinh H) = ln e + H - ln 2 + log1p(-exp(-2H)): no sinh or cosh is formed, so nothing overflows for
-//     any finite M and e (M up to 1.8e308 gives H about 710).
+//     any finite M and e (M up to 1.8e308 gives H about 710); ln e - ln(M + H) is taken as ln(e / (M + H))
+//     while that ratio is normal, so huge e and M do not leave an ulp of ln e (~600) in H.
+//     e > HUGE_E: the small-H residual and its derivatives are divided through by e (no e cosh H overflow).
 //  4. Stop when the step is below STOP_REL * H; at most HYPERBOLIC_MAX_ITER steps, else ERR_NOT_CONVERGED.
 //
 // Output slots: 0 = H, 1 = iterations.
@@ -32,6 +34,10 @@ const LOG_FORM_H: real = 20.0;
 /** The cubic starter is used below this H (there it is within 9% of the root; beyond, the asinh bound is closer). */
 const CUBIC_MAX: real = 2.2;
 const LN2: real = <real>0.6931471805599453;
+/** Smallest normal real (2^-1022, 2^-126). */
+const MIN_NORMAL: real = IS_F32 ? <real>1.1754943508222875e-38 : <real>2.2250738585072014e-308;
+/** Above this e the small-H residual is evaluated divided through by e (2^1000, 2^120). */
+const HUGE_E: real = IS_F32 ? <real>1.329227995784916e36 : <real>1.0715086071862673e301;
 const SIXTH: real = <real>0.16666666666666666;
 
 /** Below this |M| the root is M / (e - 1) (the cubic term is below 2^-440 relative; see kepler_elliptic.ts). */
@@ -85,21 +91,30 @@ function solvePositive(e: real, m: real): real {
   let H = starter(e, em1, m);
   if (!(H > 0)) H = m / em1 < <real>1.0 ? m / em1 : <real>1.0; // underflowed starter: linear regime
   const lnE = RMath.log(e);
+  // For e near the top of the range, e cosh H overflows although the root is moderate: the equation is then
+  // divided through by e (the steps are ratios, unchanged); below HUGE_E nothing is scaled, bit for bit.
+  const scaled = e > HUGE_E;
+  const es: real = scaled ? <real>1.0 : e;
+  const ems: real = scaled ? em1 / e : em1;
+  const ms: real = scaled ? m / e : m;
   for (let it = 1; it <= HYPERBOLIC_MAX_ITER; it++) {
     let step: real;
     if (H > LOG_FORM_H) {
-      const lnS = lnE + H - LN2 + RMath.log1p(-RMath.exp(<real>-2.0 * H));
-      const g = lnS - RMath.log(m + H);
+      // g = ln e - ln(M + H) + H - ln 2 + log1p(-exp(-2H)). With e and M both huge the two logarithms are
+      // large and nearly equal; take them as one logarithm of the ratio while the ratio is a normal real.
+      const ratio = e / (m + H);
+      const lnRatio = ratio >= MIN_NORMAL ? RMath.log(ratio) : lnE - RMath.log(m + H);
+      const g = (H - LN2 + RMath.log1p(-RMath.exp(<real>-2.0 * H))) + lnRatio;
       const g1 = <real>1.0 / RMath.tanh(H) - <real>1.0 / (m + H);
       step = -g / g1;
     } else {
       const sh = RMath.sinh(H);
       const ch = RMath.sqrt(<real>1.0 + sh * sh);
       const shm = H <= SERIES_MAX ? sinhMinusXSeries(H) : sh - H;
-      const f0 = (em1 * H + e * shm) - m;
-      const f1 = em1 + e * (sh * sh / (ch + <real>1.0));
-      const f2 = e * sh;
-      const f3 = e * ch;
+      const f0 = (ems * H + es * shm) - ms;
+      const f1 = ems + es * (sh * sh / (ch + <real>1.0));
+      const f2 = es * sh;
+      const f3 = es * ch;
       const d1 = -f0 / f1;
       const d2 = -f0 / (f1 + <real>0.5 * d1 * f2);
       step = -f0 / (f1 + <real>0.5 * d2 * f2 + d2 * d2 * f3 * SIXTH);

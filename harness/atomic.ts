@@ -11,7 +11,12 @@ export function writeAtomic(path: string, data: string | Uint8Array): void {
     writeFileSync(tmp, data);
     renameSync(tmp, path);
   } catch (err) {
-    rmSync(tmp, { force: true });
-    throw new Error(`cannot write ${path}: ${(err as NodeJS.ErrnoException).code ?? (err as Error).message}`);
+    try {
+      rmSync(tmp, { force: true });
+    } catch {
+      // the folder itself is not usable (for example a file stands where the folder should be): nothing to remove
+    }
+    const e = err as NodeJS.ErrnoException;
+    throw new Error(`cannot write ${path}: ${e.code ? `${e.code} (${e.message.split(",")[0]})` : e.message}`);
   }
 }

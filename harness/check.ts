@@ -71,7 +71,11 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
   const cmp = spec.compare.map((c) => {
     const slot = outIndex.get(c.output);
     if (slot === undefined) throw new Error(`suite ${spec.suite}: routine ${routine.name} has no output ${c.output}`);
-    return { c, slot, ref: col(v, c.ref), cond: c.cond ? col(v, c.cond) : -1, revs: c.revs ? col(v, c.revs) : -1 };
+    // A vector comparison (group/refGroup): the error is |got - want| / |want| over the group's columns.
+    const slots = c.group?.map((o) => outIndex.get(o) ?? -1);
+    if (slots?.includes(-1)) throw new Error(`suite ${spec.suite}: routine ${routine.name} lacks an output of group ${c.group!.join(",")}`);
+    const refs = c.refGroup?.map((o) => col(v, o));
+    return { c, slot, ref: col(v, c.ref), cond: c.cond ? col(v, c.cond) : -1, revs: c.revs ? col(v, c.revs) : -1, slots, refs };
   });
   const acc = cmp.map(() => ({ max: 0, maxRatio: 0, maxAbs: 0, worst: undefined as Worst | undefined }));
   const rows = opts.rows ?? v.values.map((_, i) => i);
@@ -110,11 +114,24 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
       if (it > iterMax) iterMax = it;
     }
     cmp.forEach((m, j) => {
-      const got = k.out[m.slot]!;
-      const want = row[m.ref]!;
+      let got = k.out[m.slot]!;
+      let want = row[m.ref]!;
       if (Number.isNaN(want)) return; // no reference for this output on this case
       const a = acc[j]!;
-      const absErr = Math.abs(got - want);
+      let absErr = Math.abs(got - want);
+      if (m.slots && m.refs) {
+        // Vector: want becomes |want| and got |want| + |got - want| (what the worst-case line shows).
+        let d2 = 0;
+        let w2 = 0;
+        m.slots.forEach((sl, q) => {
+          const w = row[m.refs![q]!]!;
+          d2 += (k.out[sl]! - w) ** 2;
+          w2 += w * w;
+        });
+        absErr = Math.sqrt(d2);
+        want = Math.sqrt(w2);
+        got = want + absErr;
+      }
       let err: number;
       let lim: number;
       if (m.c.metric === "ulp") {
@@ -126,7 +143,7 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
         lim = Math.max((limits.max_rel ?? 0) * (1 + revs), m.cond >= 0 ? (limits.cond_factor ?? 0) * row[m.cond]! : 0);
       } else {
         err = absErr;
-        lim = limits.max_abs ?? 0;
+        lim = Math.max(limits.max_abs ?? 0, m.cond >= 0 ? (limits.cond_factor ?? 0) * row[m.cond]! : 0);
       }
       if (Number.isNaN(got)) err = Infinity;
       const ratio = lim > 0 ? err / lim : err > 0 ? Infinity : 0;

@@ -5,9 +5,10 @@
  */
 import { parseArgs } from "node:util";
 import { readFileSync, existsSync } from "node:fs";
+import { basename } from "node:path";
 import { ROUTINES, findRoutine } from "./routines.js";
 import { loadBuild, loadFile, type Kernels, ModuleError } from "./load.js";
-import { evaluateCsv, EvalError } from "./evaluate.js";
+import { EvalError } from "./evaluate.js";
 import { CsvError } from "./csv.js";
 import { writeAtomic } from "./atomic.js";
 import { runSuite, type SuiteResult } from "./check.js";
@@ -15,6 +16,19 @@ import { SPECS } from "./specs/index.js";
 import { selectSpecs, writeSuite } from "./generate.js";
 import { formatCheckTable, checkJson } from "./report.js";
 import { demoLines } from "./demo.js";
+import { runBench, formatBench, benchJson, DEFAULT_SETTINGS, LONG_SETTINGS } from "./bench.js";
+import { ProfileError } from "./opcount.js";
+import { writeReport } from "./report/index.js";
+import { BUILDS, loadNamedBuild, loadModule, type BuildName } from "./builds.js";
+import { planModule, skippedLines } from "./abi.js";
+import { compareCommand, COMPARE_USAGE } from "./compare.js";
+import { parseScenario, propagate, progressBar } from "./integrate.js";
+import { statusWord } from "./status.js";
+import { evaluateFile } from "./evaluate.js";
+import { WorkerPool, parseWorkers, progressLine, progressWanted, type KernelSource } from "./workers.js";
+import { parseGrid, parseShard, runSweep, formatSweep, moduleIdentity, sweepRoutine } from "./sweep.js";
+import { mergeSweeps } from "./merge.js";
+import type { VectorSpec } from "./specs/types.js";
 
 type OptionType = "string" | "boolean";
 interface OptionDef {
@@ -30,13 +44,24 @@ interface OptionDef {
 const OPTIONS = {
   input: { type: "string", short: "i", help: "input CSV (header of named columns)" },
   out: { type: "string", short: "o", help: "output file (written whole, or not at all)" },
-  build: { type: "string", help: "which build runs the kernels", values: ["f64", "f32", "debug"] },
+  build: { type: "string", help: "which build runs the kernels", values: BUILDS },
+  builds: { type: "string", help: "comma-separated builds to compare, the first is the baseline (f64,native,js,f32)" },
+  tol: { type: "string", help: "compare a.csv b.csv: largest allowed absolute difference per cell" },
   module: { type: "string", help: "an external WebAssembly module following docs/abi.md" },
   suite: { type: "string", multiple: true, help: "limit to this vector suite (repeatable)" },
   json: { type: "string", help: "also write the results as JSON to this file" },
   verbose: { type: "boolean", short: "v", help: "more detail: iteration histograms, limits and their reasons" },
   date: { type: "string", help: "date written into vector headers (YYYY-MM-DD; default today)" },
   "out-dir": { type: "string", help: "folder for generated vector files (default vectors/)" },
+  scenario: { type: "string", short: "s", help: "scenario JSON (harness/integrate.ts lists its fields)" },
+  csv: { type: "string", help: "trajectory CSV to write (default <scenario name>.csv here)" },
+  oem: { type: "string", help: "CCSDS OEM (KVN) file to write (default <scenario name>.oem here)" },
+  workers: { type: "string", help: "worker threads, each with its own module instance (default: the number of cores)" },
+  grid: { type: "string", help: "sweep: grid description JSON (harness/sweep.ts lists its fields)" },
+  shard: { type: "string", help: "sweep: run only shard k of n (k/n, for job arrays); join the parts with areal merge" },
+  report: { type: "string", help: "also write the HTML report (one self-contained file) and its JSON into this folder" },
+  long: { type: "boolean", help: "bench: longer timings and a finer iteration grid (several minutes)" },
+  profile: { type: "string", help: "bench: target profile JSON (cycles per operation; bench/profiles/example-target.json)" },
   help: { type: "boolean", short: "h", help: "show help" },
 } as const satisfies Record<string, OptionDef>;
 
@@ -57,15 +82,15 @@ function loadKernels(values: Record<string, unknown>): Kernels {
     if (values.build !== undefined) throw new UsageError("--module and --build exclude each other");
     return loadFile(mod);
   }
-  return loadBuild(((values.build as string | undefined) ?? "f64") as "f64" | "f32" | "debug");
+  return loadNamedBuild(((values.build as string | undefined) ?? "f64") as BuildName);
 }
 
 const COMMANDS: Record<string, Command> = {
   eval: {
     summary: "run a routine over a CSV of inputs",
-    usage: "areal eval <routine> --input cases.csv [--out results.csv] [--build f64|f32] [--module file.wasm]",
-    options: ["input", "out", "build", "module"],
-    run(pos, values) {
+    usage: "areal eval <routine> --input cases.csv [--out results.csv] [--build f64|f32|js|native|debug] [--module file.wasm] [--workers N]",
+    options: ["input", "out", "build", "module", "workers"],
+    async run(pos, values) {
       const name = pos[0];
       if (name === undefined) throw new UsageError(`eval needs a routine: ${ROUTINES.map((r) => r.name).join(", ")}`);
       const routine = findRoutine(name);
@@ -73,12 +98,19 @@ const COMMANDS: Record<string, Command> = {
       const input = values.input as string | undefined;
       if (input === undefined) throw new UsageError("eval needs --input FILE");
       if (!existsSync(input)) throw new UsageError(`--input: no such file: ${input}`);
+      const workers = parseWorkers(values.workers as string | undefined);
       const k = loadKernels(values);
-      const res = evaluateCsv(routine, readFileSync(input, "utf8"), input, k);
       const out = values.out as string | undefined;
-      if (out === undefined) process.stdout.write(res.csv);
-      else {
-        writeAtomic(out, res.csv);
+      // Streamed in chunks through the workers; the output appears whole at the end, or not at all.
+      const bar = progressLine(progressWanted());
+      const mb = (b: number): string => (b / 1048576).toFixed(0);
+      let res;
+      try {
+        res = await evaluateFile(routine, input, input, { workers, load: kernelSource(values), kernels: k, out, progress: (d, n) => bar.update(`${routine.name}: ${mb(d)} of ${mb(n)} MB read`) });
+      } finally {
+        bar.end();
+      }
+      if (out !== undefined) {
         const counts = Object.entries(res.statuses).map(([w, n]) => `${n} ${w}`).join(", ");
         process.stderr.write(`${routine.name}: ${res.rows} rows (${counts || "none"}) -> ${out}\n`);
       }
@@ -87,13 +119,34 @@ const COMMANDS: Record<string, Command> = {
   },
   check: {
     summary: "run the vector suites against a build and compare with the references",
-    usage: "areal check [--build f64|f32] [--module file.wasm] [--suite NAME]... [--json FILE] [--verbose]",
-    options: ["build", "module", "suite", "json", "verbose"],
-    run(_pos, values) {
-      const k = loadKernels(values);
-      const results = runChecks(k, (values.suite as string[] | undefined) ?? []);
+    usage: "areal check [--build f64|f32|js|native|debug] [--module file.wasm] [--suite NAME]... [--json FILE] [--verbose] [--workers N] [--report DIR]",
+    options: ["build", "module", "suite", "json", "verbose", "workers", "report"],
+    async run(_pos, values) {
+      const workers = parseWorkers(values.workers as string | undefined);
+      const mod = values.module as string | undefined;
+      let k: Kernels;
+      let results: SuiteResult[];
+      if (mod !== undefined) {
+        // An external module: run the suites whose exports it has (with the ABI's signatures), name the rest.
+        if (values.build !== undefined) throw new UsageError("--module and --build exclude each other");
+        const m = loadModule(mod);
+        k = m.kernels;
+        const suites = (values.suite as string[] | undefined) ?? [];
+        const plan = planModule(m.signatures, k.realBytes, suites.length === 0 ? SPECS : selectSpecs(suites), ROUTINES, mod);
+        for (const line of skippedLines(plan)) process.stdout.write(`${line}\n`);
+        if (plan.run.length === 0) {
+          process.stderr.write(`areal: ${mod} has none of the exports the selected suites need (docs/abi.md)\n`);
+          return 1;
+        }
+        results = await runSuitesOn(plan.run, k, { module: mod }, workers);
+      } else {
+        k = loadKernels(values);
+        const suites = (values.suite as string[] | undefined) ?? [];
+        results = await runSuitesOn(suites.length === 0 ? SPECS : selectSpecs(suites), k, kernelSource(values), workers);
+      }
       process.stdout.write(formatCheckTable(results, k, Boolean(values.verbose)));
       if (values.json !== undefined) writeAtomic(values.json as string, JSON.stringify(checkJson(results, k), null, 2) + "\n");
+      if (values.report !== undefined) process.stderr.write(`report: ${(await writeReport(values.report as string, results, k)).html}\n`);
       return results.every((r) => r.pass) ? 0 : 1;
     },
   },
@@ -127,14 +180,129 @@ const COMMANDS: Record<string, Command> = {
   },
   start: {
     summary: "check the release build against every suite, then show the demo (what `npm start` runs)",
-    usage: "areal start",
-    options: ["verbose"],
-    run(_pos, values) {
+    usage: "areal start [--report DIR]",
+    options: ["verbose", "report"],
+    async run(_pos, values) {
       const k = loadBuild("f64");
       const results = runChecks(k, []);
       process.stdout.write(formatCheckTable(results, k, Boolean(values.verbose)) + "\n");
       process.stdout.write(demoLines(k).join("\n") + "\n");
+      const rep = await writeReport((values.report as string | undefined) ?? "out/report", results, k);
+      process.stdout.write(`\nreport: ${rep.html} (open it in a browser; machine-readable: ${rep.json})\n`);
       return results.every((r) => r.pass) ? 0 : 1;
+    },
+  },
+  propagate: {
+    summary: "fixed-step propagation of a scenario: trajectory CSV with every step's invariants, CCSDS OEM",
+    usage: "areal propagate --scenario FILE [--csv FILE] [--oem FILE] [--date YYYY-MM-DD] [--build f64|f32] [--module file.wasm]",
+    options: ["scenario", "csv", "oem", "date", "build", "module"],
+    run(_pos, values) {
+      const file = values.scenario as string | undefined;
+      if (file === undefined) throw new UsageError("propagate needs --scenario FILE");
+      if (!existsSync(file)) throw new UsageError(`--scenario: no such file: ${file}`);
+      const date = (values.date as string | undefined) ?? new Date().toISOString().slice(0, 10);
+      if (!/^\d{4}-\d{2}-\d{2}$/.test(date)) throw new UsageError(`--date: '${date}' is not YYYY-MM-DD`);
+      const sc = parseScenario(readFileSync(file, "utf8"), file);
+      const k = loadKernels(values);
+      const base = basename(file).replace(/\.json$/i, "");
+      const csvPath = (values.csv as string | undefined) ?? `${base}.csv`;
+      const oemPath = (values.oem as string | undefined) ?? `${base}.oem`;
+      const bar = process.stderr.isTTY ? progressBar(process.stderr, `${sc.spacecraft} ${sc.method}`) : undefined;
+      const res = propagate(k, sc, { progress: bar, creationDate: `${date}T00:00:00`, source: k.label });
+      if (bar && res.steps !== sc.steps) process.stderr.write("\n");
+      writeAtomic(csvPath, res.csv);
+      writeAtomic(oemPath, res.oem);
+      const devs = Object.entries(res.maxDev).map(([n, d]) => `${n} ${d.toExponential(2)}`).join(", ");
+      process.stderr.write(`propagate: ${res.steps} steps of ${sc.step} s, max deviations ${devs} -> ${csvPath}, ${oemPath}\n`);
+      let code = 0;
+      if (res.status !== 0) {
+        process.stderr.write(`areal: integration stopped at step ${res.steps + 1}: ${statusWord(res.status)}\n`);
+        code = 1;
+      }
+      for (const b of res.breaches) {
+        process.stderr.write(`areal: budget broken: ${b.invariant} deviation above ${b.budget} first at step ${b.step} (t = ${b.t} s); largest ${b.max.toExponential(3)}\n`);
+        code = 1;
+      }
+      return code;
+    },
+  },
+  compare: {
+    summary: "compare builds on the vector suites (bits, ULP), or two result CSVs of the same cases",
+    usage: COMPARE_USAGE,
+    options: ["builds", "suite", "tol", "json", "verbose"],
+    run(pos, values) {
+      return compareCommand(pos, values, (m) => new UsageError(m));
+    },
+  },
+  sweep: {
+    summary: "run a routine over a grid of inputs and summarise errors, iterations and statuses (JSON)",
+    usage: "areal sweep <routine> --grid grid.json --out part.json [--shard k/n] [--workers N] [--build f64|f32|js|native|debug] [--module file.wasm]",
+    options: ["grid", "shard", "out", "workers", "build", "module"],
+    async run(pos, values) {
+      const name = pos[0];
+      if (name === undefined) throw new UsageError(`sweep needs a routine: ${ROUTINES.map((r) => r.name).join(", ")}`);
+      if (!findRoutine(name)) throw new UsageError(`unknown routine '${name}' (known: ${ROUTINES.map((r) => r.name).join(", ")})`);
+      const routine = sweepRoutine(name);
+      const gridFile = values.grid as string | undefined;
+      if (gridFile === undefined) throw new UsageError("sweep needs --grid FILE (harness/sweep.ts describes it)");
+      if (!existsSync(gridFile)) throw new UsageError(`--grid: no such file: ${gridFile}`);
+      const out = values.out as string | undefined;
+      if (out === undefined) throw new UsageError("sweep needs --out FILE");
+      const shard = values.shard === undefined ? { k: 1, n: 1 } : parseShard(values.shard as string);
+      const workers = parseWorkers(values.workers as string | undefined);
+      const g = parseGrid(readFileSync(gridFile, "utf8"), gridFile, routine);
+      const k = loadKernels(values);
+      const load = kernelSource(values);
+      const bar = progressLine(progressWanted());
+      const t0 = Date.now();
+      let doc;
+      try {
+        doc = await runSweep(routine, g, { shard, workers, load, kernels: k, module: moduleIdentity(load, k.label), progress: (d, n) => bar.update(`${routine.name} ${shard.k}/${shard.n}: ${d} of ${n} cases (${((100 * d) / Math.max(1, n)).toFixed(1)}%)`) });
+      } finally {
+        bar.end();
+      }
+      writeAtomic(out, formatSweep(doc));
+      const err = doc.error ? `, error max ${doc.error.max ?? "-"} mean ${doc.error.mean === null ? "-" : doc.error.mean.toPrecision(3)} ulp (estimate)` : "";
+      const ref = doc.reference ? `, decimal.js checks ${doc.reference.checked} max ${doc.reference.max_ulp ?? "-"} ulp` : "";
+      const st = Object.entries(doc.status).map(([w, c]) => `${c} ${w}`).join(", ");
+      process.stderr.write(`sweep ${routine.name} shard ${shard.k}/${shard.n}: ${doc.cases} cases (${st || "none"})${err}${ref} in ${((Date.now() - t0) / 1000).toFixed(1)} s -> ${out}\n`);
+      return 0;
+    },
+  },
+  merge: {
+    summary: "merge the shard files of a sweep into the file one unsharded run writes",
+    usage: "areal merge part-*.json --out sweep.json",
+    options: ["out"],
+    run(pos, values) {
+      if (pos.length === 0) throw new UsageError("merge needs the shard files (areal merge part-*.json --out sweep.json)");
+      for (const p of pos) if (!existsSync(p)) throw new UsageError(`merge: no such file: ${p}`);
+      const doc = mergeSweeps(pos.map((path) => ({ path, text: readFileSync(path, "utf8") })));
+      const out = values.out as string | undefined;
+      if (out === undefined) process.stdout.write(formatSweep(doc));
+      else writeAtomic(out, formatSweep(doc));
+      process.stderr.write(`merge: ${pos.length} shard file(s), ${doc.cases} cases${out === undefined ? "" : ` -> ${out}`}\n`);
+      return 0;
+    },
+  },
+  bench: {
+    summary: "timings (WebAssembly and host JS), baselines, iteration and operation counts, cost model",
+    usage: "areal bench [--json FILE] [--long] [--profile FILE]",
+    options: ["json", "long", "profile"],
+    async run(_pos, values) {
+      const tty = process.stderr.isTTY;
+      try {
+        const r = await runBench(values.long ? LONG_SETTINGS : DEFAULT_SETTINGS, {
+          log: (l) => void (tty ? process.stderr.write(`${l}\n`) : undefined),
+          loadJs: () => loadNamedBuild("js"),
+          profilePath: values.profile as string | undefined,
+        });
+        process.stdout.write(formatBench(r));
+        if (values.json !== undefined) writeAtomic(values.json as string, JSON.stringify(benchJson(r), null, 2) + "\n");
+        return 0;
+      } catch (err) {
+        if (err instanceof ProfileError) throw new UsageError(err.message);
+        throw err;
+      }
     },
   },
   routines: {
@@ -149,6 +317,32 @@ const COMMANDS: Record<string, Command> = {
     },
   },
 };
+
+/** Which module workers load: the same as loadKernels. */
+function kernelSource(values: Record<string, unknown>): KernelSource {
+  const mod = values.module as string | undefined;
+  return mod !== undefined ? { module: mod } : { build: (values.build as string | undefined) ?? "f64" };
+}
+
+/**
+ * Run suites on `k`, or spread over worker threads (one suite per job, results in suite order, so the table
+ * and JSON are the same for any number of workers).
+ */
+async function runSuitesOn(specs: readonly VectorSpec[], k: Kernels, load: KernelSource, workers: number): Promise<SuiteResult[]> {
+  const n = Math.min(workers, specs.length);
+  if (n <= 1) return specs.map((s) => runSuite(s, k));
+  const pool = await WorkerPool.start(n, { kind: "check", load });
+  const results: SuiteResult[] = [];
+  try {
+    await pool.runOrdered<string, SuiteResult>(specs.map((s) => s.suite)[Symbol.iterator](), (r, suite) => {
+      if (!r.ok) throw new Error(`suite ${suite}: ${r.message}`);
+      results.push(r.value);
+    });
+  } finally {
+    await pool.close();
+  }
+  return results;
+}
 
 /** Run the selected suites (all when none are named). */
 export function runChecks(k: Kernels, suites: readonly string[]): SuiteResult[] {
@@ -209,6 +403,11 @@ export async function main(argv: readonly string[]): Promise<number> {
   } catch (err) {
     if (err instanceof UsageError || err instanceof CsvError || err instanceof EvalError || err instanceof ModuleError) {
       process.stderr.write(`areal: ${err.message}\n`);
+      return 2;
+    }
+    if (err instanceof WebAssembly.RuntimeError) {
+      // A trap inside a kernel: the module is faulty (a kernel following docs/abi.md returns a status instead).
+      process.stderr.write(`areal: the kernel module trapped (${err.message}); the module is faulty, nothing was written\n`);
       return 2;
     }
     const msg = (err as Error).message ?? String(err);

@@ -28,26 +28,39 @@ export function parseCsv(text: string, source: string): Table {
     else if (l.trim() !== "") break;
   }
   if (i >= raw.length) throw new CsvError(`${source}: empty file (no header line)`);
-  const columns = raw[i]!.split(",").map((c) => c.trim());
-  const seen = new Set<string>();
-  columns.forEach((c, j) => {
-    if (c === "") throw new CsvError(`${source}:${i + 1}: header column ${j + 1} is empty`);
-    if (seen.has(c)) throw new CsvError(`${source}:${i + 1}: header names column '${c}' twice`);
-    seen.add(c);
-  });
+  const columns = headerCells(raw[i]!, i + 1, source);
   const rows: string[][] = [];
   const lines: number[] = [];
   for (let k = i + 1; k < raw.length; k++) {
-    const l = raw[k]!;
-    if (l.trim() === "" || l.startsWith("#")) continue;
-    const cells = l.split(",").map((c) => c.trim());
-    if (cells.length !== columns.length) {
-      throw new CsvError(`${source}:${k + 1}: ${cells.length} cells, the header has ${columns.length} columns`);
-    }
+    const cells = rowCells(raw[k]!, k + 1, columns.length, source);
+    if (cells === undefined) continue;
     rows.push(cells);
     lines.push(k + 1);
   }
   return { columns, rows, lines, comments };
+}
+
+/** The column names of a header line (1-based `lineNo` for messages); throws on an empty or repeated name. */
+export function headerCells(line: string, lineNo: number, source: string): string[] {
+  const columns = line.split(",").map((c) => c.trim());
+  const seen = new Set<string>();
+  columns.forEach((c, j) => {
+    if (c === "") throw new CsvError(`${source}:${lineNo}: header column ${j + 1} is empty`);
+    if (seen.has(c)) throw new CsvError(`${source}:${lineNo}: header names column '${c}' twice`);
+    seen.add(c);
+  });
+  return columns;
+}
+
+/**
+ * The trimmed cells of a data line, or undefined for a blank or comment line; throws when the line does not
+ * have `width` cells. Shared by parseCsv and the streaming reader (stream.ts), so both give the same messages.
+ */
+export function rowCells(line: string, lineNo: number, width: number, source: string): string[] | undefined {
+  if (line.trim() === "" || line.startsWith("#")) return undefined;
+  const cells = line.split(",").map((c) => c.trim());
+  if (cells.length !== width) throw new CsvError(`${source}:${lineNo}: ${cells.length} cells, the header has ${width} columns`);
+  return cells;
 }
 
 /** Index of a column, or -1. */

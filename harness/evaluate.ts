@@ -1,27 +1,35 @@
 /**
  * `areal eval`: run a routine over a CSV of inputs. The output has every input column, then the routine's
- * outputs and `status`, numbers as shortest round-trip decimals. All input is validated before anything is
- * computed, and the output file is written whole or not at all.
+ * outputs and `status`, numbers as shortest round-trip decimals. The output file is written whole or not at
+ * all: nothing is written when any cell is bad, however late in the file. `evaluateCsv` takes the text at
+ * once; `evaluateFile` streams a file of any size in chunks (stream.ts) through worker threads (workers.ts)
+ * into a temporary file renamed at the end, with the same bytes for any number of workers.
  */
-import { parseCsv, numberAt, CsvError, formatCsv, type Table } from "./csv.js";
+import { closeSync, mkdirSync, mkdtempSync, openSync, renameSync, rmSync, writeSync, createReadStream } from "node:fs";
+import { tmpdir } from "node:os";
+import { basename, dirname, join } from "node:path";
+import { parseCsv, numberAt, CsvError, cell, type Table } from "./csv.js";
 import type { Routine, InputSpec } from "./routines.js";
 import type { Kernels } from "./load.js";
 import { statusWord, isOk } from "./status.js";
+import { CsvFileStream, chunkTable, CHUNK_BYTES } from "./stream.js";
+import { WorkerPool, type KernelSource } from "./workers.js";
 
 export class EvalError extends Error {}
 
-interface Plan {
+/** How the columns of an input map to a kernel's arguments. */
+export interface Plan {
   readonly exportName: string;
   readonly specs: readonly InputSpec[];
   /** Column index per argument, or -1 for a default. */
   readonly cols: readonly number[];
 }
 
-function planFor(routine: Routine, t: Table, source: string): Plan {
+function planFor(routine: Routine, columns: readonly string[], source: string): Plan {
   const attempt = (exportName: string, specs: readonly InputSpec[]): Plan | string => {
     const cols: number[] = [];
     for (const s of specs) {
-      const c = t.columns.indexOf(s.name);
+      const c = columns.indexOf(s.name);
       if (c < 0 && s.default === undefined) return s.name;
       cols.push(c);
     }
@@ -59,24 +67,187 @@ export interface EvalResult {
   readonly statuses: Readonly<Record<string, number>>;
 }
 
-/** Evaluate a routine over CSV text. Throws EvalError/CsvError (with line and column) on bad input. */
-export function evaluateCsv(routine: Routine, text: string, source: string, k: Kernels): EvalResult {
-  const t = parseCsv(text, source);
-  const plan = planFor(routine, t, source);
-  if (!k.has(plan.exportName)) throw new EvalError(`${k.label}: the module has no export ${plan.exportName} for routine ${routine.name}`);
+/**
+ * The plan for a header: which columns feed which arguments. Throws EvalError on a missing column, a module
+ * without the export (when `k` is given) or an input column named like an output.
+ */
+export function prepareEval(routine: Routine, columns: readonly string[], source: string, k?: Kernels): Plan {
+  const plan = planFor(routine, columns, source);
+  if (k && !k.has(plan.exportName)) throw new EvalError(`${k.label}: the module has no export ${plan.exportName} for routine ${routine.name}`);
   for (const o of [...routine.outputs, "status"]) {
-    if (t.columns.includes(o)) throw new EvalError(`${source}: input already has a column named '${o}', which is an output of ${routine.name}`);
+    if (columns.includes(o)) throw new EvalError(`${source}: input already has a column named '${o}', which is an output of ${routine.name}`);
   }
-  // Validate every cell first: nothing is computed or written when a cell is bad.
-  const argRows: number[][] = t.rows.map((_, r) => plan.specs.map((s, i) => argValue(t, source, r, plan.cols[i]!, s)));
+  return plan;
+}
+
+/** The output header line (no line end). */
+export function outputHeader(routine: Routine, columns: readonly string[]): string {
+  return [...columns, ...routine.outputs, "status"].join(",");
+}
+
+/**
+ * Evaluate the rows of a table: the output lines (each ending in LF) and the status counts. Every cell is
+ * validated before anything is computed; throws CsvError naming the line and column of the first bad cell.
+ */
+export function evaluateRows(routine: Routine, plan: Plan, t: Table, source: string, k: Kernels): { text: string; rows: number; statuses: Record<string, number> } {
+  const na = plan.specs.length;
+  const all = new Float64Array(t.rows.length * na);
+  for (let r = 0; r < t.rows.length; r++) for (let i = 0; i < na; i++) all[r * na + i] = argValue(t, source, r, plan.cols[i]!, plan.specs[i]!);
   const statuses: Record<string, number> = {};
-  const outRows: (number | string)[][] = [];
-  argRows.forEach((args, r) => {
+  const nOut = routine.outputs.length;
+  const failed = ",NaN".repeat(nOut) + ",";
+  const args: number[] = new Array<number>(na).fill(0);
+  let text = "";
+  for (let r = 0; r < t.rows.length; r++) {
+    for (let i = 0; i < na; i++) args[i] = all[r * na + i]!;
     const st = k.call(plan.exportName, args);
     const word = statusWord(st);
     statuses[word] = (statuses[word] ?? 0) + 1;
-    const outs = routine.outputs.map((_, i) => (isOk(st) ? k.out[i]! : NaN));
-    outRows.push([...t.rows[r]!, ...outs, word]);
+    let line = t.rows[r]!.join(",");
+    if (isOk(st)) {
+      for (let i = 0; i < nOut; i++) line += "," + cell(k.out[i]!);
+      line += ",";
+    } else line += failed;
+    text += line + word + "\n";
+  }
+  return { text, rows: t.rows.length, statuses };
+}
+
+/** Evaluate a routine over CSV text. Throws EvalError/CsvError (with line and column) on bad input. */
+export function evaluateCsv(routine: Routine, text: string, source: string, k: Kernels): EvalResult {
+  const t = parseCsv(text, source);
+  const plan = prepareEval(routine, t.columns, source, k);
+  // Validate every cell first: nothing is computed or written when a cell is bad.
+  const res = evaluateRows(routine, plan, t, source, k);
+  return { csv: outputHeader(routine, t.columns) + "\n" + res.text, rows: res.rows, statuses: res.statuses };
+}
+
+/** How `evaluateFile` runs. */
+export interface FileEvalOptions {
+  /** Worker threads (1: everything in this thread). */
+  readonly workers: number;
+  /** What each worker loads: the same module as `kernels`. */
+  readonly load: KernelSource;
+  /** The module in this thread: runs everything with one worker, and re-runs a bad chunk to name its line. */
+  readonly kernels: Kernels;
+  /** Output file, replaced whole at the end; undefined writes to stdout once the whole input has passed. */
+  readonly out?: string;
+  /** Called after each chunk with the bytes read so far and the file size. */
+  readonly progress?: (bytesRead: number, size: number) => void;
+  readonly chunkBytes?: number;
+}
+
+/**
+ * Evaluate a routine over a CSV file of any size, streamed in chunks. The output goes to a temporary file that
+ * is renamed to `out` (or copied to stdout) only when every row has passed; on any error the temporary file is
+ * removed and nothing is written. The bytes do not depend on the number of workers. Throws EvalError or CsvError
+ * with the same messages as `evaluateCsv`.
+ */
+export async function evaluateFile(routine: Routine, path: string, source: string, opts: FileEvalOptions): Promise<{ rows: number; statuses: Record<string, number> }> {
+  const stream = new CsvFileStream(path, source, opts.chunkBytes);
+  let fd = -1;
+  let tmp: string | undefined;
+  let tmpDir: string | undefined;
+  let pool: WorkerPool | undefined;
+  const target = opts.out;
+  const cannotWrite = (err: unknown): Error => new Error(`cannot write ${target ?? "stdout"}: ${(err as NodeJS.ErrnoException).code ?? (err as Error).message}`);
+  try {
+    const head = stream.head();
+    const plan = prepareEval(routine, head.columns, source, opts.kernels);
+    try {
+      if (target !== undefined) {
+        mkdirSync(dirname(target), { recursive: true });
+        tmp = join(dirname(target), `.${basename(target)}.${process.pid}.tmp`);
+      } else {
+        tmpDir = mkdtempSync(join(tmpdir(), "areal-eval-"));
+        tmp = join(tmpDir, "out.csv");
+      }
+      fd = openSync(tmp, "w");
+    } catch (err) {
+      throw cannotWrite(err);
+    }
+    const write = (bytes: Uint8Array): void => {
+      try {
+        writeSync(fd, bytes);
+      } catch (err) {
+        throw cannotWrite(err);
+      }
+    };
+    write(Buffer.from(outputHeader(routine, head.columns) + "\n"));
+    let line = head.nextLine;
+    let rows = 0;
+    const statuses: Record<string, number> = {};
+    const add = (n: number, st: Record<string, number>): void => {
+      rows += n;
+      for (const [w, c] of Object.entries(st)) statuses[w] = (statuses[w] ?? 0) + c;
+      opts.progress?.(stream.bytesRead, stream.size);
+    };
+    // In this thread: exact line numbers, so a bad cell throws the same message as evaluateCsv.
+    const here = (chunk: Uint8Array): void => {
+      const t = chunkTable(Buffer.from(chunk.buffer, chunk.byteOffset, chunk.byteLength).toString("utf8"), line, head.columns, source);
+      const res = evaluateRows(routine, plan, t, source, opts.kernels);
+      write(Buffer.from(res.text));
+      line += t.lineCount;
+      add(res.rows, res.statuses);
+    };
+    // A file of one chunk or less gains nothing from threads: it is run here (the bytes are the same).
+    if (opts.workers <= 1 || stream.size <= (opts.chunkBytes ?? CHUNK_BYTES)) {
+      for (let c = stream.nextChunk(); c !== undefined; c = stream.nextChunk()) here(c);
+    } else {
+      pool = await WorkerPool.start(opts.workers, { kind: "eval", load: opts.load, routine: routine.name, columns: head.columns, source });
+      const chunks: Iterator<Uint8Array> = { next: () => { const c = stream.nextChunk(); return c === undefined ? { done: true, value: undefined } : { done: false, value: c }; } };
+      await pool.runOrdered<Uint8Array, EvalChunkResult>(chunks, (r, chunk) => {
+        if (r.ok) {
+          write(r.value.bytes);
+          line += r.value.lineCount;
+          add(r.value.rows, r.value.statuses);
+          return;
+        }
+        // The worker numbered lines from 1; run the chunk here, where the line numbers are known, for the message.
+        here(chunk);
+        throw new EvalError(`${source}: a worker failed on lines from ${line}: ${r.message}`);
+      });
+    }
+    try {
+      closeSync(fd);
+      fd = -1;
+      if (target !== undefined) renameSync(tmp, target);
+    } catch (err) {
+      throw cannotWrite(err);
+    }
+    if (target === undefined) await copyToStdout(tmp);
+    return { rows, statuses };
+  } finally {
+    stream.close();
+    if (pool) await pool.close();
+    if (fd >= 0) closeSync(fd);
+    if (tmp !== undefined && target !== undefined) rmSync(tmp, { force: true });
+    if (tmpDir !== undefined) rmSync(tmpDir, { recursive: true, force: true });
+  }
+}
+
+/** What a worker sends back for one chunk of an eval. */
+export interface EvalChunkResult {
+  /** The output lines, UTF-8. */
+  readonly bytes: Uint8Array;
+  readonly rows: number;
+  /** Line ends in the chunk. */
+  readonly lineCount: number;
+  readonly statuses: Record<string, number>;
+}
+
+/** A worker's half of evaluateFile: one chunk, lines numbered from 1 (a bad chunk is re-run by the caller). */
+export function evalChunk(routine: Routine, plan: Plan, columns: readonly string[], source: string, k: Kernels, chunk: Uint8Array): EvalChunkResult {
+  const t = chunkTable(Buffer.from(chunk.buffer, chunk.byteOffset, chunk.byteLength).toString("utf8"), 1, columns, source);
+  const res = evaluateRows(routine, plan, t, source, k);
+  return { bytes: new TextEncoder().encode(res.text), rows: res.rows, lineCount: t.lineCount, statuses: res.statuses };
+}
+
+function copyToStdout(path: string): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const rs = createReadStream(path);
+    rs.on("error", reject);
+    rs.on("end", () => resolve());
+    rs.pipe(process.stdout, { end: false });
   });
-  return { csv: formatCsv([...t.columns, ...routine.outputs, "status"], outRows), rows: outRows.length, statuses };
 }

@@ -87,7 +87,14 @@ export function instantiate(bytes: Uint8Array<ArrayBuffer>, label: string): Kern
     call(name, args) {
       const fn = fns.get(name);
       if (!fn) throw new ModuleError(`${label}: no export named ${name}`);
-      return fn(...args);
+      try {
+        return fn(...args);
+      } catch (err) {
+        if (err instanceof WebAssembly.RuntimeError) {
+          throw new ModuleError(`${label}: the kernel module trapped in ${name}(${args.join(", ")}) (${err.message}); the module is faulty, nothing was written`);
+        }
+        throw err;
+      }
     },
   };
 }

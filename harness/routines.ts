@@ -91,6 +91,84 @@ export const ROUTINES: readonly Routine[] = [
     inputs: [r("mu"), r("p"), r("e"), r("nu1"), r("nu2")],
     outputs: ["tof", "area", "areal_velocity"],
   },
+  {
+    name: "propagate",
+    exportName: "propagate",
+    summary: "two-body propagation by universal variables, any conic, dt of either sign",
+    inputs: [r("mu"), r("r0x"), r("r0y"), r("r0z"), r("v0x"), r("v0y"), r("v0z"), r("dt")],
+    outputs: ["rx", "ry", "rz", "vx", "vy", "vz", "iterations"],
+  },
+  {
+    name: "lambert",
+    exportName: "lambert",
+    summary: "Lambert's problem (Izzo 2015): v1, v2 from r1, r2, time of flight, complete revolutions, direction, branch",
+    inputs: [
+      r("mu"), r("r1x"), r("r1y"), r("r1z"), r("r2x"), r("r2y"), r("r2z"), r("tof"),
+      { name: "revs", default: 0, integer: true },
+      { name: "retrograde", default: 0, integer: true }, // 0: prograde (h_z > 0), 1: retrograde
+      // revs >= 1: the solution with the smaller (short-period) or larger (long-period) semi-major axis.
+      { name: "branch", default: 0, integer: true, choices: { "short-period": 0, "long-period": 1 } },
+    ],
+    outputs: ["v1x", "v1y", "v1z", "v2x", "v2y", "v2z", "iterations"],
+  },
+  {
+    name: "elements",
+    exportName: "elements",
+    summary: "state -> classical elements a, e, i, RAAN, argp, nu (radians) and p; a = 0 marks a parabola",
+    inputs: [r("mu"), r("rx"), r("ry"), r("rz"), r("vx"), r("vy"), r("vz")],
+    outputs: ["a", "e", "i", "raan", "argp", "nu", "p"],
+  },
+  {
+    name: "state",
+    exportName: "state",
+    summary: "classical elements (a, or p in place of a for any conic) -> state",
+    inputs: [r("mu"), r("a"), r("e"), r("i"), r("raan"), r("argp"), r("nu")],
+    outputs: ["rx", "ry", "rz", "vx", "vy", "vz"],
+    alternatives: [{ exportName: "state_p", inputs: [r("mu"), r("p"), r("e"), r("i"), r("raan"), r("argp"), r("nu")] }],
+  },
+  {
+    name: "equinoctial",
+    exportName: "equinoctial",
+    summary: "state -> modified equinoctial elements p, f, g, h, k, L",
+    inputs: [r("mu"), r("rx"), r("ry"), r("rz"), r("vx"), r("vy"), r("vz")],
+    outputs: ["p", "f", "g", "h", "k", "L"],
+  },
+  {
+    name: "from-equinoctial",
+    exportName: "from_equinoctial",
+    summary: "modified equinoctial elements -> state",
+    inputs: [r("mu"), r("p"), r("f"), r("g"), r("h"), r("k"), r("L")],
+    outputs: ["rx", "ry", "rz", "vx", "vy", "vz"],
+  },
+  {
+    name: "invariants",
+    exportName: "invariants",
+    summary: "energy, angular momentum, eccentricity vector, areal velocity h/2, flight-path angle of a state",
+    inputs: [r("mu"), r("rx"), r("ry"), r("rz"), r("vx"), r("vy"), r("vz")],
+    outputs: ["energy", "hx", "hy", "hz", "h", "ex", "ey", "ez", "e", "areal_velocity", "fpa"],
+  },
+  {
+    name: "gravity-zonal",
+    exportName: "gravity_zonal",
+    summary: "acceleration and potential energy of a point mass plus zonal J2, J3 (z along the symmetry axis)",
+    inputs: [r("mu"), { name: "j2", default: 0 }, { name: "j3", default: 0 }, { name: "radius", default: 1 }, r("x"), r("y"), r("z")],
+    outputs: ["ax", "ay", "az", "potential"],
+  },
+  {
+    name: "integrate",
+    exportName: "integrate",
+    summary: "fixed-step propagation (rk4, verlet, yoshida4, butcher6) with the invariants monitored on every step",
+    inputs: [
+      r("mu"), r("r0x"), r("r0y"), r("r0z"), r("v0x"), r("v0y"), r("v0z"), r("step"),
+      { name: "steps", integer: true },
+      { name: "method", choices: { rk4: 0, verlet: 1, yoshida4: 2, butcher6: 3 } },
+      { name: "j2", default: 0 }, { name: "j3", default: 0 }, { name: "radius", default: 1 },
+      { name: "energy_budget", default: 0 }, { name: "h_budget", default: 0 },
+      { name: "ecc_budget", default: 0 }, { name: "areal_budget", default: 0 },
+    ],
+    outputs: ["rx", "ry", "rz", "vx", "vy", "vz", "energy_dev", "h_dev", "ecc_dev", "areal_dev",
+      "energy_step", "h_step", "ecc_step", "areal_step"],
+  },
 ];
 
 /** The routine with the given CLI name, or undefined. */

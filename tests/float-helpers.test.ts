@@ -2,6 +2,7 @@
 import { describe, it, expect } from "vitest";
 import { ulpDistance, ulpDistance32, exactHex, toBitsHex, fromBitsHex, parseNumber, shortest, sameBits, ulpOf } from "../harness/float.js";
 import { Decimal } from "decimal.js";
+import { exact, decimalAt, toDouble } from "../harness/reference/decimal.js";
 
 describe("float helpers", () => {
   it("ULP distance counts representable doubles", () => {
@@ -21,6 +22,17 @@ describe("float helpers", () => {
     expect(new D(exactHex(0.1)).toFixed(60)).toBe("0.100000000000000005551115123125782702118158340454101562500000");
     expect(new D(exactHex(5e-324)).toExponential(5)).toBe("4.94066e-324");
     expect(exactHex(-1.5)).toBe("-0x1.8000000000000p0");
+  });
+
+  it("the references read every double exactly, including exponents where decimal.js's hex parser is off", () => {
+    const D = decimalAt(60);
+    // 0x1.086bced637035p-24 = 0x1086bced637035 * 2^-76, exactly 6.15653406895579665516866842318866037686575509724207222461700439453125e-8
+    // (the digits follow from integer arithmetic: 0x1086bced637035 * 5^76 / 10^76). decimal.js 10.6.0 parses the hex
+    // string as ...797171616..., half an ulp away; exact() must not.
+    const x = 6.156534068955797e-8;
+    const want = new D("4651745622061109").times(new D(5).pow(76)).div(new D(10).pow(76));
+    expect(exact(D, x).minus(want).abs().div(want).toNumber()).toBeLessThan(1e-58);
+    for (const y of [x, 0.1, 5e-324, 2 ** -1022, -1.7976931348623157e308, 1 / 3, -2.5e-310]) expect(toDouble(exact(D, y))).toBe(y);
   });
 
   it("bit patterns and shortest decimals round-trip", () => {

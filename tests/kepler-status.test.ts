@@ -6,6 +6,8 @@ import { describe, it, expect } from "vitest";
 import { release, single, run } from "./helpers.js";
 import { STATUS_WORDS } from "../harness/status.js";
 import { readFileSync } from "node:fs";
+import { referenceHyperbolic } from "../harness/reference/kepler.js";
+import { ulpDistance } from "../harness/float.js";
 
 const NONFINITE = 16;
 const DOMAIN = 17;
@@ -90,5 +92,23 @@ describe("status codes", () => {
         expect(Math.abs(resid)).toBeLessThanOrEqual(1e-12 * Math.abs(M) + 1e-15 * e * Math.cosh(H!));
       }
     }
+  });
+
+  it("hyperbolic at the top of the range: huge e and M stay within 4 ulp of the 60-digit reference (fuzz finds)", () => {
+    const k = release();
+    // Found by the fuzzer: the logarithmic form once lost an ulp of ln e (~600), and e cosh H once overflowed.
+    for (const [e, M] of [[4.309913395599058e253, 1.0455100801069408e262], [1.401444307291909e308, -1.7976931348623143e308], [1e300, -1.2e300], [1.5, 1.7976931348623157e308]]) {
+      const [st, H] = run(k, "kepler_hyperbolic", [e!, M!]);
+      expect(st).toBe(0);
+      expect(ulpDistance(H!, referenceHyperbolic(e!, M!))).toBeLessThanOrEqual(4);
+    }
+  });
+
+  it("time of flight: overflow of h/2 and anomalies beyond 2^53 rad on the ellipse are failures, not wrong times", () => {
+    const k = release();
+    expect(run(k, "time_of_flight", [1.7976931348623157e308, 6.283185307179586, 0, 0, 0])[0]).toBe(21);
+    expect(run(k, "time_of_flight", [1, 1, 0.5, 0, 1e17])[0]).toBe(DOMAIN);
+    expect(run(k, "time_of_flight", [1, 1, 0.5, 1.7976931348623157e308, 6.283185307179586])[0]).toBe(DOMAIN);
+    expect(run(k, "time_of_flight", [1, 1, 0.5, 0, 2 ** 52])[0]).toBe(0);
   });
 });

@@ -5,6 +5,8 @@
 import { describe, it, expect } from "vitest";
 import { release, single } from "./helpers.js";
 import type { Kernels } from "../harness/load.js";
+import { ROUTINES, type Routine } from "../harness/routines.js";
+import { Rng } from "../harness/rng.js";
 
 function snapshotOutside(k: Kernels): { before: Uint8Array; outStart: number; outEnd: number } {
   const mem = new Uint8Array(k.memory.buffer);
@@ -22,31 +24,42 @@ function changedOutside(k: Kernels, s: ReturnType<typeof snapshotOutside>): numb
   return n;
 }
 
+/** Plausible arguments for any routine, by input name (a mix of valid and invalid values), seeded. */
+function argsFor(routine: Routine, rng: Rng): number[] {
+  return routine.inputs.map((inp) => {
+    if (inp.choices) {
+      const v = Object.values(inp.choices);
+      return v[rng.below(v.length)]!;
+    }
+    if (inp.name === "steps") return 1 + rng.below(8);
+    if (inp.integer) return rng.below(3);
+    if (inp.name === "mu") return rng.uniform() < 0.9 ? 398600.4418 : -1;
+    if (inp.name === "e") return rng.uniform() * 2.2;
+    if (inp.name.startsWith("r") && inp.name.length === 3) return rng.between(-9000, 9000);
+    if (inp.name.startsWith("v") && inp.name.length === 3) return rng.between(-9, 9);
+    if (inp.name === "step") return rng.between(1, 60);
+    return rng.between(-10, 10) * (rng.uniform() < 0.1 ? 1e3 : 1);
+  });
+}
+
 describe("no allocation", () => {
   for (const [label, get] of [["f64", release], ["f32", single]] as const) {
-    it(`${label}: a million kernel calls leave memory size and every byte outside the output region unchanged`, () => {
+    it(`${label}: a million calls over every routine leave memory size and every byte outside the output region unchanged`, () => {
       const k = get();
       const pages = k.memory.buffer.byteLength;
       const snap = snapshotOutside(k);
-      const fns: [string, (i: number) => number[]][] = [
-        ["kepler_elliptic", (i) => [(i % 997) / 997, (i - 500000) * 1e-3]],
-        ["kepler_hyperbolic", (i) => [1 + (i % 991) / 97, (i - 500000) * 1e-2]],
-        ["kepler_parabolic", (i) => [(i - 500000) * 1e-3]],
-        ["true_to_anomaly", (i) => [(i % 13) / 6, (i % 628) / 100 - 3.14]],
-        ["anomaly_to_true", (i) => [(i % 13) / 6, (i % 628) / 100 - 3.14]],
-        ["true_to_mean", (i) => [(i % 13) / 6, (i % 628) / 100 - 3.14]],
-        ["mean_to_true", (i) => [(i % 13) / 6, (i % 628) / 100 - 3.14]],
-        ["time_of_flight", (i) => [398600.4418, 7000, (i % 13) / 6, 0, (i % 300) / 100]],
-      ];
+      const routines = ROUTINES.filter((r) => k.has(r.exportName));
+      expect(routines.length).toBeGreaterThanOrEqual(8);
+      const rng = new Rng(7);
       let calls = 0;
-      for (let i = 0; calls < 1_000_000; i++) {
-        for (const [name, args] of fns) {
-          k.call(name, args(i));
+      while (calls < 1_000_000) {
+        for (const r of routines) {
+          k.call(r.exportName, argsFor(r, rng));
           calls++;
         }
       }
       // Bad inputs too: the failure paths must not allocate either.
-      for (const [name] of fns) k.call(name, [NaN, NaN, NaN, NaN, NaN]);
+      for (const r of routines) k.call(r.exportName, r.inputs.map(() => NaN));
       expect(k.memory.buffer.byteLength).toBe(pages);
       expect(changedOutside(k, snap)).toBe(0);
     });

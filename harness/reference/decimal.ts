@@ -3,7 +3,7 @@
  * configuration leaks between generators), exact conversion from doubles, and round-to-nearest back.
  */
 import { Decimal as DecimalJs } from "decimal.js";
-import { exactHex } from "../float.js";
+import { toBits } from "../float.js";
 
 /** Working precision of the references, in significant decimal digits. */
 export const REFERENCE_DIGITS = 60;
@@ -16,10 +16,21 @@ export function decimalAt(digits: number): typeof Dec {
   return Dec.clone({ precision: digits });
 }
 
-/** The exact value of a double (through its hex-float form), rounded only by the clone's precision. */
+/**
+ * The value of a double, exact up to the clone's precision: integer significand times a power of two.
+ * (decimal.js 10.6.0 parses binary-exponent hex strings through Math.pow(2, p) taken as its shortest decimal
+ * string, which is not exact for p below about -23: 0x1.086bced637035p-24 reads 0.5 ulp off. So no hex here.)
+ */
 export function exact(D: typeof Dec, x: number): Dec {
   if (x === 0) return new D(0);
-  return new D(exactHex(x));
+  if (!Number.isFinite(x)) throw new Error(`exact() needs a finite value, got ${x}`);
+  const bits = toBits(x);
+  const biased = Number((bits >> 52n) & 0x7ffn);
+  const field = bits & ((1n << 52n) - 1n);
+  const significand = biased === 0 ? field : field | (1n << 52n);
+  const exponent = biased === 0 ? -1074 : biased - 1075;
+  const v = new D(significand.toString()).times(new D(2).pow(exponent));
+  return bits >> 63n ? v.neg() : v;
 }
 
 /** Round a decimal to the nearest double. */

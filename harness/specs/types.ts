@@ -20,7 +20,7 @@ export interface Comparison {
   readonly metric: "ulp" | "rel" | "abs";
   /**
    * Vector column with the case's conditioning; the limit becomes max(max_rel, cond_factor * cond) for `rel`,
-   * and max(max_ulp, cond_factor * cond) for `ulp` (cond then in ulps).
+   * and max(max_ulp, cond_factor * cond) for `ulp` (cond then in ulps), max(max_abs, cond_factor * cond) for `abs`.
    */
   readonly cond?: string;
   /** Vector column with a revolution count; the relative limit scales by (1 + revs). */

@@ -1,0 +1,111 @@
+// Operation-counting math for the bench-only "counting" build (asconfig.json target `counting`, entry
+// assembly/counting.ts, `--use RMath=CountingMath`). Never part of the release, single or debug modules.
+//
+// Each function forwards to the AssemblyScript math library (NativeMath) and counts one call of its kind. While a
+// library function runs, `mathDepth` is above zero: the arithmetic counters that scripts/build-bench.mjs inserts
+// into the module (every f64 div, mul, add/sub, sqrt instruction) ignore operations inside the library, so a sin
+// counts as one sin, not as the thirty multiply-adds it is made of.
+// Counters are module-level scalars (no allocation); count_get(i) reads them in the order of MATH_COUNTERS in
+// harness/opcount.ts.
+
+/** Nesting depth of library math calls; the inserted arithmetic counters count only at depth 0. */
+export let mathDepth: i32 = 0;
+
+export let nSin: i64 = 0;
+export let nCos: i64 = 0;
+export let nTan: i64 = 0;
+export let nInvTrig: i64 = 0; // asin, acos, atan
+export let nAtan2: i64 = 0;
+export let nSqrt: i64 = 0; // RMath.sqrt here; the inserted counter adds bare f64.sqrt instructions
+export let nCbrt: i64 = 0;
+export let nLog: i64 = 0; // log, log1p, log2, log10
+export let nExp: i64 = 0; // exp, expm1
+export let nPow: i64 = 0;
+export let nHyp: i64 = 0; // sinh, cosh, tanh, asinh, acosh, atanh
+export let nHypot: i64 = 0;
+// Division, multiplication, addition/subtraction, fusable pairs and bare f64.sqrt instructions are counted by
+// globals that scripts/build-bench.mjs adds to the module text (count_arith, count_arith_reset).
+
+/** Number of counters (count_get indices 0 .. COUNTERS - 1). */
+export const COUNTERS: i32 = 12;
+
+/** Set every counter to zero. */
+export function count_reset(): void {
+  nSin = 0; nCos = 0; nTan = 0; nInvTrig = 0; nAtan2 = 0; nSqrt = 0; nCbrt = 0; nLog = 0;
+  nExp = 0; nPow = 0; nHyp = 0; nHypot = 0;
+  mathDepth = 0;
+}
+
+/** Counter i (order: sin cos tan invtrig atan2 sqrt cbrt log exp pow hyp hypot), or -1. */
+export function count_get(i: i32): f64 {
+  switch (i) {
+    case 0: return <f64>nSin;
+    case 1: return <f64>nCos;
+    case 2: return <f64>nTan;
+    case 3: return <f64>nInvTrig;
+    case 4: return <f64>nAtan2;
+    case 5: return <f64>nSqrt;
+    case 6: return <f64>nCbrt;
+    case 7: return <f64>nLog;
+    case 8: return <f64>nExp;
+    case 9: return <f64>nPow;
+    case 10: return <f64>nHyp;
+    case 11: return <f64>nHypot;
+    default: return -1;
+  }
+}
+
+// @ts-ignore: decorator
+@inline function enter(): void { mathDepth++; }
+// @ts-ignore: decorator
+@inline function leave(): void { mathDepth--; }
+
+// @ts-ignore: decorator
+@global export namespace CountingMath {
+  export const PI: f64 = NativeMath.PI;
+  export const E: f64 = NativeMath.E;
+  export function sin(x: f64): f64 { if (mathDepth == 0) nSin++; enter(); const r = NativeMath.sin(x); leave(); return r; }
+  export function cos(x: f64): f64 { if (mathDepth == 0) nCos++; enter(); const r = NativeMath.cos(x); leave(); return r; }
+  // One call that gives both, with one argument reduction: counted as one sin and one cos (the cost model then
+  // charges a little more than the call costs; the counts stay an upper bound).
+  export let sincos_sin: f64 = 0;
+  export let sincos_cos: f64 = 0;
+  export function sincos(x: f64): void {
+    if (mathDepth == 0) { nSin++; nCos++; }
+    enter();
+    NativeMath.sincos(x);
+    sincos_sin = NativeMath.sincos_sin;
+    sincos_cos = NativeMath.sincos_cos;
+    leave();
+  }
+  export function tan(x: f64): f64 { if (mathDepth == 0) nTan++; enter(); const r = NativeMath.tan(x); leave(); return r; }
+  export function asin(x: f64): f64 { if (mathDepth == 0) nInvTrig++; enter(); const r = NativeMath.asin(x); leave(); return r; }
+  export function acos(x: f64): f64 { if (mathDepth == 0) nInvTrig++; enter(); const r = NativeMath.acos(x); leave(); return r; }
+  export function atan(x: f64): f64 { if (mathDepth == 0) nInvTrig++; enter(); const r = NativeMath.atan(x); leave(); return r; }
+  export function atan2(y: f64, x: f64): f64 { if (mathDepth == 0) nAtan2++; enter(); const r = NativeMath.atan2(y, x); leave(); return r; }
+  export function sqrt(x: f64): f64 { if (mathDepth == 0) nSqrt++; enter(); const r = NativeMath.sqrt(x); leave(); return r; }
+  export function cbrt(x: f64): f64 { if (mathDepth == 0) nCbrt++; enter(); const r = NativeMath.cbrt(x); leave(); return r; }
+  export function log(x: f64): f64 { if (mathDepth == 0) nLog++; enter(); const r = NativeMath.log(x); leave(); return r; }
+  export function log1p(x: f64): f64 { if (mathDepth == 0) nLog++; enter(); const r = NativeMath.log1p(x); leave(); return r; }
+  export function log2(x: f64): f64 { if (mathDepth == 0) nLog++; enter(); const r = NativeMath.log2(x); leave(); return r; }
+  export function log10(x: f64): f64 { if (mathDepth == 0) nLog++; enter(); const r = NativeMath.log10(x); leave(); return r; }
+  export function exp(x: f64): f64 { if (mathDepth == 0) nExp++; enter(); const r = NativeMath.exp(x); leave(); return r; }
+  export function expm1(x: f64): f64 { if (mathDepth == 0) nExp++; enter(); const r = NativeMath.expm1(x); leave(); return r; }
+  export function pow(x: f64, y: f64): f64 { if (mathDepth == 0) nPow++; enter(); const r = NativeMath.pow(x, y); leave(); return r; }
+  export function sinh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.sinh(x); leave(); return r; }
+  export function cosh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.cosh(x); leave(); return r; }
+  export function tanh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.tanh(x); leave(); return r; }
+  export function asinh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.asinh(x); leave(); return r; }
+  export function acosh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.acosh(x); leave(); return r; }
+  export function atanh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.atanh(x); leave(); return r; }
+  export function hypot(x: f64, y: f64): f64 { if (mathDepth == 0) nHypot++; enter(); const r = NativeMath.hypot(x, y); leave(); return r; }
+  // Not counted: cheap bit operations on every target.
+  export function abs(x: f64): f64 { return NativeMath.abs(x); }
+  export function floor(x: f64): f64 { return NativeMath.floor(x); }
+  export function ceil(x: f64): f64 { return NativeMath.ceil(x); }
+  export function trunc(x: f64): f64 { return NativeMath.trunc(x); }
+  export function round(x: f64): f64 { return NativeMath.round(x); }
+  export function sign(x: f64): f64 { return NativeMath.sign(x); }
+  export function min(x: f64, y: f64): f64 { return NativeMath.min(x, y); }
+  export function max(x: f64, y: f64): f64 { return NativeMath.max(x, y); }
+}

@@ -1,0 +1,158 @@
+// Modified equinoctial elements (p, f, g, h, k, L) from a state and back (M. J. H. Walker, B. Ireland and
+// J. Owens, "A set of modified equinoctial orbit elements", Celest. Mech. 36 (1985) 409-419), with the
+// direct retrograde factor +1:
+//   p = a (1 - e^2), f = e cos(w + O), g = e sin(w + O), h = tan(i/2) cos O, k = tan(i/2) sin O,
+//   L = O + w + nu (true longitude).
+// They have no singularity at e = 0 or i = 0; the one left is i = pi (tan(i/2) is infinite).
+//
+// State -> elements, without passing through the classical angles:
+//  1. Special cases as in invariants.ts (ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE), then a retrograde
+//     equatorial state (h along -z exactly) -> ERR_DEGENERATE (the set is singular there).
+//  2. p = |h|^2 / mu. With w = h / |h|: h_eq = -w_y / (1 + w_z), k_eq = w_x / (1 + w_z), where
+//     1 + w_z = (|h| + h_z) / |h| is taken as (h_x^2 + h_y^2) / (|h| (|h| - h_z)) when h_z < 0 (no cancellation
+//     near i = pi).
+//  3. The equinoctial frame, s2 = 1 + h^2 + k^2:
+//     f_hat = (1 - k^2 + h^2, 2 h k, -2 k) / s2, g_hat = (2 h k, 1 + k^2 - h^2, 2 h) / s2.
+//     f = e . f_hat, g = e . g_hat (e the eccentricity vector, invariants.ts), L = atan2(r . g_hat, r . f_hat)
+//     in [0, 2 pi).
+// Elements -> state (from_equinoctial):
+//  1. Special cases: NaN or infinite input -> ERR_NONFINITE; mu <= 0 or p <= 0 -> ERR_DOMAIN;
+//     w = 1 + f cos L + g sin L <= 0 (beyond a hyperbola's asymptote) -> ERR_UNREACHABLE.
+//  2. r = p / w; r = r (cos L f_hat + sin L g_hat); v = sqrt(mu / p) (-(g + sin L) f_hat + (f + cos L) g_hat).
+// A non-finite output -> ERR_OVERFLOW.
+// Output slots: equinoctial 0 p, 1 f, 2 g, 3 h, 4 k, 5 L; from_equinoctial 0..2 r, 3..5 v.
+// Accuracy (f64, vectors/equinoctial.csv, vectors/from-equinoctial.csv): see vectors/limits.json.
+
+import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE, ERR_UNREACHABLE, ERR_OVERFLOW } from "./status";
+import { put } from "./io";
+import { IS_F32 } from "./real";
+import { checkState, sR, sV2, sRV, sHX, sHY, sHZ, sH } from "./invariants";
+import { scaleState, tMu, tRx, tRy, tRz, tVx, tVy, tVz, kR, scale2, exponent2, maxAbs3, speedScale, MIN_NORMAL, NORM_LO, NORM_HI } from "./invariants";
+
+const TWO_PI: real = IS_F32 ? <real>6.2831854820251465 : <real>6.283185307179586;
+
+// Frame vectors of the last `frame` call.
+let fx: real = 0;
+let fy: real = 0;
+let fz: real = 0;
+let gx: real = 0;
+let gy: real = 0;
+let gz: real = 0;
+
+function frame(h: real, k: real): void {
+  const m = max(abs(h), abs(k));
+  if (m <= NORM_HI) {
+    const s2 = <real>1.0 + h * h + k * k;
+    const hk = <real>2.0 * h * k;
+    fx = (<real>1.0 - k * k + h * h) / s2;
+    fy = hk / s2;
+    fz = <real>-2.0 * k / s2;
+    gx = hk / s2;
+    gy = (<real>1.0 + k * k - h * h) / s2;
+    gz = <real>2.0 * h / s2;
+    return;
+  }
+  // h^2 + k^2 would overflow (i within about 2^-500 of pi, 2^-60 in f32): the same with numerators and s2
+  // divided by t^2, t = 2^j near max(|h|, |k|) (exact; t^-2 may underflow, it is below an ulp of s2 there).
+  const j = exponent2(m);
+  const hs = scale2(h, -j);
+  const ks = scale2(k, -j);
+  const u = scale2(<real>1.0, -2 * j);
+  const s2 = u + hs * hs + ks * ks;
+  const hk = <real>2.0 * hs * ks;
+  fx = (u - ks * ks + hs * hs) / s2;
+  fy = hk / s2;
+  fz = scale2(<real>-2.0 * ks / s2, -j);
+  gx = hk / s2;
+  gy = (u + ks * ks - hs * hs) / s2;
+  gz = scale2(<real>2.0 * hs / s2, -j);
+}
+
+/** Modified equinoctial elements of (r, v). Slots 0 p, 1 f, 2 g, 3 h, 4 k, 5 L. */
+export function equinoctial(mu: real, rx0: real, ry0: real, rz0: real, vx0: real, vy0: real, vz0: real): i32 {
+  // The state computed with: (mu, r, v) itself, or a power-of-two scaled copy (invariants.ts, "Range").
+  const sc = scaleState(mu, rx0, ry0, rz0, vx0, vy0, vz0);
+  const st = checkState(tMu, tRx, tRy, tRz, tVx, tVy, tVz);
+  if (st != OK) return st;
+  const mxy = max(abs(sHX), abs(sHY));
+  if (mxy == 0 && sHZ < 0) return ERR_DEGENERATE;
+  if (sc != OK) return sc;
+  const m = tMu;
+  const rx = tRx, ry = tRy, rz = tRz, vx = tVx, vy = tVy, vz = tVz;
+  let h: real;
+  let k: real;
+  if (sHZ >= 0) {
+    const d = sH + sHZ;
+    h = -sHY / d;
+    k = sHX / d;
+  } else {
+    // Homogeneous of degree 0 in h: where h_x^2 + h_y^2 leaves the normal range the four components are
+    // first multiplied by a power of two near 1 / max(|h_x|, |h_y|).
+    let hx = sHX;
+    let hy = sHY;
+    let hz = sHZ;
+    let hn = sH;
+    if (!(mxy >= NORM_LO && mxy <= NORM_HI)) {
+      const j = -exponent2(mxy);
+      hx = scale2(hx, j);
+      hy = scale2(hy, j);
+      hz = scale2(hz, j);
+      hn = scale2(hn, j);
+    }
+    const d = (hn - hz) / (hx * hx + hy * hy);
+    h = -hy * d;
+    k = hx * d;
+  }
+  frame(h, k);
+  const c1 = sV2 - m / sR;
+  const ex = (c1 * rx - sRV * vx) / m;
+  const ey = (c1 * ry - sRV * vy) / m;
+  const ez = (c1 * rz - sRV * vz) / m;
+  const f = ex * fx + ey * fy + ez * fz;
+  const g = ex * gx + ey * gy + ez * gz;
+  let L = RMath.atan2(rx * gx + ry * gy + rz * gz, rx * fx + ry * fy + rz * fz);
+  if (L < 0) L += TWO_PI;
+  if (L >= TWO_PI) L = 0; // f32 only: its 2 pi is above the true value
+  const p = scale2(sH * sH / m, -kR); // back in the caller's units (nothing to do inside the window)
+  if (!isFinite(p) || !(p >= MIN_NORMAL) || !isFinite(f) || !isFinite(g) || !isFinite(h) || !isFinite(k) || !isFinite(L)) return ERR_OVERFLOW;
+  put(0, p);
+  put(1, f);
+  put(2, g);
+  put(3, h);
+  put(4, k);
+  put(5, L);
+  return OK;
+}
+
+/** State from modified equinoctial elements. Slots 0..2 r, 3..5 v. */
+export function from_equinoctial(mu: real, p: real, f: real, g: real, h: real, k: real, L: real): i32 {
+  if (!isFinite(mu) || !isFinite(p) || !isFinite(f) || !isFinite(g) || !isFinite(h) || !isFinite(k) || !isFinite(L)) return ERR_NONFINITE;
+  if (!(mu > 0) || !(p > 0)) return ERR_DOMAIN;
+  const cl = RMath.cos(L);
+  const sl = RMath.sin(L);
+  const w = <real>1.0 + f * cl + g * sl;
+  if (!(w > 0)) return ERR_UNREACHABLE;
+  frame(h, k);
+  const r = p / w;
+  const s = speedScale(mu, p);
+  const a1 = r * cl;
+  const a2 = r * sl;
+  const b1 = -s * (g + sl);
+  const b2 = s * (f + cl);
+  const rx = a1 * fx + a2 * gx;
+  const ry = a1 * fy + a2 * gy;
+  const rz = a1 * fz + a2 * gz;
+  const vx = b1 * fx + b2 * gx;
+  const vy = b1 * fy + b2 * gy;
+  const vz = b1 * fz + b2 * gz;
+  if (!isFinite(rx) || !isFinite(ry) || !isFinite(rz) || !isFinite(vx) || !isFinite(vy) || !isFinite(vz)) return ERR_OVERFLOW;
+  // r and v below the normal range would have lost their relative digits.
+  if (!(maxAbs3(rx, ry, rz) >= MIN_NORMAL) || !(maxAbs3(vx, vy, vz) >= MIN_NORMAL)) return ERR_OVERFLOW;
+  put(0, rx);
+  put(1, ry);
+  put(2, rz);
+  put(3, vx);
+  put(4, vy);
+  put(5, vz);
+  return OK;
+}

@@ -1,0 +1,156 @@
+// Gravity of an axisymmetric body: point mass plus the zonal harmonics J2 and J3.
+//
+// Model (body-fixed axes with z along the symmetry axis; for zonal terms this is also any inertial frame
+// sharing that axis, because the field does not depend on longitude):
+//   potential energy per unit mass  V = -mu/r [1 - J2 (R/r)^2 P2(s) - J3 (R/r)^3 P3(s)],  s = z/r,
+//   P2(s) = (3 s^2 - 1)/2,  P3(s) = (5 s^3 - 3 s)/2   (Legendre polynomials),
+//   acceleration a = -grad V.
+// Method
+//  1. r^2 = x^2 + y^2 + z^2, r = sqrt(r^2), s = z/r, q = R/r.
+//  2. Point mass: a = -mu r_vec / r^3.
+//  3. J2 (gradient of the P2 term, written out):
+//       a_x = -1.5 J2 mu/r^2 q^2 (x/r) (1 - 5 s^2),  a_y likewise with y,  a_z = -1.5 J2 mu/r^2 q^2 (z/r) (3 - 5 s^2).
+//  4. J3: a_x = -2.5 J3 mu/r^2 q^3 (x/r) (3 s - 7 s^3),  a_y likewise,
+//          a_z = -2.5 J3 mu/r^2 q^3 (6 s^2 - 7 s^4 - 3/5).
+//  The expressions are the standard zonal-harmonic field (for example D. A. Vallado, "Fundamentals of
+//  Astrodynamics and Applications", 4th ed. 2013, ch. 8, recalled from memory); tests/integrate-gravity.test.ts
+//  checks them against a 60-digit numerical gradient of the potential above.
+// Domain: mu > 0, R > 0, any finite J2, J3; r > 0. The zonal series is meant for r > R (outside the body);
+// it is evaluated wherever r > 0.
+// The helpers below assume finite inputs with r > 0 (the integrators check); the kernel `gravity_zonal` checks.
+// Accuracy: a few ULP of each term (the terms are sums of like-signed products except 1 - 5 s^2 and its kin).
+// Output slots (gravity_zonal): 0..2 = acceleration, 3 = potential energy per unit mass V.
+
+import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE, ERR_OVERFLOW } from "./status";
+import { put } from "./io";
+import { IS_F32 } from "./real";
+import { scale2, exponent2, maxAbs3 } from "./invariants";
+
+// Results of accel() (module-level scalars: no allocation).
+export let gAx: real = 0;
+export let gAy: real = 0;
+export let gAz: real = 0;
+
+// Window of the plain formulas: r^2 in [2^-400, 2^400] and mu in [2^-200, 2^200] (f64; 2^+-60 and 2^+-30 in
+// f32). Then 1/r, mu/r, mu/r^2 and mu/r^3 are all within 2^+-800 (2^+-120): nothing under- or overflows except
+// through R / r, where an overflow gives a non-finite result (a failure status) and an underflow drops
+// zonal terms below an ulp of the point mass. Outside it accel and potential work on the scaled problem
+// x' = x 2^kx (largest |component| in [1, 2)), R' = R 2^kx, mu' = mu 2^km (in [1, 2)): the same field in
+// other units, exact, scaled back by 2^(2 kx - km) (acceleration) and 2^(kx - km) (potential). Results below
+// the normal range come out with gradual underflow (absolute error below a few 2^-1074, or 2^-149 in f32).
+// (Before 2026-12 x^2 overflowed: gravity_zonal(398600.4418, 0, 0, 1, 1.797e308, 0, 0) gave potential 0,
+// true -2.2e-303.)
+const G_R2_LO: real = IS_F32 ? <real>8.673617379884035e-19 : <real>3.8725919148493183e-121; // 2^-60, 2^-400
+const G_R2_HI: real = IS_F32 ? <real>1152921504606846976.0 : <real>2.5822498780869086e120; // 2^60, 2^400
+const G_MU_LO: real = IS_F32 ? <real>9.313225746154785e-10 : <real>6.223015277861142e-61; // 2^-30, 2^-200
+const G_MU_HI: real = IS_F32 ? <real>1073741824.0 : <real>1.6069380442589903e60; // 2^30, 2^200
+
+/** Exponents of the last scaled evaluation: x' = x 2^gKx, mu' = mu 2^gKm (finite x, y, z not all 0, mu > 0). */
+let gKx: i32 = 0;
+let gKm: i32 = 0;
+function scaleExponents(mu: real, x: real, y: real, z: real): void {
+  gKx = -exponent2(maxAbs3(x, y, z));
+  gKm = -exponent2(mu);
+}
+
+/** Acceleration at (x, y, z); sets gAx, gAy, gAz. Zonal terms are skipped when both coefficients are zero. */
+export function accel(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real): void {
+  const r2 = x * x + y * y + z * z;
+  if (r2 >= G_R2_LO && r2 <= G_R2_HI && mu >= G_MU_LO && mu <= G_MU_HI) {
+    accelPlain(mu, j2, j3, R, x, y, z, r2);
+    return;
+  }
+  scaleExponents(mu, x, y, z);
+  const k = gKx;
+  const xs = scale2(x, k);
+  const ys = scale2(y, k);
+  const zs = scale2(z, k);
+  accelPlain(scale2(mu, gKm), j2, j3, scale2(R, k), xs, ys, zs, xs * xs + ys * ys + zs * zs);
+  const back = 2 * k - gKm;
+  gAx = scale2(gAx, back);
+  gAy = scale2(gAy, back);
+  gAz = scale2(gAz, back);
+}
+
+// accel inside the window (r2 = x^2 + y^2 + z^2).
+function accelPlain(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real, r2: real): void {
+  const r = RMath.sqrt(r2);
+  const ir = <real>1.0 / r;
+  const k = mu * ir * ir * ir; // mu / r^3
+  let fx = -k * x;
+  let fy = -k * y;
+  let fz = -k * z;
+  if (j2 != 0 || j3 != 0) {
+    const s = z * ir;
+    const s2 = s * s;
+    const q = R * ir;
+    const q2 = q * q;
+    const ux = x * ir;
+    const uy = y * ir;
+    const g = mu * ir * ir; // mu / r^2
+    // J2
+    const c2 = <real>-1.5 * j2 * g * q2;
+    const t2xy = c2 * (<real>1.0 - <real>5.0 * s2);
+    fx += t2xy * ux;
+    fy += t2xy * uy;
+    fz += c2 * s * (<real>3.0 - <real>5.0 * s2);
+    // J3
+    const c3 = <real>-2.5 * j3 * g * q2 * q;
+    const t3xy = c3 * s * (<real>3.0 - <real>7.0 * s2);
+    fx += t3xy * ux;
+    fy += t3xy * uy;
+    fz += c3 * (<real>6.0 * s2 - <real>7.0 * s2 * s2 - <real>0.6);
+  }
+  gAx = fx;
+  gAy = fy;
+  gAz = fz;
+}
+
+/** Potential energy per unit mass V at (x, y, z) (zero at infinity, negative near the body). */
+export function potential(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real): real {
+  const r2 = x * x + y * y + z * z;
+  if (r2 >= G_R2_LO && r2 <= G_R2_HI && mu >= G_MU_LO && mu <= G_MU_HI) return potentialPlain(mu, j2, j3, R, x, y, z, r2);
+  scaleExponents(mu, x, y, z);
+  const k = gKx;
+  const xs = scale2(x, k);
+  const ys = scale2(y, k);
+  const zs = scale2(z, k);
+  return scale2(potentialPlain(scale2(mu, gKm), j2, j3, scale2(R, k), xs, ys, zs, xs * xs + ys * ys + zs * zs), k - gKm);
+}
+
+// potential inside the window (r2 = x^2 + y^2 + z^2).
+function potentialPlain(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real, r2: real): real {
+  const r = RMath.sqrt(r2);
+  const ir = <real>1.0 / r;
+  const pm = -mu * ir;
+  if (j2 == 0 && j3 == 0) return pm;
+  const s = z * ir;
+  const s2 = s * s;
+  const q = R * ir;
+  const q2 = q * q;
+  const p2 = <real>0.5 * (<real>3.0 * s2 - <real>1.0);
+  const p3 = <real>0.5 * s * (<real>5.0 * s2 - <real>3.0);
+  // V = pm (1 - J2 q^2 P2 - J3 q^3 P3); the zonal part is added as a small correction to pm.
+  return pm - pm * q2 * (j2 * p2 + j3 * q * p3);
+}
+
+/**
+ * Zonal gravity at one point: acceleration (slots 0..2) and potential energy per unit mass (slot 3).
+ * Statuses: ERR_NONFINITE, ERR_DOMAIN (mu <= 0 or R <= 0), ERR_DEGENERATE (r = 0), ERR_OVERFLOW (a result beyond
+ * the largest real, e.g. mu / r^2 for r very small, or R / r so large that a zonal term overflows).
+ */
+export function gravity_zonal(mu: real, j2: real, j3: real, radius: real, x: real, y: real, z: real): i32 {
+  if (!isFinite(mu) || !isFinite(j2) || !isFinite(j3) || !isFinite(radius) || !isFinite(x) || !isFinite(y) || !isFinite(z)) {
+    return ERR_NONFINITE;
+  }
+  if (!(mu > 0) || !(radius > 0)) return ERR_DOMAIN;
+  if (x == 0 && y == 0 && z == 0) return ERR_DEGENERATE;
+  accel(mu, j2, j3, radius, x, y, z);
+  const v = potential(mu, j2, j3, radius, x, y, z);
+  if (!isFinite(gAx) || !isFinite(gAy) || !isFinite(gAz) || !isFinite(v)) return ERR_OVERFLOW; // 1/r^3 overflows
+  put(0, gAx);
+  put(1, gAy);
+  put(2, gAz);
+  put(3, v);
+  return OK;
+}

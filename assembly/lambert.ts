@@ -1,0 +1,354 @@
+// Lambert's problem: the velocities v1 at r1 and v2 at r2 of the two-body orbit that goes from r1 to r2 in the
+// time of flight tof, with N complete revolutions on the way, moving prograde (angular momentum with a positive
+// z component) or retrograde.
+//
+// Method: D. Izzo, "Revisiting Lambert's problem", Celest. Mech. Dyn. Astron. 121 (2015) 1-15.
+//  1. Special cases, in order: a NaN or infinite input -> ERR_NONFINITE; mu <= 0, tof <= 0, r1 or r2 of zero
+//     length, revs < 0, retrograde or branch not 0 or 1 -> ERR_DOMAIN; r1 and r2 collinear (sin of the transfer
+//     angle below PLANE_MIN_SIN: the 0 and 180 degree transfers, whose plane is undefined) -> ERR_DEGENERATE.
+//  2. Geometry: chord c = |r2 - r1|, semi-perimeter s = (r1 + r2 + c) / 2, lambda^2 = (s - c) / s, 1 - lambda^2
+//     = c / s, with s - c = (r1 r2 + r1.r2) / (r1 + r2 + c) and, when r1.r2 < 0, r1 r2 + r1.r2 =
+//     |r1 x r2|^2 / (r1 r2 - r1.r2): no cancellation near 180 degrees. lambda < 0 when the motion asked for goes
+//     the long way (transfer angle above 180 degrees). Normalized time T = tof sqrt(2 mu / s) / s.
+//  3. Time of flight as a function of Izzo's x (x^2 = 1 - s / (2a); -1 < x < 1 ellipses, x = 1 the parabola,
+//     x > 1 hyperbolas): T(x) = [(psi + N pi) / sqrt(1 - x^2) - x + lambda y] / (1 - x^2),
+//     y = sqrt(1 - lambda^2 (1 - x^2)), psi from atan2 (ellipse) or asinh (hyperbola), each of lambda y - x,
+//     y - lambda x, y + lambda x formed without cancellation (y^2 - lambda^2 x^2 = 1 - lambda^2). With N = 0 and
+//     |x - 1| < BATTIN_MAX it comes from Battin's hypergeometric series instead (R. H. Battin, "An Introduction
+//     to the Mathematics and Methods of Astrodynamics", 1987; the form Izzo 2015 uses), where the closed form
+//     cancels: T = (eta^3 Q + 4 lambda eta) / 2, eta = y - lambda x, Q = 4/3 F(3, 1; 5/2; (1 - lambda - x eta) / 2).
+//  4. Iteration on x: Householder's fourth-order step with Izzo's recurrences for T', T'', T''' (Newton's step
+//     with the series derivative within NEAR_PARABOLA of x = 1), kept inside a bracket that shrinks with the sign
+//     of T(x) - T, bisection when a step leaves it. Starters: Izzo's (2015, sec. 3.2). Stop when a step is below
+//     STOP_STEP (Householder; the next error is then of the order of its fourth power) or STOP_STEP_NEWTON,
+//     relative to the distance to x = -1 (and to x = 1 when N >= 1), where T runs off to infinity.
+//     At most LAMBERT_MAX_ITER steps, else ERR_NOT_CONVERGED.
+//  5. N >= 1: T(x) has one minimum on (-1, 1), at x_min > 0 (T'(0) = -2). When T < T(0) the minimum is found
+//     (Halley's method on T'(x) = 0 from x = 0, at most LAMBERT_MIN_MAX_ITER steps); T < T(x_min) ->
+//     ERR_NO_SOLUTION. The two solutions are the two branches (names ours):
+//       branch 0, "short-period": x < x_min, the solution with the smaller semi-major axis (Izzo's "left");
+//       branch 1, "long-period":  x > x_min, the solution with the larger semi-major axis (Izzo's "right").
+//     (With a = s / (2 (1 - x^2)): for T below T(0) both roots are in (0, 1) and the left one is nearer 0;
+//     above T(0) the left root x_l < 0 satisfies T(|x_l|) < T(x_l) = T, so the right root lies beyond |x_l|.)
+//  6. Velocities from x (Izzo 2015, Algorithm 1): radial and tangential components at both ends.
+//
+// Domain: finite inputs with |r1|, |r2| between about 1e-150 and 1e150 (their squares must not underflow or
+// overflow; else ERR_DOMAIN or ERR_OVERFLOW), any mu > 0, tof > 0, revs >= 0. When r1 x r2 has a zero z component
+// the transfer plane contains the z axis and "prograde" is taken to mean the short way (motion about r1 x r2).
+// Status ERR_OVERFLOW when a result is not finite.
+//
+// Output slots: 0-2 = v1, 3-5 = v2, 6 = iterations (steps on x plus the Halley steps spent finding x_min).
+// Accuracy (release f64 build, vectors/lambert.csv: 920 cases, 0 to 5 revolutions, ellipses, hyperbolas, the
+// near-parabolic band; 50-digit references by the p-iteration and shooting, harness/reference/lambert.ts):
+// |v - v_ref| / |v_ref| at most 8.1e-15 (v1) and 1.4e-14 (v2) away from 180 degrees, and at most 8.6 times the
+// problem's own conditioning everywhere (near 180 degrees 1.7e-10 at a conditioning of 1e-10). Worst seen against
+// the conditioning: v2 of a heliocentric hyperbola, mu = 1.32712440018e11, r1 = (57359981095.467155,
+// 26788298197.475147, -11884318025.840384), r2 = (4160495100.326306, -620769307.4332255, -6127436423.589326),
+// tof = 17769390514.04574, retrograde: 1.8e-15 at a conditioning of 2.1e-16. At most 8 iterations (mean 2.7).
+
+import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED, ERR_DEGENERATE, ERR_NO_SOLUTION, ERR_OVERFLOW } from "./status";
+import { put } from "./io";
+import { IS_F32, EPS, PI } from "./real";
+
+/** Cap on the steps solving T(x) = T. */
+export const LAMBERT_MAX_ITER: i32 = 30;
+/** Cap on the Halley steps locating the minimum time of a multi-revolution transfer. */
+export const LAMBERT_MIN_MAX_ITER: i32 = 20;
+/** Cap on the terms of the hypergeometric series (|S1| <= 0.25 in its region: 2^-53 after 30 terms). */
+const SERIES_MAX_TERMS: i32 = 60;
+
+/** Branch 0: the multi-revolution solution with the smaller semi-major axis. */
+export const LAMBERT_SHORT_PERIOD: i32 = 0;
+/** Branch 1: the multi-revolution solution with the larger semi-major axis. */
+export const LAMBERT_LONG_PERIOD: i32 = 1;
+
+/** Below this sin(transfer angle) the plane of r1 and r2 is taken as undefined (2^-33 = 1.2e-10; f32: 2^-12). */
+const PLANE_MIN_SIN: real = IS_F32 ? <real>2.44140625e-4 : <real>1.1641532182693481e-10;
+/** With N = 0, T(x) comes from Battin's series for |x - 1| below this (the closed form cancels there). */
+const BATTIN_MAX: real = <real>0.125;
+/** Within this |1 - x^2| of the parabola Izzo's derivative recurrences divide a cancelled numerator: Newton only. */
+const NEAR_PARABOLA: real = <real>6.103515625e-5; // 2^-14
+/** Stop after a Householder step below this (relative to max(1, |x|)): the next error is about its 4th power. */
+const STOP_STEP: real = IS_F32 ? <real>2.44140625e-4 : <real>5.960464477539063e-8; // 2^-12, 2^-24
+/** Stop after a Newton step below this: the next error is about its square. */
+const STOP_STEP_NEWTON: real = IS_F32 ? <real>6.103515625e-5 : <real>9.094947017729282e-13; // 2^-14, 2^-40
+/** Stop the Halley search for x_min after a step below this (its error is then about the cube). */
+const STOP_MIN: real = IS_F32 ? <real>2.44140625e-4 : <real>1.4901161193847656e-8; // 2^-12, 2^-26
+const LN2: real = <real>0.6931471805599453;
+const TWO_THIRDS: real = <real>0.6666666666666666;
+const FOUR_THIRDS: real = <real>1.3333333333333333;
+
+// The problem being solved, set once per call (module-level scalars: no allocation).
+let lam: real = 0; // lambda
+let lam2: real = 0; // lambda^2
+let oml2: real = 0; // 1 - lambda^2 = c / s
+let npi: real = 0; // N pi
+let zeroRev: bool = true;
+// Derivatives of T at the last point given to timeAt.
+let d1: real = 0;
+let d2: real = 0;
+let d3: real = 0;
+let steps: i32 = 0;
+
+/** lambda y - x, with no cancellation when lambda x > 0 (y^2 = 1 - lambda^2 + lambda^2 x^2). */
+function lamYMinusX(x: real, y: real): real {
+  if (lam * x > 0) return (oml2 * (lam2 - x * x * (<real>1.0 + lam2))) / (lam * y + x);
+  return lam * y - x;
+}
+
+/** 1 - lambda, exact to rounding for lambda near 1. */
+function oneMinusLam(): real {
+  return lam > 0 ? oml2 / (<real>1.0 + lam) : <real>1.0 - lam;
+}
+
+/**
+ * T(x) from Battin's series (N = 0, x near 1): eta = y - lambda x, S1 = (1 - lambda - x eta) / 2,
+ * Q = 4/3 F(3, 1; 5/2; S1), T = (eta^3 Q + 4 lambda eta) / 2. Sets d1 = T'(x) from the same series.
+ */
+function battinTime(x: real, y: real, eta: real): real {
+  const S1 = (oneMinusLam() - x * eta) * <real>0.5;
+  let F: real = 1; // sum c_k S1^k, c_0 = 1, c_k = c_(k-1) (2 + k) / (1.5 + k)
+  let dF: real = 0; // sum k c_k S1^(k-1)
+  let c: real = 1;
+  let zk1: real = 1; // S1^(k-1)
+  for (let k = 1; k <= SERIES_MAX_TERMS; k++) {
+    const kr = <real>k;
+    c = (c * (<real>2.0 + kr)) / (<real>1.5 + kr);
+    const dterm = kr * c * zk1;
+    const term = c * zk1 * S1;
+    F += term;
+    dF += dterm;
+    zk1 *= S1;
+    if (abs(dterm) <= EPS * <real>0.125 * abs(dF) && abs(term) <= EPS * <real>0.125 * F) break;
+  }
+  const Q = FOUR_THIRDS * F;
+  const dQ = FOUR_THIRDS * dF;
+  const e2 = eta * eta;
+  const deta = (-lam * eta) / y;
+  const dS1 = -(eta + x * deta) * <real>0.5;
+  d1 = (<real>3.0 * e2 * deta * Q + e2 * eta * dQ * dS1 + <real>4.0 * lam * deta) * <real>0.5;
+  return (e2 * eta * Q + <real>4.0 * lam * eta) * <real>0.5;
+}
+
+/** Normalized time of flight T(x) for the current problem; sets d1, d2, d3 (d2 = d3 = 0 means Newton only). */
+function timeAt(x: real): real {
+  const omx2 = (<real>1.0 - x) * (<real>1.0 + x);
+  const y = RMath.sqrt(oml2 + lam2 * x * x);
+  const eta = lam * x > 0 ? oml2 / (y + lam * x) : y - lam * x; // y - lambda x
+  let T: real;
+  let series = false;
+  if (zeroRev && abs(x - <real>1.0) < BATTIN_MAX) {
+    T = battinTime(x, y, eta);
+    series = true;
+  } else if (omx2 > 0) {
+    const sq = RMath.sqrt(omx2);
+    const psi = RMath.atan2(sq * eta, x * y + lam * omx2);
+    T = ((psi + npi) / sq + lamYMinusX(x, y)) / omx2;
+  } else {
+    const rho = -omx2;
+    const sq = RMath.sqrt(rho);
+    const psi = RMath.asinh(sq * eta);
+    T = (-lamYMinusX(x, y) - psi / sq) / rho;
+  }
+  if (series && abs(omx2) < NEAR_PARABOLA) {
+    d2 = 0;
+    d3 = 0;
+    return T;
+  }
+  // Izzo (2015), eq. 22.
+  const y2 = y * y;
+  const l3 = lam2 * lam;
+  if (!series) d1 = (<real>3.0 * T * x - <real>2.0 + (<real>2.0 * l3 * x) / y) / omx2;
+  d2 = (<real>3.0 * T + <real>5.0 * x * d1 + (<real>2.0 * oml2 * l3) / (y2 * y)) / omx2;
+  d3 = (<real>7.0 * x * d2 + <real>8.0 * d1 - (<real>6.0 * oml2 * l3 * lam2 * x) / (y2 * y2 * y)) / omx2;
+  return T;
+}
+
+/**
+ * Root of T(x) = Tt in (lo, hi) from x0, T decreasing there (increasing when `increasing`) apart from a part of
+ * the bracket that lies beyond the minimum. Returns NaN when the step cap is reached.
+ */
+function solveX(Tt: real, x0: real, lo0: real, hi0: real, increasing: bool): real {
+  let x = x0;
+  let lo = lo0;
+  let hi = hi0;
+  for (let it = 0; it < LAMBERT_MAX_ITER; it++) {
+    const f = timeAt(x) - Tt;
+    steps++;
+    if (f == 0) return x;
+    if (f > 0 != increasing) lo = x;
+    else hi = x;
+    let dx: real;
+    const newton = d2 == 0 && d3 == 0;
+    if (newton) {
+      dx = -f / d1;
+    } else {
+      dx = (-f * (d1 * d1 - <real>0.5 * f * d2)) / (d1 * (d1 * d1 - f * d2) + d3 * f * f * <real>0.16666666666666666);
+    }
+    // The step is measured against the distance to the end where T runs off to infinity (x = -1, and x = 1
+    // with N >= 1: there T grows like (1 - x^2)^-3/2 and 1 -+ x is what carries the orbit), else against max(1, |x|).
+    let scale: real = abs(x) > 1 ? abs(x) : 1;
+    if (x < 0 && <real>1.0 + x < scale) scale = <real>1.0 + x;
+    if (!zeroRev && x > 0 && <real>1.0 - x < scale) scale = <real>1.0 - x;
+    if (abs(dx) <= (newton ? STOP_STEP_NEWTON : STOP_STEP) * scale) return x + dx;
+    let xn = x + dx;
+    // A step that leaves the bracket (or fails to move) is replaced by bisection.
+    if (!(xn > lo && xn < hi)) xn = isFinite(hi) ? <real>0.5 * (lo + hi) : x + abs(x) + <real>1.0;
+    x = xn;
+  }
+  return NaN;
+}
+
+/** x at the minimum of T for N >= 1 (root of T' in (0, 1), T'(0) = -2): Halley's method, bracketed. NaN if capped. */
+function findXMin(): real {
+  let x: real = 0;
+  let lo: real = 0;
+  let hi: real = 1;
+  for (let it = 0; it < LAMBERT_MIN_MAX_ITER; it++) {
+    timeAt(x);
+    steps++;
+    if (d1 == 0) return x;
+    if (d1 < 0) lo = x;
+    else hi = x;
+    const dx = (<real>-2.0 * d1 * d2) / (<real>2.0 * d2 * d2 - d1 * d3);
+    if (abs(dx) <= STOP_MIN) return x + dx;
+    const xn = x + dx;
+    x = xn > lo && xn < hi ? xn : <real>0.5 * (lo + hi);
+  }
+  return NaN;
+}
+
+/**
+ * Solve Lambert's problem. Inputs: gravitational parameter mu, positions r1 and r2, time of flight tof,
+ * complete revolutions revs, retrograde (0 prograde, 1 retrograde), branch (0 short-period, 1 long-period;
+ * ignored when revs = 0). Writes v1 to slots 0-2, v2 to 3-5, the step count to 6.
+ */
+export function lambert(mu: real, r1x: real, r1y: real, r1z: real, r2x: real, r2y: real, r2z: real, tof: real, revs: i32, retrograde: i32, branch: i32): i32 {
+  put(6, 0);
+  steps = 0;
+  if (!isFinite(mu) || !isFinite(r1x) || !isFinite(r1y) || !isFinite(r1z) || !isFinite(r2x) || !isFinite(r2y) || !isFinite(r2z) || !isFinite(tof)) {
+    return ERR_NONFINITE;
+  }
+  if (!(mu > 0) || !(tof > 0) || revs < 0 || (retrograde != 0 && retrograde != 1) || (branch != 0 && branch != 1)) return ERR_DOMAIN;
+  const r1n = RMath.sqrt(r1x * r1x + r1y * r1y + r1z * r1z);
+  const r2n = RMath.sqrt(r2x * r2x + r2y * r2y + r2z * r2z);
+  if (!(r1n > 0) || !(r2n > 0)) return ERR_DOMAIN;
+  if (!isFinite(r1n) || !isFinite(r2n)) return ERR_OVERFLOW;
+  // Plane: h = r1 x r2.
+  const hx = r1y * r2z - r1z * r2y;
+  const hy = r1z * r2x - r1x * r2z;
+  const hz = r1x * r2y - r1y * r2x;
+  const hn = RMath.sqrt(hx * hx + hy * hy + hz * hz);
+  if (!(hn > PLANE_MIN_SIN * r1n * r2n)) return ERR_DEGENERATE;
+  const dotp = r1x * r2x + r1y * r2y + r1z * r2z;
+  const cx = r2x - r1x;
+  const cy = r2y - r1y;
+  const cz = r2z - r1z;
+  const c = RMath.sqrt(cx * cx + cy * cy + cz * cz);
+  const per = r1n + r2n + c;
+  const s = <real>0.5 * per;
+  // s - c = (r1 + r2 - c) / 2 = (r1 r2 + r1.r2) / (r1 + r2 + c); near 180 degrees r1 r2 + r1.r2 = |h|^2 / (r1 r2 - r1.r2).
+  const r1r2 = r1n * r2n;
+  const plus = dotp >= 0 ? r1r2 + dotp : (hn * hn) / (r1r2 - dotp);
+  const smc = plus / per;
+  // Direction: +1 when the motion asked for turns about r1 x r2 (lambda >= 0), -1 when it turns the long way.
+  let sgn: real = hz >= 0 ? 1 : -1;
+  if (retrograde == 1) sgn = -sgn;
+  lam2 = smc / s;
+  oml2 = c / s;
+  lam = sgn * RMath.sqrt(lam2);
+  zeroRev = revs == 0;
+  npi = <real>revs * PI;
+  const T = (tof * RMath.sqrt((<real>2.0 * mu) / s)) / s;
+  if (!isFinite(T)) return ERR_OVERFLOW;
+
+  // Times at x = 0 (N = 0) and at the parabola x = 1.
+  const sqo = RMath.sqrt(oml2);
+  const T00 = RMath.atan2(sqo, lam) + lam * sqo;
+  let x: real;
+  if (zeroRev) {
+    const oml = oneMinusLam();
+    const T1 = TWO_THIRDS * oml * (<real>1.0 + lam + lam2);
+    let x0: real;
+    if (T >= T00) x0 = RMath.pow(T00 / T, TWO_THIRDS) - <real>1.0;
+    else if (T <= T1) x0 = (<real>2.5 * T1 * (T1 - T)) / (T * oml * (<real>1.0 + lam + lam2 + lam2 * lam + lam2 * lam2)) + <real>1.0;
+    else x0 = RMath.pow(T00 / T, LN2 / RMath.log(T00 / T1)) - <real>1.0;
+    x = solveX(T, x0, <real>-1.0, <real>Infinity, false);
+  } else {
+    const T0 = T00 + npi;
+    const left = branch == LAMBERT_SHORT_PERIOD;
+    // Izzo's starters for the two branches (2015, eq. 31).
+    const tl = RMath.pow((npi + PI) / (<real>8.0 * T), TWO_THIRDS);
+    const tr = RMath.pow((<real>8.0 * T) / npi, TWO_THIRDS);
+    let x0 = left ? (tl - <real>1.0) / (tl + <real>1.0) : (tr - <real>1.0) / (tr + <real>1.0);
+    let lo: real;
+    let hi: real;
+    if (T >= T0) {
+      lo = left ? <real>-1.0 : 0;
+      hi = left ? 0 : <real>1.0;
+    } else {
+      const xm = findXMin();
+      if (isNaN(xm)) {
+        put(6, <real>steps);
+        return ERR_NOT_CONVERGED;
+      }
+      const Tmin = timeAt(xm);
+      if (T < Tmin) {
+        put(6, <real>steps);
+        return ERR_NO_SOLUTION;
+      }
+      lo = left ? 0 : xm;
+      hi = left ? xm : <real>1.0;
+      // Near the minimum T is about Tmin + T''(xm) (x - xm)^2 / 2: start from that parabola's root.
+      const dq = d2 > 0 ? RMath.sqrt((<real>2.0 * (T - Tmin)) / d2) : 0;
+      const xq = left ? xm - dq : xm + dq;
+      if (!(x0 > lo && x0 < hi) || T - Tmin < <real>0.1 * (T0 - Tmin)) x0 = xq > lo && xq < hi ? xq : <real>0.5 * (lo + hi);
+    }
+    x = solveX(T, x0, lo, hi, !left);
+  }
+  if (isNaN(x)) {
+    put(6, <real>steps);
+    return ERR_NOT_CONVERGED;
+  }
+
+  // Velocities (Izzo 2015, Algorithm 1).
+  const y = RMath.sqrt(oml2 + lam2 * x * x);
+  const lymx = lamYMinusX(x, y); // lambda y - x
+  // lambda y + x and y + lambda x, each without cancellation.
+  const lypx = lam * x < 0 ? (oml2 * (lam2 - x * x * (<real>1.0 + lam2))) / (lam * y - x) : lam * y + x;
+  const yplx = lam * x < 0 ? oml2 / (y - lam * x) : y + lam * x;
+  const gamma = RMath.sqrt(<real>0.5 * mu * s);
+  const rho = (r1n - r2n) / c;
+  const sigma = RMath.sqrt((<real>1.0 - rho) * (<real>1.0 + rho));
+  const vr1 = (gamma * (lymx - rho * lypx)) / r1n;
+  const vr2 = (-gamma * (lymx + rho * lypx)) / r2n;
+  const vt = gamma * sigma * yplx;
+  const vt1 = vt / r1n;
+  const vt2 = vt / r2n;
+  // Unit vectors: radial r/|r|, tangential sgn (h x r) / (|h| |r|).
+  const k1 = sgn / (hn * r1n);
+  const k2 = sgn / (hn * r2n);
+  const t1x = (hy * r1z - hz * r1y) * k1;
+  const t1y = (hz * r1x - hx * r1z) * k1;
+  const t1z = (hx * r1y - hy * r1x) * k1;
+  const t2x = (hy * r2z - hz * r2y) * k2;
+  const t2y = (hz * r2x - hx * r2z) * k2;
+  const t2z = (hx * r2y - hy * r2x) * k2;
+  const a1 = vr1 / r1n;
+  const a2 = vr2 / r2n;
+  const v1x = a1 * r1x + vt1 * t1x;
+  const v1y = a1 * r1y + vt1 * t1y;
+  const v1z = a1 * r1z + vt1 * t1z;
+  const v2x = a2 * r2x + vt2 * t2x;
+  const v2y = a2 * r2y + vt2 * t2y;
+  const v2z = a2 * r2z + vt2 * t2z;
+  put(6, <real>steps);
+  if (!isFinite(v1x + v1y + v1z + v2x + v2y + v2z)) return ERR_OVERFLOW;
+  put(0, v1x);
+  put(1, v1y);
+  put(2, v1z);
+  put(3, v2x);
+  put(4, v2y);
+  put(5, v2z);
+  return OK;
+}

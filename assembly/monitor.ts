@@ -1,0 +1,150 @@
+// Invariant monitor: the conserved quantities of the orbit, evaluated on every step of a fixed-step run
+// (never sampled), their running maximum deviation from step 0, and the first step that exceeds a budget.
+//
+// Invariants (per unit mass; r, v the state; V the potential energy of gravity.ts):
+//  1. Energy             E = v.v/2 + V(r)           (V includes the J2/J3 terms when they are on).
+//  2. Angular momentum   h = r x v                  point mass: the whole vector is conserved;
+//                                                   zonal field: only h_z (the field is symmetric about z).
+//  3. Eccentricity vector e = ((v.v - mu/r) r - (r.v) v)/mu   (Laplace-Runge-Lenz / mu; point mass only).
+//  4. Areal velocity     dA/dt = |h|/2 (Kepler's second law); in a zonal field h_z/2, the areal velocity of
+//                        the orbit's projection on the equator, which is what stays constant there.
+// Deviations (dimensionless, from the value at step 0):
+//  energy  |E - E0| / |E0|   (|E0| replaced by mu/|r0| when E0 = 0, a parabolic start)
+//  h       |h - h0| / |h0|   point mass;   |h_z - h_z0| / |h0| zonal (|h0| > 0 so polar orbits work)
+//  ecc     |e - e0|          (e is already dimensionless; an absolute measure keeps circular orbits usable)
+//  areal   ||h| - |h0|| / |h0|  point mass;  |h_z - h_z0| / |h0| zonal
+// With zonal terms on, e is not an invariant: its deviation is still reported, and its budget is ignored.
+// Budgets: a budget > 0 is active; the first step k >= 1 whose deviation exceeds it is recorded (-1: none).
+// The helpers assume finite states with r > 0 (the integrator checks before calling them).
+
+// Setup and reference values (step 0).
+let mMu: real = 1;
+let mZonal: bool = false;
+let e0: real = 0;
+let eScale: real = 1;
+let h0x: real = 0;
+let h0y: real = 0;
+let h0z: real = 0;
+let h0: real = 1;
+let c0x: real = 0;
+let c0y: real = 0;
+let c0z: real = 0;
+let budE: real = 0;
+let budH: real = 0;
+let budEcc: real = 0;
+let budA: real = 0;
+
+// Current values (the last step monitored).
+export let curEnergy: real = 0;
+export let curHx: real = 0;
+export let curHy: real = 0;
+export let curHz: real = 0;
+export let curEx: real = 0;
+export let curEy: real = 0;
+export let curEz: real = 0;
+export let curAreal: real = 0;
+export let devE: real = 0;
+export let devH: real = 0;
+export let devEcc: real = 0;
+export let devA: real = 0;
+
+// Running maxima and first steps over budget.
+export let maxE: real = 0;
+export let maxH: real = 0;
+export let maxEcc: real = 0;
+export let maxA: real = 0;
+export let firstE: i32 = -1;
+export let firstH: i32 = -1;
+export let firstEcc: i32 = -1;
+export let firstA: i32 = -1;
+
+/** Evaluate the invariants at one state (sets the cur* values). */
+export function invariants(x: real, y: real, z: real, vx: real, vy: real, vz: real, V: real): void {
+  const v2 = vx * vx + vy * vy + vz * vz;
+  curEnergy = <real>0.5 * v2 + V;
+  curHx = y * vz - z * vy;
+  curHy = z * vx - x * vz;
+  curHz = x * vy - y * vx;
+  const r = RMath.sqrt(x * x + y * y + z * z);
+  const rv = x * vx + y * vy + z * vz;
+  const c = v2 - mMu / r;
+  const im = <real>1.0 / mMu;
+  curEx = (c * x - rv * vx) * im;
+  curEy = (c * y - rv * vy) * im;
+  curEz = (c * z - rv * vz) * im;
+  const hm = RMath.sqrt(curHx * curHx + curHy * curHy + curHz * curHz);
+  curAreal = mZonal ? <real>0.5 * curHz : <real>0.5 * hm;
+}
+
+/**
+ * Start monitoring: store the model, the budgets and the step-0 values; clear maxima and first steps.
+ * Returns false when |h0| = 0 (rectilinear motion: the relative h measures are undefined).
+ */
+export function monitorBegin(mu: real, zonal: bool, x: real, y: real, z: real, vx: real, vy: real, vz: real,
+  V: real, bE: real, bH: real, bEcc: real, bA: real): bool {
+  mMu = mu;
+  mZonal = zonal;
+  budE = bE;
+  budH = bH;
+  budEcc = bEcc;
+  budA = bA;
+  invariants(x, y, z, vx, vy, vz, V);
+  e0 = curEnergy;
+  eScale = e0 != 0 ? abs(e0) : mu / RMath.sqrt(x * x + y * y + z * z);
+  h0x = curHx;
+  h0y = curHy;
+  h0z = curHz;
+  h0 = RMath.sqrt(h0x * h0x + h0y * h0y + h0z * h0z);
+  c0x = curEx;
+  c0y = curEy;
+  c0z = curEz;
+  devE = 0;
+  devH = 0;
+  devEcc = 0;
+  devA = 0;
+  maxE = 0;
+  maxH = 0;
+  maxEcc = 0;
+  maxA = 0;
+  firstE = -1;
+  firstH = -1;
+  firstEcc = -1;
+  firstA = -1;
+  return h0 > 0;
+}
+
+/** Monitor step k (k >= 1) at the given state and potential energy V. */
+export function monitorUpdate(k: i32, x: real, y: real, z: real, vx: real, vy: real, vz: real, V: real): void {
+  invariants(x, y, z, vx, vy, vz, V);
+  const ih0 = <real>1.0 / h0;
+  devE = abs(curEnergy - e0) / eScale;
+  const dx = curEx - c0x;
+  const dy = curEy - c0y;
+  const dz = curEz - c0z;
+  devEcc = RMath.sqrt(dx * dx + dy * dy + dz * dz);
+  if (mZonal) {
+    devH = abs(curHz - h0z) * ih0;
+    devA = devH;
+  } else {
+    const hx = curHx - h0x;
+    const hy = curHy - h0y;
+    const hz = curHz - h0z;
+    devH = RMath.sqrt(hx * hx + hy * hy + hz * hz) * ih0;
+    devA = abs(<real>2.0 * curAreal - h0) * ih0;
+  }
+  if (devE > maxE) maxE = devE;
+  if (devH > maxH) maxH = devH;
+  if (devEcc > maxEcc) maxEcc = devEcc;
+  if (devA > maxA) maxA = devA;
+  if (firstE < 0 && budE > 0 && devE > budE) firstE = k;
+  if (firstH < 0 && budH > 0 && devH > budH) firstH = k;
+  if (firstEcc < 0 && !mZonal && budEcc > 0 && devEcc > budEcc) firstEcc = k;
+  if (firstA < 0 && budA > 0 && devA > budA) firstA = k;
+}
+
+/** True when every value of the last evaluation (invariants and deviations) is finite. */
+export function monitorFinite(): bool {
+  return isFinite(curEnergy) && isFinite(curHx) && isFinite(curHy) && isFinite(curHz) && isFinite(curEx) &&
+    isFinite(curEy) && isFinite(curEz) && isFinite(curAreal) && isFinite(devE) && isFinite(devH) &&
+    isFinite(devEcc) && isFinite(devA) && isFinite(eScale) && isFinite(h0);
+}

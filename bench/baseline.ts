@@ -1,0 +1,140 @@
+// Bench-only WebAssembly module (scripts/build-bench.mjs -> build/bench/baseline.wasm; asconfig target
+// `bench-baseline`). Not part of the kernels' ABI. It holds, in ONE module so that the ratios compare like with
+// like (same engine, no call from the host inside the timed loop):
+//  - the classic baseline for Kepler's equation: Newton's method started at E = M, stopped when the step is
+//    within NEWTON_TOL_REL of E (a few units in the last place: full double precision, the accuracy the
+//    project's solver reaches), capped at NEWTON_MAX_ITER (textbook form, e.g. Danby 1988, "Fundamentals of
+//    Celestial Mechanics", section 6.6; recalled from memory);
+//  - one sine plus one cosine of the AssemblyScript math library (the floor no Kepler solver can go below);
+//  - the project's elliptic solver (assembly/kepler_elliptic.ts, the same source as the release module);
+//  - loops that run each of them over the inputs placed in linear memory, and loops that time single
+//    operations (for the per-operation cost model of harness/opcount.ts).
+// Inputs: pairs (e, M) as f64 at bench_inputs(), at most BENCH_CAPACITY pairs.
+
+import { kepler_elliptic } from "../assembly/kepler_elliptic";
+import { got } from "../assembly/io";
+
+/** Largest number of (e, M) pairs the input region holds. */
+export const BENCH_CAPACITY: i32 = 2048;
+const INPUTS: usize = memory.data(BENCH_CAPACITY * 16, 16);
+/** Iteration cap of the Newton baseline (far above what it needs on the elliptic domain). */
+const NEWTON_MAX_ITER: i32 = 100;
+/** Stop when |step| <= NEWTON_TOL_REL * |E| (4 ulp of E). */
+const NEWTON_TOL_REL: f64 = 8.881784197001252e-16;
+const TWO_PI: f64 = 6.283185307179586;
+const INV_TWO_PI: f64 = 0.15915494309189535;
+
+let newtonIters: i32 = 0;
+
+export function bench_inputs(): usize {
+  return INPUTS;
+}
+
+export function bench_capacity(): i32 {
+  return BENCH_CAPACITY;
+}
+
+/** Classic Newton from E = M (after the usual reduction of M to [-pi, pi]). Returns E; iterations by newton_iterations(). */
+export function newton_elliptic(e: f64, M: f64): f64 {
+  const k = nearest(M * INV_TWO_PI);
+  const m = M - k * TWO_PI;
+  let E = m;
+  newtonIters = -1;
+  for (let it = 1; it <= NEWTON_MAX_ITER; it++) {
+    const d = (E - e * Math.sin(E) - m) / (1.0 - e * Math.cos(E));
+    E -= d;
+    if (abs(d) <= NEWTON_TOL_REL * abs(E)) {
+      newtonIters = it;
+      break;
+    }
+  }
+  return E + k * TWO_PI;
+}
+
+/** Iterations of the last newton_elliptic call (-1: the cap was reached). */
+export function newton_iterations(): i32 {
+  return newtonIters;
+}
+
+/** One sine plus one cosine. */
+export function sincos(x: f64): f64 {
+  return Math.sin(x) + Math.cos(x);
+}
+
+/** An export that does nothing with two arguments: the cost of a host-to-module call. */
+export function nop2(a: f64, b: f64): f64 {
+  return a;
+}
+
+// The loops below return a sum of their results so that no work can be removed as unused.
+
+/** kepler_elliptic over the first n input pairs. */
+export function loop_elliptic(n: i32): f64 {
+  let s: f64 = 0;
+  for (let i = 0; i < n && i < BENCH_CAPACITY; i++) {
+    const p = INPUTS + (<usize>i << 4);
+    kepler_elliptic(load<f64>(p), load<f64>(p, 8));
+    s += got(0);
+  }
+  return s;
+}
+
+/** Newton baseline over the first n input pairs. */
+export function loop_newton(n: i32): f64 {
+  let s: f64 = 0;
+  for (let i = 0; i < n && i < BENCH_CAPACITY; i++) {
+    const p = INPUTS + (<usize>i << 4);
+    s += newton_elliptic(load<f64>(p), load<f64>(p, 8));
+  }
+  return s;
+}
+
+/** One sin + one cos of each input's M. */
+export function loop_sincos(n: i32): f64 {
+  let s: f64 = 0;
+  for (let i = 0; i < n && i < BENCH_CAPACITY; i++) {
+    const p = INPUTS + (<usize>i << 4);
+    s += sincos(load<f64>(p, 8));
+  }
+  return s;
+}
+
+/** The loop alone (reads both inputs, adds them). */
+export function loop_empty(n: i32): f64 {
+  let s: f64 = 0;
+  for (let i = 0; i < n && i < BENCH_CAPACITY; i++) {
+    const p = INPUTS + (<usize>i << 4);
+    s += load<f64>(p) + load<f64>(p, 8);
+  }
+  return s;
+}
+
+/**
+ * n dependent operations of one kind (a chain: each uses the previous result), for per-operation costs.
+ * kind: 0 none (loop only), 1 add, 2 mul, 3 div, 4 sqrt, 5 sin, 6 cos, 7 cbrt, 8 log, 9 exp, 10 atan2,
+ * 11 atan, 12 pow, 13 sinh, 14 tan, 15 hypot. Arguments stay in [0.5, 2] so no special path is timed.
+ */
+export function op_chain(kind: i32, n: i32, x0: f64): f64 {
+  let x = x0;
+  const c: f64 = 1.0000001;
+  switch (kind) {
+    case 0: for (let i = 0; i < n; i++) { x = x * 1.0; } break;
+    case 1: for (let i = 0; i < n; i++) { x = x + c; } break;
+    case 2: for (let i = 0; i < n; i++) { x = x * c; } break;
+    case 3: for (let i = 0; i < n; i++) { x = c / x; } break;
+    case 4: for (let i = 0; i < n; i++) { x = sqrt(x) + 0.5; } break;
+    case 5: for (let i = 0; i < n; i++) { x = Math.sin(x) + 0.9; } break;
+    case 6: for (let i = 0; i < n; i++) { x = Math.cos(x) + 0.9; } break;
+    case 7: for (let i = 0; i < n; i++) { x = Math.cbrt(x) + 0.5; } break;
+    case 8: for (let i = 0; i < n; i++) { x = Math.log(x) + 1.5; } break;
+    case 9: for (let i = 0; i < n; i++) { x = Math.exp(x - 1.0) + 0.2; } break;
+    case 10: for (let i = 0; i < n; i++) { x = Math.atan2(x, 1.1) + 0.7; } break;
+    case 11: for (let i = 0; i < n; i++) { x = Math.atan(x) + 0.7; } break;
+    case 12: for (let i = 0; i < n; i++) { x = Math.pow(x, 0.75) + 0.3; } break;
+    case 13: for (let i = 0; i < n; i++) { x = Math.sinh(x - 1.0) + 1.0; } break;
+    case 14: for (let i = 0; i < n; i++) { x = Math.tan(x - 1.0) + 1.2; } break;
+    case 15: for (let i = 0; i < n; i++) { x = Math.hypot(x, 0.5) - 0.3; } break;
+    default: return -1;
+  }
+  return x;
+}

@@ -1,0 +1,103 @@
+/**
+ * The release module must give the same bits everywhere it runs: under the engine's baseline compiler and its
+ * optimizing compiler (child node processes with the tier forced), and as native code (wasm2c + the C compiler,
+ * -ffp-contract=off). Checked on every vector case of every suite. Also: the build is reproducible, and the
+ * native runner's own CSV mode writes the same text as `areal eval`.
+ */
+import { describe, it, expect, beforeAll } from "vitest";
+import { execFile, execFileSync } from "node:child_process";
+import { promisify } from "node:util";
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { ROOT } from "../harness/paths.js";
+import { SPECS } from "../harness/specs/index.js";
+import { compareBuilds, type CompareBuild } from "../harness/compare.js";
+import { nativeUnavailable, closeNative, NATIVE_EXE } from "../harness/builds.js";
+import { readVectors, vectorPath } from "../harness/vectors.js";
+import { evaluateCsv } from "../harness/evaluate.js";
+import { findRoutine } from "../harness/routines.js";
+import { loadBuild } from "../harness/load.js";
+import { formatCsv } from "../harness/csv.js";
+import { nativeToolchainMissing, REQUIRE_NATIVE } from "./builds-helpers.js";
+
+const run = promisify(execFile);
+
+/** Make the native build current when the toolchain is here; the reason it cannot run otherwise. */
+function prepareNative(): string | undefined {
+  if (nativeUnavailable() === undefined) return undefined;
+  const missing = nativeToolchainMissing();
+  if (missing) return missing;
+  execFileSync(process.execPath, [join(ROOT, "scripts", "build-native.mjs"), "--require"], { cwd: ROOT, stdio: "pipe" });
+  return nativeUnavailable();
+}
+
+let nativeWhy: string | undefined;
+beforeAll(() => {
+  // The forced-tier runs load the compiled harness (dist/, made by `npm run build`) in child processes.
+  if (!existsSync(join(ROOT, "dist", "harness", "compare.js"))) try {
+    execFileSync(process.execPath, [join(ROOT, "node_modules", "typescript", "bin", "tsc"), "-p", "tsconfig.json"], { cwd: ROOT, stdio: "pipe" });
+  } catch {
+    // type errors elsewhere in the tree still emit JavaScript; the runs below fail loudly if it is missing
+  }
+  nativeWhy = prepareNative();
+  if (nativeWhy) {
+    if (REQUIRE_NATIVE) throw new Error(`AREAL_REQUIRE_NATIVE=1 but the native build cannot run: ${nativeWhy}`);
+    process.stderr.write(`builds-native: native build skipped: ${nativeWhy}\n`);
+  }
+  return () => closeNative();
+});
+
+describe("bit-identity of the release module across engine tiers and the native build", () => {
+  it("baseline, optimizing and native agree with the default engine bit for bit on every vector case", () => {
+    const builds: CompareBuild[] = ["f64", "baseline", "optimizing", ...(nativeWhy ? [] : ["native" as const])];
+    const specs = SPECS.filter((s) => existsSync(vectorPath(s.suite)));
+    const rep = compareBuilds(builds, specs);
+    expect(rep.comparisons.length).toBe(specs.length * (builds.length - 1));
+    let total = 0;
+    for (const c of rep.comparisons) {
+      expect(c.cases, `${c.suite} ${c.build}`).toBe(readVectors(vectorPath(c.suite)).values.length);
+      expect({ suite: c.suite, build: c.build, identical: c.identical, first: c.first }).toEqual({ suite: c.suite, build: c.build, identical: c.cases, first: undefined });
+      total += c.cases;
+    }
+    expect(total).toBeGreaterThan(10000);
+  });
+});
+
+describe("the native runner", () => {
+  it.skipIf(nativeToolchainMissing() !== undefined && !REQUIRE_NATIVE)("reads the CSV `areal eval` reads and writes the same text", () => {
+    if (nativeWhy) return; // reported in beforeAll
+    const v = readVectors(vectorPath("kepler-elliptic"));
+    const rows = v.values.filter((_, i) => i % 7 === 0).map((r) => [r[0]!, r[1]!]);
+    const csv = formatCsv(["e", "M"], rows);
+    const dir = mkdtempSync(join(tmpdir(), "areal-native-csv-"));
+    try {
+      const file = join(dir, "cases.csv");
+      writeFileSync(file, csv);
+      const native = execFileSync(NATIVE_EXE, ["eval", "kepler-elliptic", file], { encoding: "utf8", maxBuffer: 1 << 28 });
+      const wasm = evaluateCsv(findRoutine("kepler-elliptic")!, readFileSync(file, "utf8"), file, loadBuild("f64")).csv;
+      expect(native.split("\n").length).toBe(rows.length + 2);
+      expect(native).toBe(wasm);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+});
+
+describe("reproducible build", () => {
+  it("compiling the release target twice gives the same bytes", async () => {
+    const dir = mkdtempSync(join(tmpdir(), "areal-repro-"));
+    try {
+      const asc = join(ROOT, "node_modules", ".bin", "asc");
+      // The two compilations run side by side (independent processes), so the test costs one compile.
+      await Promise.all(["a", "b"].map((n) => run(asc, ["assembly/index.ts", "--target", "release", "--outFile", join(dir, `${n}.wasm`), "--textFile", join(dir, `${n}.wat`)], { cwd: ROOT })));
+      const a = readFileSync(join(dir, "a.wasm"));
+      const b = readFileSync(join(dir, "b.wasm"));
+      expect(a.length).toBeGreaterThan(1000);
+      expect(Buffer.compare(a, b)).toBe(0);
+      expect(WebAssembly.Module.imports(new WebAssembly.Module(a))).toEqual([]);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+});
