@@ -34,6 +34,14 @@
 // wrong sign for e (a > 0 needs e < 1, a < 0 needs e > 1; e = 1 needs state_p) -> ERR_DOMAIN; rectilinear
 // state -> ERR_DEGENERATE (invariants.ts); 1 + e cos nu <= 0 (beyond the asymptote) -> ERR_UNREACHABLE;
 // a non-finite output -> ERR_OVERFLOW.
+// Range: elements works on a power-of-two scaled copy of a state outside the plain formulas' window
+// (invariants.ts, "Range"; ERR_OVERFLOW where mu / (|r| |v|^2) is beyond about 2^+-598, or |r| or |v| beyond the
+// largest real); p, and a unless 0, below the normal range -> ERR_OVERFLOW (before 2026-12,
+// elements(2^53, 1, 0, 0, 0, 0, 1.57e-162) gave p = 0 with status ok). |e|, sin i and planeAngle's triple
+// products use power-of-two scaled copies where squares or products would leave the range. state / state_p:
+// sqrt(mu / p) is taken as sqrt(mu) / sqrt(p) where mu / p is not a normal number; state rescales a p = a (1 - e^2)
+// that under- or overflows; r or v whose largest component is below the normal range -> ERR_OVERFLOW. Inside the
+// window the results are bit for bit those of the plain formulas.
 // Output slots: elements 0 a, 1 e, 2 i, 3 RAAN, 4 argp, 5 nu, 6 p; state 0..2 r, 3..5 v.
 // Accuracy (f64, vectors/elements.csv and vectors/state.csv): within 10 x the conditioning of each output
 // (the change caused by one ulp of one input), or a few ulp absolute for angles; see vectors/limits.json.

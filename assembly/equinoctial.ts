@@ -20,6 +20,12 @@
 //     w = 1 + f cos L + g sin L <= 0 (beyond a hyperbola's asymptote) -> ERR_UNREACHABLE.
 //  2. r = p / w; r = r (cos L f_hat + sin L g_hat); v = sqrt(mu / p) (-(g + sin L) f_hat + (f + cos L) g_hat).
 // A non-finite output -> ERR_OVERFLOW.
+// Range: equinoctial works on a power-of-two scaled copy of a state outside the plain formulas' window
+// (invariants.ts, "Range"; ERR_OVERFLOW where mu / (|r| |v|^2) is beyond about 2^+-598); p below the normal
+// range -> ERR_OVERFLOW (before 2026-12 it came back 0 with status ok). Near i = pi, h_x^2 + h_y^2 and
+// h^2 + k^2 are formed on power-of-two scaled copies when they would leave the range (i within 2^-500 of pi
+// gave ERR_DEGENERATE before). from_equinoctial: sqrt(mu / p) as sqrt(mu) / sqrt(p) where mu / p is not a normal
+// number; r or v whose largest component is below the normal range -> ERR_OVERFLOW.
 // Output slots: equinoctial 0 p, 1 f, 2 g, 3 h, 4 k, 5 L; from_equinoctial 0..2 r, 3..5 v.
 // Accuracy (f64, vectors/equinoctial.csv, vectors/from-equinoctial.csv): see vectors/limits.json.
 

@@ -197,7 +197,7 @@ export let kV: i32 = 0;
 /**
  * The state the two-body kernels compute with (see "Range" in the header): (mu, r, v) itself inside the
  * window, a power-of-two scaled copy outside it. ERR_OVERFLOW when no scaling puts mu' and v' in the window
- * (mu / (|r| |v|^2) beyond about 2^+-598); tMu is then mu and the caller still runs checkState on tMu, tR, tV
+ * (mu / (|r| |v|^2) beyond about 2^+-598) or |r| or |v| exceeds the largest real; tMu is then mu and the caller still runs checkState on tMu, tR, tV
  * for the statuses that come first. Non-finite input, mu <= 0 or r = 0 are left unscaled for checkState.
  */
 export function scaleState(mu: real, rx: real, ry: real, rz: real, vx: real, vy: real, vz: real): i32 {
@@ -234,6 +234,8 @@ export function scaleState(mu: real, rx: real, ry: real, rz: real, vx: real, vy:
   tVx = scale2(vx, kV);
   tVy = scale2(vy, kV);
   tVz = scale2(vz, kV);
+  // |r| or |v| beyond the largest real: ERR_OVERFLOW, as checkState gives for the unscaled state.
+  if (!isFinite(scale2(norm3(tRx, tRy, tRz), -kR)) || !isFinite(scale2(norm3(tVx, tVy, tVz), -kV))) return ERR_OVERFLOW;
   const m2 = scale2(mu, kR + 2 * kV);
   if (!(m2 >= WIN_MU_LO && m2 <= WIN_MU_HI)) return ERR_OVERFLOW;
   tMu = m2;
