@@ -21,7 +21,7 @@ export const ERR_NOT_CONVERGED: i32 = 18;
 export const ERR_DEGENERATE: i32 = 19;
 /** No solution exists for these inputs (for example a time of flight below the minimum). */
 export const ERR_NO_SOLUTION: i32 = 20;
-/** The result would overflow the floating-point range. */
+/** A result or an intermediate is outside the normal floating-point range (too large, or too small to keep its precision). */
 export const ERR_OVERFLOW: i32 = 21;
 /** The requested point cannot be reached on this conic (for example a true anomaly beyond the asymptote). */
 export const ERR_UNREACHABLE: i32 = 22;

@@ -5,6 +5,7 @@
 // the same formulation as D. A. Vallado, "Fundamentals of Astrodynamics and Applications", 4th ed. 2013,
 // Algorithm 8, written with the universal functions U_k = chi^k c_k(alpha chi^2), Stumpff c_k in stumpff.ts):
 //  1. Special cases, in order: a NaN or infinite input -> ERR_NONFINITE; mu <= 0 or r0 = 0 -> ERR_DOMAIN;
+//     a subnormal mu -> ERR_OVERFLOW (outside the normal range);
 //     rectilinear motion (|r0 x v0| <= RECTILINEAR_REL |r0| |v0|, invariants.ts) -> ERR_DEGENERATE;
 //     dt = 0 -> (r0, v0).
 //  2. alpha = 2 / r0 - v0^2 / mu (= 1 / a), sigma0 = r0 . v0 / sqrt(mu), p = |h|^2 / mu.
@@ -90,7 +91,7 @@
 import { OK, ERR_NOT_CONVERGED, ERR_NONFINITE, ERR_OVERFLOW, FIRST_ERROR } from "./status";
 import { put, got } from "./io";
 import { IS_F32 } from "./real";
-import { checkState, sR, sV2, sRV, sH } from "./invariants";
+import { MIN_NORMAL, checkState, sR, sV2, sRV, sH } from "./invariants";
 import { stumpff, C0, C1, C2, C3 } from "./stumpff";
 import { kepler_elliptic } from "./kepler_elliptic";
 import { kepler_hyperbolic } from "./kepler_hyperbolic";
@@ -129,6 +130,8 @@ export function propagate(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, 
   if (!isFinite(dt)) return ERR_NONFINITE;
   const st = checkState(mu, r0x, r0y, r0z, v0x, v0y, v0z);
   if (st != OK) return st;
+  // A subnormal mu has lost its relative precision (sqrt(mu) and mu alpha follow it): refused, not guessed.
+  if (mu < MIN_NORMAL) return ERR_OVERFLOW;
   const sqmu = RMath.sqrt(mu);
   const alpha = <real>2.0 / sR - sV2 / mu;
   const p = sH * sH / mu;

@@ -87,3 +87,18 @@ function ulpOfDouble(x: number): number {
   const ax = Math.abs(x);
   return neighbour(ax, 1) - ax;
 }
+
+/** x - sin x (or sinh x - x when `hyperbolic`) by its series, for |x| <= 1: no cancellation near 0. */
+export function oddRemainder(D: typeof Dec, x: Dec, hyperbolic: boolean): Dec {
+  const x2 = x.times(x);
+  let term = x.times(x2).div(6);
+  let sum = term;
+  const tiny = new D(10).pow(-(D.precision + 5));
+  for (let n = 5; n < 4000; n += 2) {
+    term = term.times(x2).div((n - 1) * n);
+    if (!hyperbolic) term = term.neg();
+    sum = sum.plus(term);
+    if (term.abs().lte(sum.abs().times(tiny))) break;
+  }
+  return sum;
+}

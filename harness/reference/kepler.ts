@@ -5,7 +5,7 @@
  * so that no digits are lost when the root is tiny; the working precision also grows with |M| so that
  * the reduction by whole turns keeps 60 significant digits.
  */
-import { Dec, decimalAt, exact, toDouble, piOf } from "./decimal.js";
+import { Dec, decimalAt, exact, toDouble, piOf, oddRemainder } from "./decimal.js";
 
 const MAX_NEWTON = 400;
 
@@ -14,20 +14,6 @@ function digitsFor(M: number): number {
   return 60 + mag;
 }
 
-/** x - sin x (or sinh x - x when hyperbolic) by its series, for |x| <= 1. */
-function oddRemainder(D: typeof Dec, x: Dec, hyperbolic: boolean): Dec {
-  const x2 = x.times(x);
-  let term = x.times(x2).div(6);
-  let sum = term;
-  const tiny = new D(10).pow(-(D.precision + 5));
-  for (let n = 5; n < 2000; n += 2) {
-    term = term.times(x2).div((n - 1) * n);
-    if (!hyperbolic) term = term.neg();
-    sum = sum.plus(term);
-    if (term.abs().lte(sum.abs().times(tiny))) break;
-  }
-  return sum;
-}
 
 /** E - e sin E - m with no cancellation near E = 0. */
 function ellipticResidual(D: typeof Dec, e: Dec, E: Dec, m: Dec): Dec {

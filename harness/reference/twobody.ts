@@ -13,7 +13,7 @@
  * The conditioning figure of a case is the largest relative change of the result when one input double moves
  * by one ulp (to the next double up), computed at the same precision; angles are compared modulo 2 pi.
  */
-import { Dec, decimalAt, exact, toDouble } from "./decimal.js";
+import { Dec, decimalAt, exact, toDouble, oddRemainder } from "./decimal.js";
 import { fromBits, toBits } from "../float.js";
 
 type D = typeof Dec;
@@ -54,20 +54,6 @@ const scale = (a: V3, s: Dec): V3 => [a[0].times(s), a[1].times(s), a[2].times(s
 const add = (a: V3, b: V3): V3 => [a[0].plus(b[0]), a[1].plus(b[1]), a[2].plus(b[2])];
 const sub = (a: V3, b: V3): V3 => [a[0].minus(b[0]), a[1].minus(b[1]), a[2].minus(b[2])];
 
-/** x - sin x (or sinh x - x) by its series, |x| <= 1. */
-function oddRemainder(P: D, x: Dec, hyperbolic: boolean): Dec {
-  const x2 = x.times(x);
-  let term = x.times(x2).div(6);
-  let sum = term;
-  const tiny = new P(10).pow(-(P.precision + 5));
-  for (let n = 5; n < 4000; n += 2) {
-    term = term.times(x2).div((n - 1) * n);
-    if (!hyperbolic) term = term.neg();
-    sum = sum.plus(term);
-    if (term.abs().lte(sum.abs().times(tiny))) break;
-  }
-  return sum;
-}
 
 /** Bracketed Newton on an increasing f with f(lo) <= 0 <= f(hi). */
 function newton(P: D, f: (x: Dec) => Dec, df: (x: Dec) => Dec, lo: Dec, hi: Dec, x0: Dec): Dec {
