@@ -330,6 +330,12 @@ export function integrate_step(n: i32): i32 {
       return ERR_OVERFLOW;
     }
   }
+  // The elapsed time k * step (slot 15) can leave the range even when the state does not (a huge step).
+  if (!isFinite(<real>k * hStep)) {
+    failed = ERR_OVERFLOW;
+    put(14, <real>k);
+    return ERR_OVERFLOW;
+  }
   writeSlots();
   return OK;
 }
