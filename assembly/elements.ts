@@ -50,7 +50,7 @@ import { OK, OK_CIRCULAR, OK_EQUATORIAL, OK_CIRCULAR_EQUATORIAL, ERR_NONFINITE, 
 import { put } from "./io";
 import { IS_F32 } from "./real";
 import { checkState, sR, sV2, sRV, sHX, sHY, sHZ, sH } from "./invariants";
-import { scaleState, tMu, tRx, tRy, tRz, tVx, tVy, tVz, kR, scale2, exponent2, maxAbs3, norm3, speedScale, MIN_NORMAL } from "./invariants";
+import { putStateInFrame, scaleState, tMu, tRx, tRy, tRz, tVx, tVy, tVz, kR, scale2, exponent2, maxAbs3, norm3, speedScale, MIN_NORMAL } from "./invariants";
 
 /** At or below this |e| the orbit is treated as circular: 2^-36 (f64), 2^-17 (f32). */
 export const CIRCULAR_E: real = IS_F32 ? <real>7.62939453125e-6 : <real>1.4551915228366852e-11;
@@ -220,20 +220,5 @@ function stateFromP(mu: real, p: real, kP: i32, e: real, i: real, raan: real, ar
   const a2 = r * sn;
   const b1 = -s * sn;
   const b2 = s * epc;
-  const rx = a1 * px + a2 * qx;
-  const ry = a1 * py + a2 * qy;
-  const rz = a1 * pz + a2 * qz;
-  const vx = b1 * px + b2 * qx;
-  const vy = b1 * py + b2 * qy;
-  const vz = b1 * pz + b2 * qz;
-  if (!isFinite(rx) || !isFinite(ry) || !isFinite(rz) || !isFinite(vx) || !isFinite(vy) || !isFinite(vz)) return ERR_OVERFLOW;
-  // r and v below the normal range would have lost their relative digits.
-  if (!(maxAbs3(rx, ry, rz) >= MIN_NORMAL) || !(maxAbs3(vx, vy, vz) >= MIN_NORMAL)) return ERR_OVERFLOW;
-  put(0, rx);
-  put(1, ry);
-  put(2, rz);
-  put(3, vx);
-  put(4, vy);
-  put(5, vz);
-  return OK;
+  return putStateInFrame(a1, a2, b1, b2, px, py, pz, qx, qy, qz);
 }

@@ -33,7 +33,7 @@ import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE, ERR_UNREACHABLE, ERR_OVE
 import { put } from "./io";
 import { IS_F32 } from "./real";
 import { checkState, sR, sV2, sRV, sHX, sHY, sHZ, sH } from "./invariants";
-import { scaleState, tMu, tRx, tRy, tRz, tVx, tVy, tVz, kR, scale2, exponent2, maxAbs3, speedScale, MIN_NORMAL, NORM_LO, NORM_HI } from "./invariants";
+import { putStateInFrame, scaleState, tMu, tRx, tRy, tRz, tVx, tVy, tVz, kR, scale2, exponent2, maxAbs3, speedScale, MIN_NORMAL, NORM_LO, NORM_HI } from "./invariants";
 
 const TWO_PI: real = IS_F32 ? <real>6.2831854820251465 : <real>6.283185307179586;
 
@@ -145,20 +145,5 @@ export function from_equinoctial(mu: real, p: real, f: real, g: real, h: real, k
   const a2 = r * sl;
   const b1 = -s * (g + sl);
   const b2 = s * (f + cl);
-  const rx = a1 * fx + a2 * gx;
-  const ry = a1 * fy + a2 * gy;
-  const rz = a1 * fz + a2 * gz;
-  const vx = b1 * fx + b2 * gx;
-  const vy = b1 * fy + b2 * gy;
-  const vz = b1 * fz + b2 * gz;
-  if (!isFinite(rx) || !isFinite(ry) || !isFinite(rz) || !isFinite(vx) || !isFinite(vy) || !isFinite(vz)) return ERR_OVERFLOW;
-  // r and v below the normal range would have lost their relative digits.
-  if (!(maxAbs3(rx, ry, rz) >= MIN_NORMAL) || !(maxAbs3(vx, vy, vz) >= MIN_NORMAL)) return ERR_OVERFLOW;
-  put(0, rx);
-  put(1, ry);
-  put(2, rz);
-  put(3, vx);
-  put(4, vy);
-  put(5, vz);
-  return OK;
+  return putStateInFrame(a1, a2, b1, b2, fx, fy, fz, gx, gy, gz);
 }

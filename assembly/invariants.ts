@@ -278,3 +278,26 @@ export function invariants(mu: real, rx: real, ry: real, rz: real, vx: real, vy:
   if (!isFinite(E) || !isFinite(e) || !isFinite(h) || !(eScale >= MIN_NORMAL) || !(areal >= MIN_NORMAL)) return ERR_OVERFLOW;
   return OK;
 }
+
+/**
+ * Write r = a1 P + a2 Q, v = b1 P + b2 Q (P, Q a unit frame of the orbit plane) to slots 0..5. Returns
+ * ERR_OVERFLOW, writing nothing, when a component is not finite or r or v is below the normal range (it would
+ * have lost its relative digits); else OK. Shared by state, state_p and from_equinoctial.
+ */
+export function putStateInFrame(a1: real, a2: real, b1: real, b2: real, px: real, py: real, pz: real, qx: real, qy: real, qz: real): i32 {
+  const rx = a1 * px + a2 * qx;
+  const ry = a1 * py + a2 * qy;
+  const rz = a1 * pz + a2 * qz;
+  const vx = b1 * px + b2 * qx;
+  const vy = b1 * py + b2 * qy;
+  const vz = b1 * pz + b2 * qz;
+  if (!isFinite(rx) || !isFinite(ry) || !isFinite(rz) || !isFinite(vx) || !isFinite(vy) || !isFinite(vz)) return ERR_OVERFLOW;
+  if (!(maxAbs3(rx, ry, rz) >= MIN_NORMAL) || !(maxAbs3(vx, vy, vz) >= MIN_NORMAL)) return ERR_OVERFLOW;
+  put(0, rx);
+  put(1, ry);
+  put(2, rz);
+  put(3, vx);
+  put(4, vy);
+  put(5, vz);
+  return OK;
+}

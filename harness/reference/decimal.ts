@@ -102,3 +102,24 @@ export function oddRemainder(D: typeof Dec, x: Dec, hyperbolic: boolean): Dec {
   }
   return sum;
 }
+
+/**
+ * Bracketed Newton on an increasing f with f(lo) <= 0 <= f(hi): Newton steps, bisection whenever a step would
+ * leave the bracket; stops when a step is below 10^-(precision - guardDigits) relative. Throws after maxSteps.
+ */
+export function bracketedNewton(D: typeof Dec, f: (x: Dec) => Dec, df: (x: Dec) => Dec, lo: Dec, hi: Dec, x0: Dec, guardDigits: number, maxSteps: number): Dec {
+  let x = x0;
+  const tol = new D(10).pow(-(D.precision - guardDigits));
+  for (let i = 0; i < maxSteps; i++) {
+    const fx = f(x);
+    if (fx.isZero()) return x;
+    if (fx.isNegative()) lo = x;
+    else hi = x;
+    const step = fx.div(df(x));
+    if (step.abs().lte(x.abs().times(tol))) return x.minus(step);
+    let next = x.minus(step);
+    if (!next.isFinite() || next.lte(lo) || next.gte(hi)) next = lo.plus(hi).div(2);
+    x = next;
+  }
+  throw new Error("reference Newton iteration did not converge");
+}

@@ -5,7 +5,7 @@
  * so that no digits are lost when the root is tiny; the working precision also grows with |M| so that
  * the reduction by whole turns keeps 60 significant digits.
  */
-import { Dec, decimalAt, exact, toDouble, piOf, oddRemainder } from "./decimal.js";
+import { Dec, decimalAt, exact, toDouble, piOf, oddRemainder, bracketedNewton } from "./decimal.js";
 
 const MAX_NEWTON = 400;
 
@@ -38,22 +38,9 @@ function cubicRoot(D: typeof Dec, c1: Dec, c3: Dec, r: Dec): Dec {
   return rr.div(t.times(t).plus(p.div(3)).plus(p.times(p).div(t.times(t).times(9))));
 }
 
-/** Bracketed Newton: root of f in [lo, hi] where f(lo) <= 0 <= f(hi), f increasing. */
+/** The shared bracketed Newton (decimal.ts) with this generator's guard digits and step cap. */
 function solveMonotone(D: typeof Dec, f: (x: Dec) => Dec, df: (x: Dec) => Dec, lo: Dec, hi: Dec, x0: Dec): Dec {
-  let x = x0;
-  const tol = new D(10).pow(-(D.precision - 8));
-  for (let i = 0; i < MAX_NEWTON; i++) {
-    const fx = f(x);
-    if (fx.isZero()) return x;
-    if (fx.isNegative()) lo = x;
-    else hi = x;
-    const step = fx.div(df(x));
-    if (step.abs().lte(x.abs().times(tol))) return x.minus(step);
-    let next = x.minus(step);
-    if (next.lte(lo) || next.gte(hi) || !next.isFinite()) next = lo.plus(hi).div(2);
-    x = next;
-  }
-  throw new Error("reference iteration did not converge");
+  return bracketedNewton(D, f, df, lo, hi, x0, 8, MAX_NEWTON);
 }
 
 /** The correctly rounded E with E - e sin E = M, for 0 <= e < 1 and finite M (doubles, taken exactly). */

@@ -13,7 +13,7 @@
  * The conditioning figure of a case is the largest relative change of the result when one input double moves
  * by one ulp (to the next double up), computed at the same precision; angles are compared modulo 2 pi.
  */
-import { Dec, decimalAt, exact, toDouble, oddRemainder } from "./decimal.js";
+import { Dec, decimalAt, exact, toDouble, oddRemainder, bracketedNewton } from "./decimal.js";
 import { fromBits, toBits } from "../float.js";
 
 type D = typeof Dec;
@@ -55,22 +55,9 @@ const add = (a: V3, b: V3): V3 => [a[0].plus(b[0]), a[1].plus(b[1]), a[2].plus(b
 const sub = (a: V3, b: V3): V3 => [a[0].minus(b[0]), a[1].minus(b[1]), a[2].minus(b[2])];
 
 
-/** Bracketed Newton on an increasing f with f(lo) <= 0 <= f(hi). */
+/** The shared bracketed Newton (decimal.ts) with this generator's guard digits and step cap. */
 function newton(P: D, f: (x: Dec) => Dec, df: (x: Dec) => Dec, lo: Dec, hi: Dec, x0: Dec): Dec {
-  let x = x0;
-  const tol = new P(10).pow(-(P.precision - 6));
-  for (let i = 0; i < MAX_NEWTON; i++) {
-    const fx = f(x);
-    if (fx.isZero()) return x;
-    if (fx.isNegative()) lo = x;
-    else hi = x;
-    const step = fx.div(df(x));
-    let next = x.minus(step);
-    if (step.abs().lte(x.abs().times(tol))) return next;
-    if (!next.isFinite() || next.lte(lo) || next.gte(hi)) next = lo.plus(hi).div(2);
-    x = next;
-  }
-  throw new Error("reference Newton iteration did not converge");
+  return bracketedNewton(P, f, df, lo, hi, x0, 6, MAX_NEWTON);
 }
 
 /**

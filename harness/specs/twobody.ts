@@ -8,7 +8,7 @@
  */
 import { Rng } from "../rng.js";
 import { referencePropagate, referenceElements, referenceState, referenceEquinoctial, referenceFromEquinoctial } from "../reference/twobody.js";
-import type { Case, VectorSpec } from "./types.js";
+import type { Case, Comparison, VectorSpec } from "./types.js";
 
 /** WGS 84 Earth GM, km^3/s^2 (NIMA TR8350.2). */
 export const GM_WGS84 = 398600.4418;
@@ -188,6 +188,12 @@ function classCases(seed: number, count: number, make: (rng: Rng, o: Orbit) => n
 }
 
 const vec = (prefix: string, suffix = ""): string[] => ["x", "y", "z"].map((c) => `${prefix}${c}${suffix}`);
+/** A state output (r, v) compared as two vectors against the reference, each widened by its conditioning. */
+const STATE_REFS = [...vec("r", "_ref"), ...vec("v", "_ref"), "cond_r", "cond_v"];
+const STATE_COMPARE: Comparison[] = [
+  { output: "rx", ref: "rx_ref", metric: "rel", group: vec("r"), refGroup: vec("r", "_ref"), cond: "cond_r" },
+  { output: "vx", ref: "vx_ref", metric: "rel", group: vec("v"), refGroup: vec("v", "_ref"), cond: "cond_v" },
+];
 
 export const propagateSpec: VectorSpec = {
   suite: "propagate",
@@ -245,11 +251,8 @@ export const stateSpec: VectorSpec = {
   suite: "state",
   routine: "state",
   inputs: ["mu", "a", "e", "i", "raan", "argp", "nu"],
-  refs: [...vec("r", "_ref"), ...vec("v", "_ref"), "cond_r", "cond_v"],
-  compare: [
-    { output: "rx", ref: "rx_ref", metric: "rel", group: vec("r"), refGroup: vec("r", "_ref"), cond: "cond_r" },
-    { output: "vx", ref: "vx_ref", metric: "rel", group: vec("v"), refGroup: vec("v", "_ref"), cond: "cond_v" },
-  ],
+  refs: STATE_REFS,
+  compare: STATE_COMPARE,
   generator: CONVERSION_GENERATOR,
   precision: "50 significant digits, rounded to nearest double",
   notes: ["a = p / (1 - e^2) of the seeded orbit, rounded; e = 1 is not in this suite (state_p takes p)", COND_NOTE, UNITS_NOTE, "tags: orbit classes, seed 20261212"],
@@ -294,11 +297,8 @@ export const fromEquinoctialSpec: VectorSpec = {
   suite: "from-equinoctial",
   routine: "from-equinoctial",
   inputs: ["mu", "p", "f", "g", "h", "k", "L"],
-  refs: [...vec("r", "_ref"), ...vec("v", "_ref"), "cond_r", "cond_v"],
-  compare: [
-    { output: "rx", ref: "rx_ref", metric: "rel", group: vec("r"), refGroup: vec("r", "_ref"), cond: "cond_r" },
-    { output: "vx", ref: "vx_ref", metric: "rel", group: vec("v"), refGroup: vec("v", "_ref"), cond: "cond_v" },
-  ],
+  refs: STATE_REFS,
+  compare: STATE_COMPARE,
   generator: CONVERSION_GENERATOR,
   precision: "50 significant digits, rounded to nearest double",
   notes: ["the reference goes through the classical elements", COND_NOTE, UNITS_NOTE, "tags: random (e < 0.9), hyperbolic (e up to 3), circular, equatorial; seed 20261214"],
