@@ -39,7 +39,7 @@
 // largest real); p, and a unless 0, below the normal range -> ERR_OVERFLOW (before 2026-12,
 // elements(2^53, 1, 0, 0, 0, 0, 1.57e-162) gave p = 0 with status ok). |e|, sin i and planeAngle's triple
 // products use power-of-two scaled copies where squares or products would leave the range. state / state_p:
-// sqrt(mu / p) is taken as sqrt(mu) / sqrt(p) where mu / p is not a normal number; state rescales a p = a (1 - e^2)
+// sqrt(mu / p) is taken on scaled mu and p where mu / p is not a normal number (invariants.ts speedScale); state rescales a p = a (1 - e^2)
 // that under- or overflows; r or v whose largest component is below the normal range -> ERR_OVERFLOW. Inside the
 // window the results are bit for bit those of the plain formulas.
 // Output slots: elements 0 a, 1 e, 2 i, 3 RAAN, 4 argp, 5 nu, 6 p; state 0..2 r, 3..5 v.
@@ -50,7 +50,7 @@ import { OK, OK_CIRCULAR, OK_EQUATORIAL, OK_CIRCULAR_EQUATORIAL, ERR_NONFINITE, 
 import { put } from "./io";
 import { IS_F32 } from "./real";
 import { checkState, sR, sV2, sRV, sHX, sHY, sHZ, sH } from "./invariants";
-import { putStateInFrame, scaleState, tMu, tRx, tRy, tRz, tVx, tVy, tVz, kR, scale2, exponent2, maxAbs3, norm3, speedScale, MIN_NORMAL } from "./invariants";
+import { putStateInFrame, scaleState, tMu, tRx, tRy, tRz, tVx, tVy, tVz, kR, scale2, exponent2, maxAbs3, norm3, speedScale, kS, MIN_NORMAL } from "./invariants";
 
 /** At or below this |e| the orbit is treated as circular: 2^-36 (f64), 2^-17 (f32). */
 export const CIRCULAR_E: real = IS_F32 ? <real>7.62939453125e-6 : <real>1.4551915228366852e-11;
@@ -203,7 +203,7 @@ function stateFromP(mu: real, p: real, kP: i32, e: real, i: real, raan: real, ar
   }
   if (!(w > 0)) return ERR_UNREACHABLE;
   const r = scale2(p / w, -kP);
-  const s = scale2(speedScale(mu, p), kP >> 1);
+  const s = speedScale(mu, p); // sqrt(mu / p_true) = s 2^((kP >> 1) - kS)
   const co = RMath.cos(raan);
   const so = RMath.sin(raan);
   const ci = RMath.cos(i);
@@ -220,5 +220,5 @@ function stateFromP(mu: real, p: real, kP: i32, e: real, i: real, raan: real, ar
   const a2 = r * sn;
   const b1 = -s * sn;
   const b2 = s * epc;
-  return putStateInFrame(a1, a2, b1, b2, px, py, pz, qx, qy, qz);
+  return putStateInFrame(a1, a2, b1, b2, (kP >> 1) - kS, px, py, pz, qx, qy, qz);
 }

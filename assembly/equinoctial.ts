@@ -24,8 +24,8 @@
 // (invariants.ts, "Range"; ERR_OVERFLOW where mu / (|r| |v|^2) is beyond about 2^+-598); p below the normal
 // range -> ERR_OVERFLOW (before 2026-12 it came back 0 with status ok). Near i = pi, h_x^2 + h_y^2 and
 // h^2 + k^2 are formed on power-of-two scaled copies when they would leave the range (i within 2^-500 of pi
-// gave ERR_DEGENERATE before). from_equinoctial: sqrt(mu / p) as sqrt(mu) / sqrt(p) where mu / p is not a normal
-// number; r or v whose largest component is below the normal range -> ERR_OVERFLOW.
+// gave ERR_DEGENERATE before). from_equinoctial: sqrt(mu / p) from mu and p scaled by powers of two where mu / p is not
+// a normal number (invariants.ts speedScale); r or v whose largest component is below the normal range -> ERR_OVERFLOW.
 // Output slots: equinoctial 0 p, 1 f, 2 g, 3 h, 4 k, 5 L; from_equinoctial 0..2 r, 3..5 v.
 // Accuracy (f64, vectors/equinoctial.csv, vectors/from-equinoctial.csv): see vectors/limits.json.
 
@@ -33,7 +33,7 @@ import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE, ERR_UNREACHABLE, ERR_OVE
 import { put } from "./io";
 import { IS_F32 } from "./real";
 import { checkState, sR, sV2, sRV, sHX, sHY, sHZ, sH } from "./invariants";
-import { putStateInFrame, scaleState, tMu, tRx, tRy, tRz, tVx, tVy, tVz, kR, scale2, exponent2, maxAbs3, speedScale, MIN_NORMAL, NORM_LO, NORM_HI } from "./invariants";
+import { putStateInFrame, scaleState, tMu, tRx, tRy, tRz, tVx, tVy, tVz, kR, scale2, exponent2, maxAbs3, speedScale, kS, MIN_NORMAL, NORM_LO, NORM_HI } from "./invariants";
 
 const TWO_PI: real = IS_F32 ? <real>6.2831854820251465 : <real>6.283185307179586;
 
@@ -145,5 +145,5 @@ export function from_equinoctial(mu: real, p: real, f: real, g: real, h: real, k
   const a2 = r * sl;
   const b1 = -s * (g + sl);
   const b2 = s * (f + cl);
-  return putStateInFrame(a1, a2, b1, b2, fx, fy, fz, gx, gy, gz);
+  return putStateInFrame(a1, a2, b1, b2, -kS, fx, fy, fz, gx, gy, gz);
 }

@@ -124,11 +124,30 @@ export function norm3(x: real, y: real, z: real): real {
   const c = scale2(z, k);
   return scale2(RMath.sqrt(a * a + b * b + c * c), -k);
 }
-/** sqrt(mu / p), with each root taken apart where mu / p leaves the normal range (a subnormal quotient has lost digits). */
+/** Left by speedScale: its result is sqrt(mu / p) 2^kS (kS = 0 where mu / p is a normal number). */
+export let kS: i32 = 0;
+/** speedScale's result stays within 2^+-SPEED_EXP (times less than 2) when mu / p leaves the normal range. */
+const SPEED_EXP: i32 = IS_F32 ? 50 : 500;
+
+/**
+ * sqrt(mu / p) 2^kS. Where mu / p is a normal number: its plain root, kS = 0. Elsewhere the quotient would
+ * have lost digits (or overflowed), and so would sqrt(mu) / sqrt(p) where the speed scale itself is below the
+ * normal range although the velocity it multiplies is not: mu and p are first taken to [1, 4) by even powers of
+ * two (exact; a subnormal mu included), and the root of their quotient is returned times the power of two
+ * nearest to the true scale within 2^+-SPEED_EXP; the caller scales the velocity by 2^-kS at the end.
+ * (Before 2026-12 the speed scale was sqrt(mu) / sqrt(p): state_p(5e-324, 7.2e298, 5.5e90, ...) gave v with
+ * a relative error of 2.8e-13, the scale 2.6e-312 having kept 38 bits.) mu, p > 0 and finite.
+ */
 export function speedScale(mu: real, p: real): real {
+  kS = 0;
   const q = mu / p;
   if (q >= MIN_NORMAL && isFinite(q)) return RMath.sqrt(q);
-  return RMath.sqrt(mu) / RMath.sqrt(p);
+  const jm = exponent2(mu) & ~1;
+  const jp = exponent2(p) & ~1;
+  const g = (jm - jp) >> 1; // sqrt(mu / p) = sqrt(mu' / p') 2^g, mu' = mu 2^-jm and p' = p 2^-jp in [1, 4)
+  const c = g > SPEED_EXP ? SPEED_EXP : g < -SPEED_EXP ? -SPEED_EXP : g;
+  kS = c - g;
+  return scale2(RMath.sqrt(scale2(mu, -jm) / scale2(p, -jp)), c);
 }
 
 /** norm3's plain range: 2^-500 .. 2^500 (f64), 2^-60 .. 2^60 (f32). */
@@ -280,17 +299,18 @@ export function invariants(mu: real, rx: real, ry: real, rz: real, vx: real, vy:
 }
 
 /**
- * Write r = a1 P + a2 Q, v = b1 P + b2 Q (P, Q a unit frame of the orbit plane) to slots 0..5. Returns
- * ERR_OVERFLOW, writing nothing, when a component is not finite or r or v is below the normal range (it would
- * have lost its relative digits); else OK. Shared by state, state_p and from_equinoctial.
+ * Write r = a1 P + a2 Q, v = (b1 P + b2 Q) 2^kv (P, Q a unit frame of the orbit plane; kv undoes speedScale's
+ * kS) to slots 0..5. Returns ERR_OVERFLOW, writing nothing, when a component is not finite or r or v is below
+ * the normal range (it would have lost its relative digits); else OK. Shared by state, state_p and
+ * from_equinoctial.
  */
-export function putStateInFrame(a1: real, a2: real, b1: real, b2: real, px: real, py: real, pz: real, qx: real, qy: real, qz: real): i32 {
+export function putStateInFrame(a1: real, a2: real, b1: real, b2: real, kv: i32, px: real, py: real, pz: real, qx: real, qy: real, qz: real): i32 {
   const rx = a1 * px + a2 * qx;
   const ry = a1 * py + a2 * qy;
   const rz = a1 * pz + a2 * qz;
-  const vx = b1 * px + b2 * qx;
-  const vy = b1 * py + b2 * qy;
-  const vz = b1 * pz + b2 * qz;
+  const vx = scale2(b1 * px + b2 * qx, kv);
+  const vy = scale2(b1 * py + b2 * qy, kv);
+  const vz = scale2(b1 * pz + b2 * qz, kv);
   if (!isFinite(rx) || !isFinite(ry) || !isFinite(rz) || !isFinite(vx) || !isFinite(vy) || !isFinite(vz)) return ERR_OVERFLOW;
   if (!(maxAbs3(rx, ry, rz) >= MIN_NORMAL) || !(maxAbs3(vx, vy, vz) >= MIN_NORMAL)) return ERR_OVERFLOW;
   put(0, rx);

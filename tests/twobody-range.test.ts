@@ -197,6 +197,29 @@ describe("elements -> state with mu / p or p out of the normal range", () => {
     expect(relVec(Array.from(k.out.slice(3, 6)), ref.slice(3, 6))).toBeLessThanOrEqual(1e-13);
   });
 
+  // The shrunk fuzz case (elements round trip, mu = 2^-1074 on a hyperbola of e = 5.5e90): sqrt(mu / p) =
+  // 2.6e-312 is itself subnormal while v = sqrt(mu / p) (e + cos nu) is not. Before 2026-12 the scale kept 38
+  // bits and v came back 2.8e-13 off (relative).
+  it("state_p(5e-324, 7.2e298, 5.5e90, ...): the speed scale sqrt(mu / p) is subnormal, v is not", () => {
+    const x = [5e-324, 7.22261036395164e298, 5.54882560718114e90, Math.PI / 2, 4.901799199527934, Math.PI / 2, 0.3];
+    expect(k.call("state_p", x)).toBe(0);
+    const ref = referenceStateP(x);
+    // The stored conditioning counts one ulp of each input, and one ulp of mu = 2^-1074 is mu itself (v's cond is
+    // 0.41): the input is exact, so the suite's plain relative limit is the one that applies here.
+    expect(relVec(Array.from(k.out.slice(0, 3)), ref.slice(0, 3))).toBeLessThanOrEqual(lim.max_rel!);
+    expect(relVec(Array.from(k.out.slice(3, 6)), ref.slice(3, 6))).toBeLessThanOrEqual(lim.max_rel!);
+  });
+
+  it("from_equinoctial with a subnormal speed scale agrees with state_p of the same orbit", () => {
+    const [mu, p, e, i, O, w, nu] = [5e-324, 7.22261036395164e298, 5.54882560718114e90, 0.5, 1, 2, 0.3];
+    const eq = [mu, p, e * Math.cos(w + O), e * Math.sin(w + O), Math.tan(i / 2) * Math.cos(O), Math.tan(i / 2) * Math.sin(O), O + w + nu];
+    expect(k.call("from_equinoctial", eq)).toBe(0);
+    const ref = referenceStateP([mu, p, e, i, O, w, nu]);
+    // The equinoctial inputs carry their own rounding (a few ulp of the angles, times e in f and g): 1e-13.
+    expect(relVec(Array.from(k.out.slice(0, 3)), ref.slice(0, 3))).toBeLessThanOrEqual(1e-13);
+    expect(relVec(Array.from(k.out.slice(3, 6)), ref.slice(3, 6))).toBeLessThanOrEqual(1e-13);
+  });
+
   it("state(1, 2^-1000, 1 - 2^-40, ..., nu = pi): p = a (1 - e^2) is subnormal, r at apoapsis is not", () => {
     const x = [1, 2 ** -1000, 1 - 2 ** -40, 0.5, 1, 2, Math.PI];
     expect(k.call("state", x)).toBe(0);
