@@ -93,11 +93,16 @@ export function shortest(x: number): string {
   return String(x);
 }
 
+/** A decimal number cell: optional sign, digits with an optional point (or a point and digits), optional exponent. */
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
 /**
  * Parse a number cell: a decimal (shortest round-trip or longer), `nan`, `inf`, `-inf`, or a 16-digit hex bit
  * pattern prefixed by `0x`. Returns undefined for anything else, so the caller can name the cell.
  */
 export function parseNumber(cell: string): number | undefined {
+  // The common case first, without trimming or case folding: a decimal with no space around it.
+  if (DECIMAL.test(cell)) return Number(cell);
   const s = cell.trim();
   if (s === "") return undefined;
   if (/^0x[0-9a-fA-F]{16}$/.test(s)) return fromBitsHex(s.slice(2));
@@ -105,6 +110,6 @@ export function parseNumber(cell: string): number | undefined {
   if (low === "nan") return NaN;
   if (low === "inf" || low === "+inf" || low === "infinity" || low === "+infinity") return Infinity;
   if (low === "-inf" || low === "-infinity") return -Infinity;
-  if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(s)) return undefined;
+  if (!DECIMAL.test(s)) return undefined;
   return Number(s);
 }

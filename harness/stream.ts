@@ -1,15 +1,14 @@
 /**
  * Reading a CSV file of any size in bounded memory: the header first, then chunks of whole lines (about
  * CHUNK_BYTES each). A chunk is raw bytes ending at a line end, so it can be handed to a worker thread as it
- * is and parsed there. Lines are split on LF with one CR before it removed, and rows go through the same
- * helpers as parseCsv (csv.ts), so the streaming reader accepts and rejects exactly what parseCsv does, with
- * the same messages.
+ * is and parsed there (evaluate.ts evaluateLines: lines split on LF with one CR before it removed, cells
+ * checked with parseCsv's rules and messages).
  */
 import { openSync, readSync, closeSync, fstatSync } from "node:fs";
-import { parseCsv, rowCells, type Table } from "./csv.js";
+import { parseCsv } from "./csv.js";
 
 /** Default chunk size: large enough that per-chunk costs vanish, small enough that a few in flight are cheap. */
-export const CHUNK_BYTES = 1 << 20;
+export const CHUNK_BYTES = 1 << 16;
 
 const LF = 0x0a;
 
@@ -107,42 +106,4 @@ export class CsvFileStream {
 function isSkippedBeforeHeader(line: string): boolean {
   const l = line.endsWith("\r") ? line.slice(0, -1) : line;
   return l.startsWith("#") || l.trim() === "";
-}
-
-/** The lines of a chunk: split on LF, one CR before it removed (as parseCsv's /\r?\n/ split does). */
-export function chunkLines(text: string): string[] {
-  const lines = text.split("\n");
-  if (lines.length > 0 && lines[lines.length - 1] === "") lines.pop();
-  // Every line but an unterminated last one was followed by LF.
-  const terminated = text.endsWith("\n") ? lines.length : lines.length - 1;
-  for (let i = 0; i < terminated; i++) {
-    const l = lines[i]!;
-    if (l.endsWith("\r")) lines[i] = l.slice(0, -1);
-  }
-  return lines;
-}
-
-/** Number of line ends in a chunk: the line number of the next chunk's first line is this much further on. */
-export function countLines(chunk: Uint8Array): number {
-  let n = 0;
-  for (let i = chunk.indexOf(LF); i >= 0; i = chunk.indexOf(LF, i + 1)) n++;
-  return n;
-}
-
-/**
- * The rows of a chunk as a Table (rows and their line numbers; `firstLine` is the chunk's first line), with
- * parseCsv's checks and messages (rowCells from csv.ts). Throws CsvError.
- */
-export function chunkTable(text: string, firstLine: number, columns: readonly string[], source: string): Table & { lineCount: number } {
-  const lines = chunkLines(text);
-  const rows: string[][] = [];
-  const nums: number[] = [];
-  for (let i = 0; i < lines.length; i++) {
-    const cells = rowCells(lines[i]!, firstLine + i, columns.length, source);
-    if (cells === undefined) continue;
-    rows.push(cells);
-    nums.push(firstLine + i);
-  }
-  const lineCount = text.endsWith("\n") ? lines.length : Math.max(0, lines.length - 1);
-  return { columns, rows, lines: nums, comments: [], lineCount };
 }

@@ -242,8 +242,10 @@ export function caseInputs(routine: Routine, g: Grid, i: number): number[] {
 // available precision", Numer. Math. 18 (1971) 224-242; two-sum from D. E. Knuth, TAOCP vol. 2)
 
 const SPLIT = 134217729; // 2^27 + 1
-let pl = 0; // low part of the last twoProd
-let sl = 0; // low part of the last twoSum
+// The low parts of the last twoProd (LOW[0]), twoSum (LOW[1]) and oddRemainder (LOW[2]). A typed array, not
+// module-level variables: V8 boxes every double stored in a module variable (a heap allocation per store, which
+// made a 9,000,000-case sweep churn through 2 GB and kept two workers from running at full speed).
+const LOW = new Float64Array(3);
 
 function twoProd(a: number, b: number): number {
   const p = a * b;
@@ -253,14 +255,14 @@ function twoProd(a: number, b: number): number {
   t = SPLIT * b;
   const bh = t - (t - b);
   const bl = b - bh;
-  pl = al * bl - (((p - ah * bh) - al * bh) - ah * bl);
+  LOW[0] = al * bl - (((p - ah * bh) - al * bh) - ah * bl);
   return p;
 }
 
 function twoSum(a: number, b: number): number {
   const s = a + b;
   const bb = s - a;
-  sl = (a - (s - bb)) + (b - bb);
+  LOW[1] = (a - (s - bb)) + (b - bb);
   return s;
 }
 
@@ -291,23 +293,22 @@ const INV_FACT: number[] = [];
     f *= (n + 1) * (n + 2);
   }
 }
-let rl = 0; // low part of the last oddRemainder
 
-/** x - sin x (sinh x - x when hyperbolic) for |x| <= 1, as the pair (result, rl). */
+/** x - sin x (sinh x - x when hyperbolic) for |x| <= 1, as the pair (result, LOW[2]). */
 function oddRemainder(x: number, hyperbolic: boolean): number {
   const x2 = x * x;
   let s = 0;
   for (let k = ODD_TERMS - 1; k >= 1; k--) s = INV_FACT[k]! + (hyperbolic ? x2 * s : -x2 * s);
   const tail = hyperbolic ? x2 * s : -x2 * s; // the series after its first term, over x^3
   const a = twoProd(x, x);
-  const al = pl;
+  const al = LOW[0]!;
   const c = twoProd(x, a);
-  const cl = pl + x * al; // x^3 = c + cl
+  const cl = LOW[0]! + x * al; // x^3 = c + cl
   const c6 = c / 6;
   const p = twoProd(c6, 6);
-  const rem = ((c - p) - pl + cl) / 6; // x^3 / 6 = c6 + rem
+  const rem = ((c - p) - LOW[0]! + cl) / 6; // x^3 / 6 = c6 + rem
   const hi = twoSum(c6, c * tail);
-  rl = sl + rem + cl * tail;
+  LOW[2] = LOW[1]! + rem + cl * tail;
   return hi;
 }
 
@@ -316,23 +317,23 @@ export function ellipticErrorUlps(e: number, M: number, E: number): number {
   if (E === M && (e === 0 || M === 0)) return 0;
   let f: number;
   if (Math.abs(E) <= 1) {
-    const q = twoSum(1, -e); // 1 - e = q + sl exactly (sl = 0 for e >= 1/2, Sterbenz)
+    const q = twoSum(1, -e); // 1 - e = q + LOW[1] exactly (LOW[1] = 0 for e >= 1/2, Sterbenz)
     const a = twoProd(q, E);
-    const al = pl + sl * E;
+    const al = LOW[0]! + LOW[1]! * E;
     const r = oddRemainder(E, false);
     const b = twoProd(e, r);
-    const bl = pl + e * rl;
+    const bl = LOW[0]! + e * LOW[2]!;
     const s = twoSum(a, -M);
-    const s1 = sl;
+    const s1 = LOW[1]!;
     const t = twoSum(s, b);
-    f = t + (s1 + sl + al + bl);
+    f = t + (s1 + LOW[1]! + al + bl);
   } else {
     const b = twoProd(e, Math.sin(E));
-    const bl = pl;
+    const bl = LOW[0]!;
     const d = twoSum(E, -M);
-    const d1 = sl;
+    const d1 = LOW[1]!;
     const t = twoSum(d, -b);
-    f = t + (d1 + sl - bl);
+    f = t + (d1 + LOW[1]! - bl);
   }
   const h = Math.sin(E / 2);
   const fp = (1 - e) + 2 * e * h * h; // 1 - e cos E without cancellation
@@ -344,23 +345,23 @@ export function hyperbolicErrorUlps(e: number, M: number, H: number): number {
   if (H === 0 && M === 0) return 0;
   let f: number;
   if (Math.abs(H) <= 1) {
-    const q = twoSum(e, -1); // e - 1 = q + sl exactly (sl = 0 for e <= 2, Sterbenz)
+    const q = twoSum(e, -1); // e - 1 = q + LOW[1] exactly (LOW[1] = 0 for e <= 2, Sterbenz)
     const a = twoProd(q, H);
-    const al = pl + sl * H;
+    const al = LOW[0]! + LOW[1]! * H;
     const r = oddRemainder(H, true);
     const b = twoProd(e, r);
-    const bl = pl + e * rl;
+    const bl = LOW[0]! + e * LOW[2]!;
     const s = twoSum(a, -M);
-    const s1 = sl;
+    const s1 = LOW[1]!;
     const t = twoSum(s, b);
-    f = t + (s1 + sl + al + bl);
+    f = t + (s1 + LOW[1]! + al + bl);
   } else {
     const b = twoProd(e, Math.sinh(H));
-    const bl = pl;
+    const bl = LOW[0]!;
     const t = twoSum(b, -H);
-    const t1 = sl;
+    const t1 = LOW[1]!;
     const u = twoSum(t, -M);
-    f = u + (t1 + sl + bl);
+    f = u + (t1 + LOW[1]! + bl);
   }
   const h = Math.sinh(H / 2);
   const fp = (e - 1) + 2 * e * h * h; // e cosh H - 1
@@ -371,16 +372,16 @@ export function hyperbolicErrorUlps(e: number, M: number, H: number): number {
 export function parabolicErrorUlps(M: number, D: number): number {
   if (D === 0 && M === 0) return 0;
   const a = twoProd(D, D);
-  const al = pl;
+  const al = LOW[0]!;
   const c = twoProd(D, a);
-  const cl = pl + D * al;
+  const cl = LOW[0]! + D * al;
   const c3 = c / 3;
   const p = twoProd(c3, 3);
-  const rem = ((c - p) - pl + cl) / 3; // D^3/3 = c3 + rem
+  const rem = ((c - p) - LOW[0]! + cl) / 3; // D^3/3 = c3 + rem
   const s = twoSum(D, -M);
-  const s1 = sl;
+  const s1 = LOW[1]!;
   const t = twoSum(s, c3);
-  const f = t + (s1 + sl + rem);
+  const f = t + (s1 + LOW[1]! + rem);
   return Math.abs(f) / (1 + D * D) / ulpAt(D);
 }
 
@@ -434,6 +435,40 @@ function addExact(p: number[], x: number): void {
   }
   p.length = i;
   p.push(x);
+}
+
+/**
+ * addExact on a fixed buffer, for the per-case loop of sweepRange: an array whose length goes down and up on
+ * every case reallocates its store (that and boxed doubles made a 9,000,000-case sweep churn through 2 GB).
+ * Non-overlapping doubles span at most 2098 bits, so there are at most 40 partials (53 bits each, at least).
+ */
+class ExactSum {
+  private readonly p = new Float64Array(48);
+  private n = 0;
+
+  add(x: number): void {
+    const p = this.p;
+    let i = 0;
+    for (let j = 0; j < this.n; j++) {
+      let y = p[j]!;
+      if (Math.abs(x) < Math.abs(y)) {
+        const t = x;
+        x = y;
+        y = t;
+      }
+      const hi = x + y;
+      const lo = y - (hi - x);
+      if (lo !== 0) p[i++] = lo;
+      x = hi;
+    }
+    p[i] = x;
+    this.n = i + 1;
+  }
+
+  /** The partials, as addExact leaves them. */
+  partials(): number[] {
+    return Array.from(this.p.subarray(0, this.n));
+  }
 }
 
 /** The exact sum of the partials rounded to nearest (ties to even), as Python's math.fsum rounds it. */
@@ -549,7 +584,7 @@ export function sweepRange(routine: Routine, g: Grid, k: Kernels, first: number,
   const iterSmall = new Float64Array(SMALL_COUNTS);
   const statusCounts = new Map<number, number>();
   const iterCounts = new Map<number, number>();
-  const sum: number[] = [];
+  const sum = new ExactSum();
   let checked = 0;
   let unverifiable = 0;
   let max = 0;
@@ -607,7 +642,7 @@ export function sweepRange(routine: Routine, g: Grid, k: Kernels, first: number,
         err = model.estimate(args, out[0]!);
         if (Number.isFinite(err)) {
           checked++;
-          addExact(sum, err);
+          sum.add(err);
           if (err > max) max = err;
           if (g.worst > 0 && (worst.length < g.worst || err > worst[worst.length - 1]!.error!)) {
             worst.push(record(i, st, err));
@@ -631,7 +666,7 @@ export function sweepRange(routine: Routine, g: Grid, k: Kernels, first: number,
     cases: end - first,
     status: sortStatus(status),
     iterations: sortNumericKeys(iterations),
-    error: model ? { checked, unverifiable, max, sum: canonicalSum(sum), worst } : null,
+    error: model ? { checked, unverifiable, max, sum: canonicalSum(sum.partials()), worst } : null,
     failures,
     samples,
   };

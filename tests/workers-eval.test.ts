@@ -1,7 +1,10 @@
 /**
- * `areal eval` streamed through worker threads: the output of 2 and 3 workers is byte-identical to one worker
- * and to the whole-text path (evaluateCsv), whatever the chunking; a bad cell or a ragged row late in the file
- * gives evaluateCsv's message with the right line number and leaves no output file behind.
+ * `areal eval` streamed through worker threads: the output of 2 and 3 workers is byte-identical to one worker,
+ * to the whole-text path (evaluateCsv) and to a plain evaluation written here from parseCsv (the whole table
+ * in memory, one direct kernel call per row), whatever the chunking; a bad cell or a ragged row late in the
+ * file gives parseCsv's message with the right line number and leaves no output file behind; generated
+ * texts (fast-check) with space around cells, CR, comments, blank lines and text columns give the plain
+ * evaluation's bytes.
  * Needs the compiled harness (dist/, `npm run build`): the worker threads run dist/harness/worker-entry.js.
  */
 import { describe, it, expect, beforeAll } from "vitest";
@@ -13,8 +16,11 @@ import { fileURLToPath } from "node:url";
 import { release } from "./helpers.js";
 import { evaluateCsv, evaluateFile } from "../harness/evaluate.js";
 import { findRoutine } from "../harness/routines.js";
-import { CsvFileStream, chunkTable } from "../harness/stream.js";
-import { parseCsv, CsvError } from "../harness/csv.js";
+import { CsvFileStream } from "../harness/stream.js";
+import { parseCsv, CsvError, cell } from "../harness/csv.js";
+import { parseNumber } from "../harness/float.js";
+import { statusWord, isOk } from "../harness/status.js";
+import fc from "fast-check";
 import { Rng } from "../harness/rng.js";
 
 const BIN = fileURLToPath(new URL("../bin/areal.mjs", import.meta.url));
@@ -37,6 +43,31 @@ function makeInput(rows: number): string {
   return lines.join("\n") + "\n";
 }
 
+/**
+ * The plain evaluation the streamed one must equal: parseCsv's table (trimmed cells, comments and blank lines
+ * dropped), each row's e and M through parseNumber, one kernel call, outputs as shortest decimals (NaN on a
+ * failure status). Throws parseCsv's error, or a message in evaluate's wording for a bad number.
+ */
+function plainEval(text: string, source: string): string {
+  const t = parseCsv(text, source);
+  const k = release();
+  const ie = t.columns.indexOf("e");
+  const iM = t.columns.indexOf("M");
+  const num = (r: number, c: number): number => {
+    const v = parseNumber(t.rows[r]![c]!);
+    if (v === undefined) throw new CsvError(`${source}:${t.lines[r]}: column '${t.columns[c]}' holds '${t.rows[r]![c]}', which is not a number`);
+    return v;
+  };
+  const args = t.rows.map((_, r) => [num(r, ie), num(r, iM)]);
+  let out = [...t.columns, ...elliptic.outputs, "status"].join(",") + "\n";
+  args.forEach((a, r) => {
+    const st = k.call(elliptic.exportName, a);
+    const outs = elliptic.outputs.map((_, i) => (isOk(st) ? cell(k.out[i]!) : "NaN"));
+    out += [...t.rows[r]!, ...outs, statusWord(st)].join(",") + "\n";
+  });
+  return out;
+}
+
 async function run(input: string, out: string, workers: number, chunkBytes: number): Promise<string> {
   await evaluateFile(elliptic, input, "cases.csv", { workers, load: { build: "f64" }, kernels: release(), out, chunkBytes });
   return readFileSync(out, "utf8");
@@ -52,6 +83,7 @@ beforeAll(() => {
 describe("eval with worker threads", () => {
   it("1, 2 and 3 workers and the whole-text path give the same bytes, for several chunk sizes", async () => {
     const whole = evaluateCsv(elliptic, bigText, "cases.csv", release()).csv;
+    expect(whole).toBe(plainEval(bigText, "cases.csv"));
     expect(whole.split("\n")[0]).toBe("id,e,M,E,iterations,status");
     expect(whole).toMatch(/,out-of-domain\n/);
     for (const chunk of [997, 1 << 20]) {
@@ -61,20 +93,16 @@ describe("eval with worker threads", () => {
     }
   });
 
-  it("a bad cell late in the file: evaluateCsv's message and line, no output, no temporary file", async () => {
+  it("a bad cell late in the file: its line and column named, no output, no temporary file", async () => {
     const lines = bigText.split("\n");
     const at = lines.length - 40; // 0-based index: line at + 1
     lines[at] = "2999,0.5,1.0.0";
     const text = lines.join("\n");
     const p = join(dir, "late-bad.csv");
     writeFileSync(p, text);
-    let want = "";
-    try {
-      evaluateCsv(elliptic, text, "cases.csv", release());
-    } catch (err) {
-      want = (err as Error).message;
-    }
-    expect(want).toBe(`cases.csv:${at + 1}: column 'M' holds '1.0.0', which is not a number`);
+    const want = `cases.csv:${at + 1}: column 'M' holds '1.0.0', which is not a number`;
+    expect(() => evaluateCsv(elliptic, text, "cases.csv", release())).toThrow(want);
+    expect(() => plainEval(text, "cases.csv")).toThrow(want);
     const outDir = mkdtempSync(join(dir, "out-"));
     for (const w of [1, 2]) {
       await expect(run(p, join(outDir, "r.csv"), w, 4096)).rejects.toThrow(want);
@@ -119,18 +147,21 @@ describe("the streaming reader", () => {
     const t = parseCsv(text, "small.csv");
     expect(head.columns).toEqual(t.columns);
     expect(head.comments).toEqual(t.comments);
-    const rows: string[][] = [];
-    const lines: number[] = [];
-    let line = head.nextLine;
+    // The chunks are the text after the header line, whole lines each (3-byte chunks: one or two lines).
+    let rest = "";
     for (let c = s.nextChunk(); c !== undefined; c = s.nextChunk()) {
-      const ct = chunkTable(Buffer.from(c).toString("utf8"), line, head.columns, "small.csv");
-      rows.push(...ct.rows.map((r) => [...r]));
-      lines.push(...ct.lines);
-      line += ct.lineCount;
+      const part = Buffer.from(c).toString("utf8");
+      expect(part.endsWith("\n") || rest.length + part.length === text.length - text.indexOf("e,M\r\n") - 5).toBe(true);
+      rest += part;
     }
     s.close();
-    expect(rows).toEqual(t.rows);
-    expect(lines).toEqual(t.lines);
+    expect(head.nextLine).toBe(5);
+    expect(rest).toBe(text.slice(text.indexOf("e,M\r\n") + 5));
+    // Rows, CR and line numbers: the plain evaluation's bytes, and a bad cell on line 8 is named as line 8.
+    expect(evaluateCsv(elliptic, text, "small.csv", release()).csv).toBe(plainEval(text, "small.csv"));
+    expect(t.lines).toEqual([5, 8]);
+    const bad = text.replace("0.2,2\r", "0.2,x\r");
+    expect(() => evaluateCsv(elliptic, bad, "small.csv", release())).toThrow("small.csv:8: column 'M' holds 'x', which is not a number");
   });
 
   it("an empty file and a file of comments only give parseCsv's message", () => {
@@ -142,5 +173,64 @@ describe("the streaming reader", () => {
       expect(() => new CsvFileStream(p, name).head()).toThrow(`${name}: empty file (no header line)`);
       s.close();
     }
+  });
+});
+
+describe("generated CSV texts (fast-check, seeded): the streamed evaluation equals the plain one", () => {
+  // A row: an id (text, some of it beyond ASCII), e and M written in several legal ways, with spaces or tabs
+  // around cells, LF or CRLF; comment and blank lines in between; sometimes no final line end.
+  const num = fc.oneof(
+    fc.double({ min: -4, max: 4, noNaN: true }).map(String),
+    fc.double({ min: 0, max: 1.2, noNaN: true }).map((x) => x.toExponential()),
+    fc.constantFrom("0x3fe0000000000000", "nan", "-inf", "+1.", ".5", "1e-3", "0", "-0"),
+  );
+  const pad = fc.constantFrom("", "", "", " ", "\t", "  ");
+  const cellArb = fc.tuple(pad, num, pad).map(([a, x, b]) => a + x + b);
+  const id = fc.constantFrom("a", "Tern-1", "r\u00e9gion", "\u5c0f", "7", "x y");
+  const row = fc.tuple(id, cellArb, cellArb, fc.constantFrom("\n", "\r\n")).map(([i, e, m, end]) => `${i},${e},${m}${end}`);
+  const filler = fc.constantFrom("\n", "# note\n", "  \n", "\t\r\n", "#,,\n");
+  const body = fc.array(fc.oneof({ weight: 6, arbitrary: row }, { weight: 1, arbitrary: filler }), { maxLength: 40 });
+  const text = fc.tuple(fc.constantFrom("", "# head comment\n\n"), body, fc.boolean()).map(([pre, b, cut]) => {
+    const t = pre + "id,e,M\n" + b.join("");
+    return cut && t.endsWith("\n") ? t.slice(0, -1) : t;
+  });
+
+  it("same bytes as plainEval for the whole text and for 16-byte chunks with 1 and 2 workers", async () => {
+    const k = release();
+    let n = 0;
+    await fc.assert(
+      fc.asyncProperty(text, async (t) => {
+        const want = plainEval(t, "g.csv");
+        expect(evaluateCsv(elliptic, t, "g.csv", k).csv).toBe(want);
+        const p = join(dir, `gen-${n}.csv`);
+        writeFileSync(p, t);
+        const w = 1 + (n++ % 2);
+        expect(await run(p, join(dir, `gen-${n}-out.csv`), w, 16)).toBe(want);
+      }),
+      { numRuns: 60, seed: 20261202 },
+    );
+  });
+
+  it("one bad cell anywhere: the same message as the plain evaluation", () => {
+    const k = release();
+    fc.assert(
+      fc.property(text, fc.nat(), fc.constantFrom("1.0.0", "e5", "0x12", "--1", ""), (t, at, badCell) => {
+        const lines = t.split("\n");
+        const rowsAt = lines.map((l, i) => [l, i] as const).filter(([l], i) => i > lines.findIndex((x) => x.startsWith("id,e,M")) && /^[^#,]*,[^,]*,[^,]*$/.test(l) && l.trim() !== "");
+        if (rowsAt.length === 0) return;
+        const [l, i] = rowsAt[at % rowsAt.length]!;
+        lines[i] = l.replace(/,[^,]*$/, "," + badCell + (l.endsWith("\r") ? "\r" : ""));
+        const bad = lines.join("\n");
+        let want = "";
+        try {
+          plainEval(bad, "g.csv");
+        } catch (err) {
+          want = (err as Error).message;
+        }
+        expect(want).toMatch(new RegExp(`^g\\.csv:${i + 1}: column 'M' holds`));
+        expect(() => evaluateCsv(elliptic, bad, "g.csv", k)).toThrow(want);
+      }),
+      { numRuns: 100, seed: 20261202 },
+    );
   });
 });
