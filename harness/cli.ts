@@ -11,7 +11,7 @@ import { loadBuild, loadFile, type Kernels, ModuleError } from "./load.js";
 import { EvalError } from "./evaluate.js";
 import { CsvError } from "./csv.js";
 import { writeAtomic } from "./atomic.js";
-import { runSuite, type SuiteResult } from "./check.js";
+import { runSuite, runSuitesOn, type SuiteResult } from "./check.js";
 import { SPECS } from "./specs/index.js";
 import { selectSpecs, writeSuite } from "./generate.js";
 import { formatCheckTable, checkJson } from "./report.js";
@@ -25,7 +25,7 @@ import { compareCommand, COMPARE_USAGE } from "./compare.js";
 import { parseScenario, propagate, progressBar } from "./integrate.js";
 import { statusWord } from "./status.js";
 import { evaluateFile } from "./evaluate.js";
-import { WorkerPool, parseWorkers, progressLine, progressWanted, type KernelSource } from "./workers.js";
+import { parseWorkers, progressLine, progressWanted, type KernelSource } from "./workers.js";
 import { parseGrid, parseShard, runSweep, formatSweep, moduleIdentity, sweepRoutine } from "./sweep.js";
 import { mergeSweeps } from "./merge.js";
 import type { VectorSpec } from "./specs/types.js";
@@ -322,26 +322,6 @@ const COMMANDS: Record<string, Command> = {
 function kernelSource(values: Record<string, unknown>): KernelSource {
   const mod = values.module as string | undefined;
   return mod !== undefined ? { module: mod } : { build: (values.build as string | undefined) ?? "f64" };
-}
-
-/**
- * Run suites on `k`, or spread over worker threads (one suite per job, results in suite order, so the table
- * and JSON are the same for any number of workers).
- */
-async function runSuitesOn(specs: readonly VectorSpec[], k: Kernels, load: KernelSource, workers: number): Promise<SuiteResult[]> {
-  const n = Math.min(workers, specs.length);
-  if (n <= 1) return specs.map((s) => runSuite(s, k));
-  const pool = await WorkerPool.start(n, { kind: "check", load });
-  const results: SuiteResult[] = [];
-  try {
-    await pool.runOrdered<string, SuiteResult>(specs.map((s) => s.suite)[Symbol.iterator](), (r, suite) => {
-      if (!r.ok) throw new Error(`suite ${suite}: ${r.message}`);
-      results.push(r.value);
-    });
-  } finally {
-    await pool.close();
-  }
-  return results;
 }
 
 /** Run the selected suites (all when none are named). */

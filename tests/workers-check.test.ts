@@ -1,6 +1,7 @@
 /**
  * `areal check --workers N`: suites spread over worker threads give the same table and the same JSON as one
- * worker (through bin/areal.mjs as a child process).
+ * worker (through bin/areal.mjs as a child process), and the same results in-process with the pool forced on
+ * (the built-in vector files are below the size at which check starts workers at all).
  */
 import { describe, it, expect } from "vitest";
 import { spawnSync } from "node:child_process";
@@ -8,6 +9,11 @@ import { mkdtempSync, readFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
+import { release } from "./helpers.js";
+import { runSuitesOn, CHECK_WORKERS_MIN_BYTES } from "../harness/check.js";
+import { selectSpecs } from "../harness/generate.js";
+import { vectorPath } from "../harness/vectors.js";
+import { statSync } from "node:fs";
 
 const BIN = fileURLToPath(new URL("../bin/areal.mjs", import.meta.url));
 
@@ -26,5 +32,24 @@ describe("areal check with workers", () => {
     expect(a.out).toMatch(/kepler-hyperbolic/);
     expect(b.out).toBe(a.out);
     expect(b.json).toBe(a.json);
+  });
+});
+
+describe("runSuitesOn", () => {
+  const specs = selectSpecs(["kepler-elliptic", "kepler-hyperbolic", "state", "propagate", "lambert"]);
+
+  it("with the pool forced on (no size threshold), 2 and 3 workers give the one-thread results in suite order", async () => {
+    const one = await runSuitesOn(specs, release(), { build: "f64" }, 1, 0);
+    expect(one.map((r) => r.suite)).toEqual(specs.map((s) => s.suite));
+    for (const w of [2, 3]) expect(JSON.stringify(await runSuitesOn(specs, release(), { build: "f64" }, w, 0))).toBe(JSON.stringify(one));
+  });
+
+  it("below the size threshold it stays in this thread (the built-in files are small)", async () => {
+    const bytes = specs.reduce((s, x) => s + statSync(vectorPath(x.suite)).size, 0);
+    expect(bytes).toBeLessThan(CHECK_WORKERS_MIN_BYTES);
+    // A module source no worker could load: used only if a pool starts.
+    const r = await runSuitesOn(specs, release(), { module: "/nonexistent/module.wasm" }, 2);
+    expect(r).toHaveLength(specs.length);
+    await expect(runSuitesOn(specs, release(), { module: "/nonexistent/module.wasm" }, 2, 0)).rejects.toThrow();
   });
 });
