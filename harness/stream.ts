@@ -16,6 +16,8 @@ import { parseCsv } from "./csv.js";
 export const CHUNK_BYTES = 1 << 16;
 /** Bytes per read from the file: several chunks, to keep system calls few. */
 const READ_BYTES = 1 << 20;
+/** Bytes read past a range's end to find the LF that ends its last line. */
+const READ_AHEAD = 4096;
 
 const LF = 0x0a;
 
@@ -109,9 +111,65 @@ export class CsvFileStream {
     }
   }
 
+  /** Byte offset in the file of the first byte not yet returned (after head(): the first line after the header). */
+  get position(): number {
+    return this.bytesRead - this.pending.length;
+  }
+
   close(): void {
     if (this.fd >= 0) closeSync(this.fd);
     this.fd = -1;
+  }
+}
+
+/** The whole lines a byte range of a file owns (readOwnedLines). */
+export interface OwnedLines {
+  /** File offset of the first owned line (== finish when the range owns none). */
+  readonly begin: number;
+  /** File offset just past the last owned line's LF (or the end of the file). */
+  readonly finish: number;
+  /** The bytes [begin, finish). */
+  readonly bytes: Buffer;
+}
+
+/**
+ * The lines of a file that start in [start, end): a line starts at `first` (the first byte after the header)
+ * or right after a LF. Ranges that tile [first, size) give line runs that tile it too, so eval workers can each
+ * read their own ranges of the file and the outputs, joined in range order, are those of one sequential pass.
+ */
+export function readOwnedLines(path: string, first: number, size: number, start: number, end: number): OwnedLines {
+  const fd = openSync(path, "r");
+  try {
+    const lo = Math.max(first, start - 1);
+    let buf = Buffer.allocUnsafe(0);
+    let have = lo; // buf holds the file's bytes [lo, have)
+    // Read until `buf` holds a LF at or after file offset `from`, or the end of the file; the LF's offset or -1.
+    const lfFrom = (from: number): number => {
+      for (;;) {
+        const i = buf.indexOf(LF, Math.max(0, from - lo));
+        if (i >= 0) return lo + i;
+        if (have >= size) return -1;
+        const more = Buffer.allocUnsafe(Math.max(READ_AHEAD, end - have + READ_AHEAD));
+        const n = readSync(fd, more, 0, more.length, have);
+        if (n === 0) return -1;
+        buf = buf.length === 0 ? more.subarray(0, n) : Buffer.concat([buf, more.subarray(0, n)]);
+        have += n;
+      }
+    };
+    let begin: number;
+    if (start <= first) {
+      begin = first;
+    } else {
+      const lf = lfFrom(start - 1);
+      begin = lf < 0 ? size : lf + 1;
+    }
+    if (begin >= end || begin >= size) return { begin, finish: begin, bytes: Buffer.alloc(0) };
+    const lf = end >= size ? -1 : lfFrom(end - 1);
+    const finish = lf < 0 ? size : lf + 1;
+    if (have < finish) lfFrom(finish); // the unterminated last line: read to the end
+    return { begin, finish, bytes: buf.subarray(begin - lo, finish - lo) };
+  } finally {
+    closeSync(fd);
   }
 }
 

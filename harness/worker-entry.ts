@@ -9,7 +9,7 @@ import type { Kernels } from "./load.js";
 import { loadFile } from "./load.js";
 import { loadNamedBuild, isBuildName } from "./builds.js";
 import { findRoutine, type Routine } from "./routines.js";
-import { prepareEval, evalChunk } from "./evaluate.js";
+import { prepareEval, evalRange } from "./evaluate.js";
 import { runSuite } from "./check.js";
 import { findSpec } from "./specs/index.js";
 import { sweepRange, type Grid } from "./sweep.js";
@@ -36,7 +36,8 @@ function setUp(init: WorkerInit): Handler {
       const routine = routineOf(init.routine);
       const plan = prepareEval(routine, init.columns, init.source);
       return (job) => {
-        const r = evalChunk(routine, plan, init.columns, init.source, k, job as Uint8Array);
+        const { start, end } = job as { start: number; end: number };
+        const r = evalRange(routine, plan, init, k, start, end);
         return { value: r, transfer: [r.bytes.buffer as ArrayBuffer] };
       };
     }

@@ -19,7 +19,7 @@ export interface KernelSource {
 
 /** What a worker is set up to do; it then takes jobs of the matching kind. */
 export type WorkerInit =
-  | { readonly kind: "eval"; readonly load: KernelSource; readonly routine: string; readonly columns: readonly string[]; readonly source: string }
+  | { readonly kind: "eval"; readonly load: KernelSource; readonly routine: string; readonly columns: readonly string[]; readonly source: string; readonly path: string; readonly first: number; readonly size: number }
   | { readonly kind: "check"; readonly load: KernelSource }
   | { readonly kind: "sweep"; readonly load: KernelSource; readonly routine: string; readonly grid: unknown };
 

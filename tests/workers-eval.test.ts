@@ -16,7 +16,7 @@ import { fileURLToPath } from "node:url";
 import { release } from "./helpers.js";
 import { evaluateCsv, evaluateFile } from "../harness/evaluate.js";
 import { findRoutine } from "../harness/routines.js";
-import { CsvFileStream } from "../harness/stream.js";
+import { CsvFileStream, readOwnedLines } from "../harness/stream.js";
 import { parseCsv, CsvError, cell } from "../harness/csv.js";
 import { parseNumber } from "../harness/float.js";
 import { statusWord, isOk } from "../harness/status.js";
@@ -162,6 +162,31 @@ describe("the streaming reader", () => {
     expect(t.lines).toEqual([5, 8]);
     const bad = text.replace("0.2,2\r", "0.2,x\r");
     expect(() => evaluateCsv(elliptic, bad, "small.csv", release())).toThrow("small.csv:8: column 'M' holds 'x', which is not a number");
+  });
+
+  it("readOwnedLines: consecutive byte ranges of any size own whole lines that tile the file after the header", () => {
+    const lineArb = fc.tuple(fc.string({ maxLength: 40 }).map((x) => x.replace(/\n/g, "")), fc.constantFrom("\n", "\r\n"));
+    fc.assert(
+      fc.property(fc.array(lineArb, { maxLength: 30 }), fc.boolean(), fc.integer({ min: 1, max: 64 }), (ls, cut, step) => {
+        let text = "h,e,M\n" + ls.map(([l, e]) => l + e).join("");
+        if (cut && text.endsWith("\n")) text = text.slice(0, -1);
+        const p = join(dir, "owned.csv");
+        writeFileSync(p, text);
+        const bytes = Buffer.from(text);
+        const first = bytes.indexOf(0x0a) + 1;
+        const pieces: Buffer[] = [];
+        let at = first;
+        for (let start = first; start < bytes.length; start += step) {
+          const own = readOwnedLines(p, first, bytes.length, start, Math.min(bytes.length, start + step));
+          expect(own.begin).toBe(at); // no gap, no overlap
+          if (own.finish > own.begin) expect(own.finish === bytes.length || bytes[own.finish - 1] === 0x0a).toBe(true);
+          pieces.push(own.bytes);
+          at = own.finish;
+        }
+        expect(Buffer.concat(pieces).equals(bytes.subarray(first))).toBe(true);
+      }),
+      { numRuns: 200, seed: 20261202 },
+    );
   });
 
   it("an empty file and a file of comments only give parseCsv's message", () => {
