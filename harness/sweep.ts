@@ -415,13 +415,13 @@ const ERROR_MODELS: Readonly<Record<string, ErrorModel>> = {
 // exact sums
 
 /**
- * Add x to a list of non-overlapping partials (J. R. Shewchuk, "Adaptive precision floating-point arithmetic
- * and fast robust geometric predicates", Discrete Comput. Geom. 18 (1997) 305-363): the partials hold the
- * sum exactly.
+ * Add x to the n non-overlapping partials p[0..n) (J. R. Shewchuk, "Adaptive precision floating-point
+ * arithmetic and fast robust geometric predicates", Discrete Comput. Geom. 18 (1997) 305-363): the partials
+ * hold the sum exactly. Writes p[0..m) and returns m (at most n + 1).
  */
-function addExact(p: number[], x: number): void {
+function addPartial(p: { [i: number]: number }, n: number, x: number): number {
   let i = 0;
-  for (let j = 0; j < p.length; j++) {
+  for (let j = 0; j < n; j++) {
     let y = p[j]!;
     if (Math.abs(x) < Math.abs(y)) {
       const t = x;
@@ -433,8 +433,13 @@ function addExact(p: number[], x: number): void {
     if (lo !== 0) p[i++] = lo;
     x = hi;
   }
-  p.length = i;
-  p.push(x);
+  p[i] = x;
+  return i + 1;
+}
+
+/** addPartial on a list. */
+function addExact(p: number[], x: number): void {
+  p.length = addPartial(p, p.length, x);
 }
 
 /**
@@ -447,22 +452,7 @@ class ExactSum {
   private n = 0;
 
   add(x: number): void {
-    const p = this.p;
-    let i = 0;
-    for (let j = 0; j < this.n; j++) {
-      let y = p[j]!;
-      if (Math.abs(x) < Math.abs(y)) {
-        const t = x;
-        x = y;
-        y = t;
-      }
-      const hi = x + y;
-      const lo = y - (hi - x);
-      if (lo !== 0) p[i++] = lo;
-      x = hi;
-    }
-    p[i] = x;
-    this.n = i + 1;
+    this.n = addPartial(this.p, this.n, x);
   }
 
   /** The partials, as addExact leaves them. */
