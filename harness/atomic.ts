@@ -16,7 +16,12 @@ export function writeAtomic(path: string, data: string | Uint8Array): void {
     } catch {
       // the folder itself is not usable (for example a file stands where the folder should be): nothing to remove
     }
-    const e = err as NodeJS.ErrnoException;
-    throw new Error(`cannot write ${path}: ${e.code ? `${e.code} (${e.message.split(",")[0]})` : e.message}`);
+    throw cannotWrite(path, err);
   }
+}
+
+/** The error for a file that could not be written: its path, the system's code and first words. */
+export function cannotWrite(path: string, err: unknown): Error {
+  const e = err as NodeJS.ErrnoException;
+  return new Error(`cannot write ${path}: ${e.code ? `${e.code} (${e.message.split(",")[0]})` : e.message}`);
 }

@@ -10,6 +10,7 @@ import { tmpdir } from "node:os";
 import { basename, dirname, join } from "node:path";
 import { parseCsv, CsvError, cell } from "./csv.js";
 import { parseNumber } from "./float.js";
+import { cannotWrite as cannotWriteFile } from "./atomic.js";
 import type { Routine, InputSpec } from "./routines.js";
 import type { Kernels } from "./load.js";
 import { statusWord, isOk } from "./status.js";
@@ -143,7 +144,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
   let tmpDir: string | undefined;
   let pool: WorkerPool | undefined;
   const target = opts.out;
-  const cannotWrite = (err: unknown): Error => new Error(`cannot write ${target ?? "stdout"}: ${(err as NodeJS.ErrnoException).code ?? (err as Error).message}`);
+  const cannotWrite = (err: unknown): Error => cannotWriteFile(target ?? "stdout", err);
   try {
     const head = stream.head();
     const plan = prepareEval(routine, head.columns, source, opts.kernels);
