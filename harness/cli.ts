@@ -18,7 +18,6 @@ import { formatCheckTable, checkJson } from "./report.js";
 import { demoLines } from "./demo.js";
 import { runBench, formatBench, benchJson, DEFAULT_SETTINGS, LONG_SETTINGS } from "./bench.js";
 import { ProfileError } from "./opcount.js";
-import { writeReport } from "./report/index.js";
 import { BUILDS, loadNamedBuild, loadModule, type BuildName } from "./builds.js";
 import { planModule, skippedLines } from "./abi.js";
 import { compareCommand, COMPARE_USAGE } from "./compare.js";
@@ -317,6 +316,15 @@ const COMMANDS: Record<string, Command> = {
     },
   },
 };
+
+/**
+ * The HTML report writer (report/index.ts), loaded on first use: vega and vega-lite take about 0.3 s to load,
+ * which every other command would pay at start (an eval of a few rows took 0.47 s in all).
+ */
+async function writeReport(...args: Parameters<typeof import("./report/index.js").writeReport>): ReturnType<typeof import("./report/index.js").writeReport> {
+  const m = await import("./report/index.js");
+  return m.writeReport(...args);
+}
 
 /** Which module workers load: the same as loadKernels. */
 function kernelSource(values: Record<string, unknown>): KernelSource {
