@@ -173,8 +173,8 @@ export function readOwnedLines(path: string, first: number, size: number, start:
   }
 }
 
-/** parseCsv skips comment and blank lines before the header (csv.ts); this mirrors its test. */
-function isSkippedBeforeHeader(line: string): boolean {
+/** parseCsv skips comment and blank lines before the header (csv.ts); this mirrors its test (a line without its LF). */
+export function isSkippedBeforeHeader(line: string): boolean {
   const l = line.endsWith("\r") ? line.slice(0, -1) : line;
   return l.startsWith("#") || l.trim() === "";
 }
