@@ -154,7 +154,8 @@ export class WorkerPool {
       };
       for (const w of this.workers) {
         const onMsg = (m: FromWorker): void => {
-          if (m.type !== "done") return;
+          // A worker that failed was written off with all its jobs (onErr): a late answer of it changes nothing.
+          if (m.type !== "done" || !queued.has(w)) return;
           out--;
           queued.set(w, queued.get(w)! - 1);
           done.set(m.id, m.result as JobResult<R>);
