@@ -312,21 +312,29 @@ function oddRemainder(x: number, hyperbolic: boolean): number {
   return hi;
 }
 
+/**
+ * The Kepler residual (q + ql) x + e rem(x) - M for |x| <= 1, nearly error-free: q + ql is 1 - e (ellipse) or
+ * e - 1 (hyperbola) exactly, rem(x) is x - sin x or sinh x - x (oddRemainder), so no term cancels near x = 0.
+ */
+function smallResidual(q: number, ql: number, e: number, x: number, M: number, hyperbolic: boolean): number {
+  const a = twoProd(q, x);
+  const al = LOW[0]! + ql * x;
+  const r = oddRemainder(x, hyperbolic);
+  const b = twoProd(e, r);
+  const bl = LOW[0]! + e * LOW[2]!;
+  const s = twoSum(a, -M);
+  const s1 = LOW[1]!;
+  const t = twoSum(s, b);
+  return t + (s1 + LOW[1]! + al + bl);
+}
+
 /** |E - E*| / ulp(E) for E - e sin E = M, to first order, from the residual. NaN when it cannot be evaluated. */
 export function ellipticErrorUlps(e: number, M: number, E: number): number {
   if (E === M && (e === 0 || M === 0)) return 0;
   let f: number;
   if (Math.abs(E) <= 1) {
     const q = twoSum(1, -e); // 1 - e = q + LOW[1] exactly (LOW[1] = 0 for e >= 1/2, Sterbenz)
-    const a = twoProd(q, E);
-    const al = LOW[0]! + LOW[1]! * E;
-    const r = oddRemainder(E, false);
-    const b = twoProd(e, r);
-    const bl = LOW[0]! + e * LOW[2]!;
-    const s = twoSum(a, -M);
-    const s1 = LOW[1]!;
-    const t = twoSum(s, b);
-    f = t + (s1 + LOW[1]! + al + bl);
+    f = smallResidual(q, LOW[1]!, e, E, M, false);
   } else {
     const b = twoProd(e, Math.sin(E));
     const bl = LOW[0]!;
@@ -346,15 +354,7 @@ export function hyperbolicErrorUlps(e: number, M: number, H: number): number {
   let f: number;
   if (Math.abs(H) <= 1) {
     const q = twoSum(e, -1); // e - 1 = q + LOW[1] exactly (LOW[1] = 0 for e <= 2, Sterbenz)
-    const a = twoProd(q, H);
-    const al = LOW[0]! + LOW[1]! * H;
-    const r = oddRemainder(H, true);
-    const b = twoProd(e, r);
-    const bl = LOW[0]! + e * LOW[2]!;
-    const s = twoSum(a, -M);
-    const s1 = LOW[1]!;
-    const t = twoSum(s, b);
-    f = t + (s1 + LOW[1]! + al + bl);
+    f = smallResidual(q, LOW[1]!, e, H, M, true);
   } else {
     const b = twoProd(e, Math.sinh(H));
     const bl = LOW[0]!;

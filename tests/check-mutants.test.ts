@@ -3,25 +3,10 @@
  * reject, while the real build passes.
  */
 import { describe, it, expect } from "vitest";
-import { release } from "./helpers.js";
+import { release, mutant } from "./helpers.js";
 import { runSuite } from "../harness/check.js";
 import { findSpec } from "../harness/specs/index.js";
 import { fromBits, toBits } from "../harness/float.js";
-import type { Kernels } from "../harness/load.js";
-
-/** A build that behaves like `k` except that `tamper` may edit the output slots after each call. */
-function mutant(k: Kernels, tamper: (name: string, args: readonly number[], out: Float64Array | Float32Array, status: number) => number): Kernels {
-  return {
-    ...k,
-    label: "mutant",
-    has: (n) => k.has(n),
-    arity: (n) => k.arity(n),
-    call(name, args) {
-      const st = k.call(name, args);
-      return tamper(name, args, k.out, st);
-    },
-  };
-}
 
 const bumpUlps = (x: number, n: number): number => fromBits(toBits(x) + BigInt(n));
 

@@ -3,21 +3,13 @@
  * (bin/areal.mjs, run as a child process), good input and bad.
  */
 import { describe, it, expect, beforeAll } from "vitest";
-import { spawnSync } from "node:child_process";
 import { mkdtempSync, writeFileSync, readFileSync, existsSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { fileURLToPath } from "node:url";
-import { release, run } from "./helpers.js";
+import { release, run, areal } from "./helpers.js";
 import { sameBits } from "../harness/float.js";
 
-const BIN = fileURLToPath(new URL("../bin/areal.mjs", import.meta.url));
 let dir: string;
-
-function areal(...args: string[]): { code: number; out: string; err: string } {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", env: { ...process.env, NO_COLOR: "1" } });
-  return { code: r.status ?? -1, out: r.stdout, err: r.stderr };
-}
 
 function file(name: string, text: string): string {
   const p = join(dir, name);

@@ -7,20 +7,19 @@
  * gave is printed at the end (for the issue's closing note).
  */
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
-import { spawnSync } from "node:child_process";
 import { mkdtempSync, writeFileSync, readFileSync, existsSync, readdirSync, rmSync, copyFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
+import { arealIn } from "./helpers.js";
 
-const BIN = fileURLToPath(new URL("../bin/areal.mjs", import.meta.url));
 const SCENARIO = fileURLToPath(new URL("../examples/scenarios/kestrel-survey.json", import.meta.url));
 let dir: string;
 const table: string[] = [];
 
+/** `areal ARGS` run in the test's folder. */
 function areal(...args: string[]): { code: number; out: string; err: string } {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", cwd: dir, env: { ...process.env, NO_COLOR: "1" } });
-  return { code: r.status ?? -1, out: r.stdout, err: r.stderr };
+  return arealIn(dir, ...args);
 }
 
 function file(name: string, text: string | Uint8Array): string {

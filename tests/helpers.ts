@@ -1,5 +1,35 @@
-/** Shared test helpers: the built modules, loaded once per test file. */
+/** Shared test helpers: the built modules, loaded once per test file; the CLI as a child process; mutants. */
+import { spawnSync } from "node:child_process";
+import { fileURLToPath } from "node:url";
 import { loadBuild, type Kernels } from "../harness/load.js";
+
+/** The `areal` entry point a user runs. */
+export const BIN = fileURLToPath(new URL("../bin/areal.mjs", import.meta.url));
+
+/** Run `areal ARGS` as a child process (in `cwd`, default this process's): exit code, stdout, stderr. */
+export function arealIn(cwd: string | undefined, ...args: string[]): { code: number; out: string; err: string } {
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", cwd, env: { ...process.env, NO_COLOR: "1" } });
+  return { code: r.status ?? -1, out: r.stdout, err: r.stderr };
+}
+
+/** Run `areal ARGS` as a child process: exit code, stdout, stderr. */
+export function areal(...args: string[]): { code: number; out: string; err: string } {
+  return arealIn(undefined, ...args);
+}
+
+/** A build that behaves like `k` except that `tamper` may edit the output slots (and the status) after each call. */
+export function mutant(k: Kernels, tamper: (name: string, args: readonly number[], out: Float64Array | Float32Array, status: number) => number): Kernels {
+  return {
+    ...k,
+    label: "mutant",
+    has: (n) => k.has(n),
+    arity: (n) => k.arity(n),
+    call(name, args) {
+      const st = k.call(name, args);
+      return tamper(name, args, k.out, st);
+    },
+  };
+}
 
 let f64: Kernels | undefined;
 let f32: Kernels | undefined;

@@ -4,22 +4,15 @@
  * section on the OEM, recalled from memory), the exit code and message when a budget is broken, and bad scenarios.
  */
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
-import { spawnSync } from "node:child_process";
 import { mkdtempSync, writeFileSync, readFileSync, existsSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
-import { release } from "./helpers.js";
+import { release, areal } from "./helpers.js";
 import { parseScenario } from "../harness/integrate.js";
 
-const BIN = fileURLToPath(new URL("../bin/areal.mjs", import.meta.url));
 const DEMO = fileURLToPath(new URL("../examples/scenarios/kestrel-survey.json", import.meta.url));
 let dir: string;
-
-function areal(...args: string[]): { code: number; out: string; err: string } {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", env: { ...process.env, NO_COLOR: "1" } });
-  return { code: r.status ?? -1, out: r.stdout, err: r.stderr };
-}
 
 function csvRows(path: string): { cols: string[]; rows: number[][] } {
   const lines = readFileSync(path, "utf8").split("\n").filter((l) => l !== "" && !l.startsWith("#"));

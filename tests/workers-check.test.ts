@@ -4,18 +4,15 @@
  * (the built-in vector files are below the size at which check starts workers at all).
  */
 import { describe, it, expect } from "vitest";
-import { spawnSync } from "node:child_process";
 import { mkdtempSync, readFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { fileURLToPath } from "node:url";
-import { release } from "./helpers.js";
+import { release, areal } from "./helpers.js";
 import { runSuitesOn, CHECK_WORKERS_MIN_BYTES } from "../harness/check.js";
 import { selectSpecs } from "../harness/generate.js";
 import { vectorPath } from "../harness/vectors.js";
 import { statSync } from "node:fs";
 
-const BIN = fileURLToPath(new URL("../bin/areal.mjs", import.meta.url));
 
 describe("areal check with workers", () => {
   it("--workers 1 and --workers 2 print the same table and write the same JSON", () => {
@@ -23,8 +20,8 @@ describe("areal check with workers", () => {
     const run = (w: string): { out: string; json: string; code: number | null } => {
       const json = join(dir, `w${w}.json`);
       const suites = ["kepler-elliptic", "kepler-hyperbolic", "kepler-parabolic", "time-of-flight"].flatMap((s) => ["--suite", s]);
-      const r = spawnSync(process.execPath, [BIN, "check", ...suites, "--workers", w, "--json", json, "-v"], { encoding: "utf8" });
-      return { out: r.stdout, json: readFileSync(json, "utf8"), code: r.status };
+      const r = areal("check", ...suites, "--workers", w, "--json", json, "-v");
+      return { out: r.out, json: readFileSync(json, "utf8"), code: r.code };
     };
     const a = run("1");
     const b = run("2");

@@ -11,9 +11,7 @@ import { describe, it, expect, beforeAll } from "vitest";
 import { mkdtempSync, writeFileSync, readFileSync, existsSync, readdirSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { spawnSync } from "node:child_process";
-import { fileURLToPath } from "node:url";
-import { release } from "./helpers.js";
+import { release, areal } from "./helpers.js";
 import { evaluateCsv, evaluateFile } from "../harness/evaluate.js";
 import { findRoutine } from "../harness/routines.js";
 import { CsvFileStream, readOwnedLines } from "../harness/stream.js";
@@ -23,7 +21,6 @@ import { statusWord, isOk } from "../harness/status.js";
 import fc from "fast-check";
 import { Rng } from "../harness/rng.js";
 
-const BIN = fileURLToPath(new URL("../bin/areal.mjs", import.meta.url));
 const elliptic = findRoutine("kepler-elliptic")!;
 let dir: string;
 let bigPath: string;
@@ -126,14 +123,14 @@ describe("eval with worker threads", () => {
   });
 
   it("the CLI: --workers 1 and 2 print the same bytes on stdout; --workers 0 names the flag", () => {
-    const a = spawnSync(process.execPath, [BIN, "eval", "kepler-elliptic", "-i", bigPath, "--workers", "1"], { encoding: "utf8" });
-    const b = spawnSync(process.execPath, [BIN, "eval", "kepler-elliptic", "-i", bigPath, "--workers", "2"], { encoding: "utf8" });
-    expect(a.status).toBe(0);
-    expect(b.stdout).toBe(a.stdout);
-    expect(a.stderr).toBe(""); // not a terminal: no progress line
-    const bad = spawnSync(process.execPath, [BIN, "eval", "kepler-elliptic", "-i", bigPath, "--workers", "0"], { encoding: "utf8" });
-    expect(bad.status).toBe(2);
-    expect(bad.stderr).toMatch(/--workers: '0'/);
+    const a = areal("eval", "kepler-elliptic", "-i", bigPath, "--workers", "1");
+    const b = areal("eval", "kepler-elliptic", "-i", bigPath, "--workers", "2");
+    expect(a.code).toBe(0);
+    expect(b.out).toBe(a.out);
+    expect(a.err).toBe(""); // not a terminal: no progress line
+    const bad = areal("eval", "kepler-elliptic", "-i", bigPath, "--workers", "0");
+    expect(bad.code).toBe(2);
+    expect(bad.err).toMatch(/--workers: '0'/);
   });
 });
 
