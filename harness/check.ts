@@ -9,7 +9,7 @@ import { limitsFor, type Limits } from "./limits.js";
 import { ulpDistance, ulpDistance32 } from "./float.js";
 import { isOk, statusWord } from "./status.js";
 import type { VectorSpec, Comparison } from "./specs/types.js";
-import { existsSync, statSync } from "node:fs";
+import { statSync } from "node:fs";
 import { WorkerPool, type KernelSource } from "./workers.js";
 
 export interface Worst {
@@ -207,7 +207,7 @@ export const CHECK_WORKERS_MIN_BYTES = 32 << 20;
  * number of workers.
  */
 export async function runSuitesOn(specs: readonly VectorSpec[], k: Kernels, load: KernelSource, workers: number, minBytes = CHECK_WORKERS_MIN_BYTES): Promise<SuiteResult[]> {
-  const bytes = specs.reduce((sum, s) => sum + (existsSync(vectorPath(s.suite)) ? statSync(vectorPath(s.suite)).size : 0), 0);
+  const bytes = specs.reduce((sum, s) => sum + (statSync(vectorPath(s.suite), { throwIfNoEntry: false })?.size ?? 0), 0);
   const n = bytes < minBytes ? 1 : Math.min(workers, specs.length);
   if (n <= 1) return specs.map((s) => runSuite(s, k));
   const pool = await WorkerPool.start(n, { kind: "check", load });

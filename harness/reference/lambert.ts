@@ -19,12 +19,12 @@
  * Along the family, p grows with Izzo's x on the short way and shrinks on the long way, and the short-period
  * solution lies where tof decreases with x; so here: short-period iff sign(pi - theta) * dT/dp < 0.
  */
-import { decimalAt, exact, toDouble, piOf, type Dec } from "./decimal.js";
+import { decimalAt, exact, toDouble, piOf, oddRemainder as seriesRemainder, type Dec } from "./decimal.js";
+import { add, sub, scale, dot, cross, norm, type V3 } from "./vec3.js";
 
 /** Working precision of this reference (significant digits). */
 export const LAMBERT_DIGITS = 50;
 const D = decimalAt(LAMBERT_DIGITS);
-type V3 = [Dec, Dec, Dec];
 
 const ZERO = new D(0);
 const ONE = new D(1);
@@ -103,16 +103,6 @@ function atan2(y: Dec, x: Dec): Dec {
   return t;
 }
 
-const add = (a: V3, b: V3): V3 => [a[0].plus(b[0]), a[1].plus(b[1]), a[2].plus(b[2])];
-const sub = (a: V3, b: V3): V3 => [a[0].minus(b[0]), a[1].minus(b[1]), a[2].minus(b[2])];
-const scale = (a: V3, k: Dec): V3 => [a[0].times(k), a[1].times(k), a[2].times(k)];
-const dot = (a: V3, b: V3): Dec => a[0].times(b[0]).plus(a[1].times(b[1])).plus(a[2].times(b[2]));
-const cross = (a: V3, b: V3): V3 => [
-  a[1].times(b[2]).minus(a[2].times(b[1])),
-  a[2].times(b[0]).minus(a[0].times(b[2])),
-  a[0].times(b[1]).minus(a[1].times(b[0])),
-];
-const norm = (a: V3): Dec => dot(a, a).sqrt();
 
 /** A vector of doubles taken exactly. */
 export function vecExact(x: readonly number[]): V3 {
@@ -125,20 +115,10 @@ export function vecDouble(x: V3): [number, number, number] {
 export { D as LambertDecimal };
 export type { V3 };
 
-/** x - sin x (hyperbolic: sinh x - x) with no cancellation: the series for |x| <= 1. */
+/** x - sin x (hyperbolic: sinh x - x) with no cancellation: the shared series (decimal.ts) for |x| <= 1. */
 function oddRemainder(x: Dec, hyperbolic: boolean): Dec {
   if (x.abs().gt(1)) return hyperbolic ? D.sinh(x).minus(x) : x.minus(sin(x));
-  const x2 = x.times(x);
-  let term = x.times(x2).div(6);
-  let sum = term;
-  const small = tiny();
-  for (let n = 5; n < 400; n += 2) {
-    term = term.times(x2).div((n - 1) * n);
-    if (!hyperbolic) term = term.neg();
-    sum = sum.plus(term);
-    if (term.abs().lte(sum.abs().times(small))) break;
-  }
-  return sum;
+  return seriesRemainder(D, x, hyperbolic);
 }
 
 /** Bracketed Newton for an increasing f on [lo, hi] with f(lo) <= 0 <= f(hi). */

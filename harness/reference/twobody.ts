@@ -15,9 +15,9 @@
  */
 import { Dec, decimalAt, exact, toDouble, oddRemainder, bracketedNewton } from "./decimal.js";
 import { fromBits, toBits } from "../float.js";
+import { sub, scale, dot, cross, norm, add, type V3 } from "./vec3.js";
 
 type D = typeof Dec;
-type V3 = [Dec, Dec, Dec];
 
 /** Conventions shared with the kernels' documented thresholds (a convention, not the method): 2^-36. */
 export const CIRCULAR_E = 2 ** -36;
@@ -43,16 +43,6 @@ export function ulpUp(x: number): number {
   return fromBits(toBits(x) + (x > 0 ? 1n : -1n));
 }
 
-const dot = (a: V3, b: V3): Dec => a[0].times(b[0]).plus(a[1].times(b[1])).plus(a[2].times(b[2]));
-const cross = (a: V3, b: V3): V3 => [
-  a[1].times(b[2]).minus(a[2].times(b[1])),
-  a[2].times(b[0]).minus(a[0].times(b[2])),
-  a[0].times(b[1]).minus(a[1].times(b[0])),
-];
-const norm = (a: V3): Dec => dot(a, a).sqrt();
-const scale = (a: V3, s: Dec): V3 => [a[0].times(s), a[1].times(s), a[2].times(s)];
-const add = (a: V3, b: V3): V3 => [a[0].plus(b[0]), a[1].plus(b[1]), a[2].plus(b[2])];
-const sub = (a: V3, b: V3): V3 => [a[0].minus(b[0]), a[1].minus(b[1]), a[2].minus(b[2])];
 
 
 /** The shared bracketed Newton (decimal.ts) with this generator's guard digits and step cap. */
@@ -197,6 +187,25 @@ function propagateDec(P: D, inputs: readonly Dec[], guess?: Dec): PropagationRes
 const relChange = (a: V3, b: V3): Dec => norm(sub(a, b)).div(norm(b));
 
 /**
+ * The conditioning figures of a reference: evaluated at precision C from the exact inputs and again with each
+ * input moved one ulp up in turn, the largest change of each output (`changes` of a perturbed result against
+ * the unperturbed one). `evaluate` gets the unperturbed result (`low`) when it evaluates a perturbed case.
+ */
+function conditioning<T>(C: D, x: readonly number[], evaluate: (ins: Dec[], low?: T) => T, changes: (q: T, low: T) => Dec[]): Dec[] {
+  const ins = x.map((v) => exact(C, v));
+  const low = evaluate(ins);
+  let cond: Dec[] = [];
+  for (let j = 0; j < x.length; j++) {
+    const pert = ins.slice();
+    pert[j] = exact(C, ulpUp(x[j]!));
+    const d = changes(evaluate(pert, low), low);
+    cond = j === 0 ? d : cond.map((c, m) => Dec.max(c, d[m]!));
+  }
+  return cond;
+}
+
+
+/**
  * Reference for one propagation case (mu, r0x, r0y, r0z, v0x, v0y, v0z, dt):
  * [rx, ry, rz, vx, vy, vz, cond_r, cond_v, revs].
  */
@@ -204,18 +213,8 @@ export function referencePropagate(x: readonly number[]): number[] {
   const P = decimalAt(digitsFor(x[0]!, x.slice(1, 4), x.slice(4, 7)));
   const base = propagateDec(P, x.map((v) => exact(P, v)));
   const C = decimalAt(digitsFor(x[0]!, x.slice(1, 4), x.slice(4, 7), COND_DIGITS));
-  const ins = x.map((v) => exact(C, v));
-  const low = propagateDec(C, ins, new C(base.anomaly));
-  let condR = new C(0);
-  let condV = new C(0);
-  for (let j = 0; j < 8; j++) {
-    const pert = ins.slice();
-    pert[j] = exact(C, ulpUp(x[j]!));
-    const q = propagateDec(C, pert, low.anomaly);
-    condR = Dec.max(condR, relChange(q.r, low.r));
-    condV = Dec.max(condV, relChange(q.v, low.v));
-  }
-  return [...base.r.map(toDouble), ...base.v.map(toDouble), toDouble(condR), toDouble(condV), base.revs];
+  const cond = conditioning(C, x, (ins, low?: ReturnType<typeof propagateDec>) => propagateDec(C, ins, low ? low.anomaly : new C(base.anomaly)), (q, low) => [relChange(q.r, low.r), relChange(q.v, low.v)]);
+  return [...base.r.map(toDouble), ...base.v.map(toDouble), ...cond.map(toDouble), base.revs];
 }
 
 // ---- elements ----------------------------------------------------------------------------------------
@@ -280,18 +279,9 @@ export function referenceElements(x: readonly number[]): number[] {
   const P = decimalAt(digitsFor(x[0]!, x.slice(1, 4), x.slice(4, 7)));
   const base = elementsDec(P, x.map((v) => exact(P, v)));
   const C = decimalAt(digitsFor(x[0]!, x.slice(1, 4), x.slice(4, 7), COND_DIGITS));
-  const ins = x.map((v) => exact(C, v));
-  const low = elementsDec(C, ins);
-  const cond = ELEMENT_KEYS.map(() => new C(0));
-  for (let j = 0; j < 7; j++) {
-    const pert = ins.slice();
-    pert[j] = exact(C, ulpUp(x[j]!));
-    const q = elementsDec(C, pert);
-    ELEMENT_KEYS.forEach((k, m) => {
-      const d = ANGLE_KEYS.has(k) ? angleDiff(C, q[k], low[k]) : low[k].isZero() ? q[k].abs() : q[k].minus(low[k]).abs().div(low[k].abs());
-      cond[m] = Dec.max(cond[m]!, d);
-    });
-  }
+  const cond = conditioning(C, x, (ins) => elementsDec(C, ins), (q, low) =>
+    ELEMENT_KEYS.map((k) => (ANGLE_KEYS.has(k) ? angleDiff(C, q[k], low[k]) : low[k].isZero() ? q[k].abs() : q[k].minus(low[k]).abs().div(low[k].abs()))),
+  );
   return [...ELEMENT_KEYS.map((k) => toDouble(base[k])), base.status, ...cond.map(toDouble)];
 }
 
@@ -313,18 +303,8 @@ function stateRefGeneric(x: readonly number[], build: (P: D, ins: Dec[]) => { r:
   const P = decimalAt(BASE_DIGITS);
   const base = build(P, x.map((v) => exact(P, v)));
   const C = decimalAt(COND_DIGITS + 6);
-  const ins = x.map((v) => exact(C, v));
-  const low = build(C, ins);
-  let condR = new C(0);
-  let condV = new C(0);
-  for (let j = 0; j < x.length; j++) {
-    const pert = ins.slice();
-    pert[j] = exact(C, ulpUp(x[j]!));
-    const q = build(C, pert);
-    condR = Dec.max(condR, relChange(q.r, low.r));
-    condV = Dec.max(condV, relChange(q.v, low.v));
-  }
-  return [...base.r.map(toDouble), ...base.v.map(toDouble), toDouble(condR), toDouble(condV)];
+  const cond = conditioning(C, x, (ins) => build(C, ins), (q, low) => [relChange(q.r, low.r), relChange(q.v, low.v)]);
+  return [...base.r.map(toDouble), ...base.v.map(toDouble), ...cond.map(toDouble)];
 }
 
 /** Reference state of (mu, a, e, i, raan, argp, nu): [rx, ry, rz, vx, vy, vz, cond_r, cond_v]. */
@@ -390,18 +370,9 @@ export function referenceEquinoctial(x: readonly number[]): number[] {
   const P = decimalAt(digitsFor(x[0]!, x.slice(1, 4), x.slice(4, 7)));
   const base = equinoctialDec(P, x.map((v) => exact(P, v)));
   const C = decimalAt(digitsFor(x[0]!, x.slice(1, 4), x.slice(4, 7), COND_DIGITS));
-  const ins = x.map((v) => exact(C, v));
-  const low = equinoctialDec(C, ins);
-  const cond = EQ_KEYS.map(() => new C(0));
-  for (let j = 0; j < 7; j++) {
-    const pert = ins.slice();
-    pert[j] = exact(C, ulpUp(x[j]!));
-    const q = equinoctialDec(C, pert);
-    EQ_KEYS.forEach((k, m) => {
-      const d = k === "L" ? angleDiff(C, q.L, low.L) : k === "p" ? q.p.minus(low.p).abs().div(low.p) : q[k].minus(low[k]).abs();
-      cond[m] = Dec.max(cond[m]!, d);
-    });
-  }
+  const cond = conditioning(C, x, (ins) => equinoctialDec(C, ins), (q, low) =>
+    EQ_KEYS.map((k) => (k === "L" ? angleDiff(C, q.L, low.L) : k === "p" ? q.p.minus(low.p).abs().div(low.p) : q[k].minus(low[k]).abs())),
+  );
   return [...EQ_KEYS.map((k) => toDouble(base[k])), ...cond.map(toDouble)];
 }
 

@@ -219,21 +219,17 @@ export const propagateSpec: VectorSpec = {
 };
 
 const ELEMENT_NAMES = ["a", "e", "i", "raan", "argp", "nu", "p"];
+const EQ_NAMES = ["p", "f", "g", "h", "k", "L"];
+
+/** Output `n` against column `n_ref`, within the limits scaled by column `cond_n`. */
+const against = (n: string, metric: "rel" | "abs"): Comparison => ({ output: n, ref: `${n}_ref`, metric, cond: `cond_${n}` });
 
 export const elementsSpec: VectorSpec = {
   suite: "elements",
   routine: "elements",
   inputs: ["mu", "rx", "ry", "rz", "vx", "vy", "vz"],
   refs: [...ELEMENT_NAMES.map((n) => `${n}_ref`), "status_ref", ...ELEMENT_NAMES.map((n) => `cond_${n}`)],
-  compare: [
-    { output: "a", ref: "a_ref", metric: "rel", cond: "cond_a" },
-    { output: "e", ref: "e_ref", metric: "rel", cond: "cond_e" },
-    { output: "p", ref: "p_ref", metric: "rel", cond: "cond_p" },
-    { output: "i", ref: "i_ref", metric: "abs", cond: "cond_i" },
-    { output: "raan", ref: "raan_ref", metric: "abs", cond: "cond_raan" },
-    { output: "argp", ref: "argp_ref", metric: "abs", cond: "cond_argp" },
-    { output: "nu", ref: "nu_ref", metric: "abs", cond: "cond_nu" },
-  ],
+  compare: [...["a", "e", "p"].map((n) => against(n, "rel")), ...["i", "raan", "argp", "nu"].map((n) => against(n, "abs"))],
   generator: CONVERSION_GENERATOR,
   precision: "50 significant digits (more near e = 1), rounded to nearest double",
   notes: [
@@ -264,15 +260,8 @@ export const equinoctialSpec: VectorSpec = {
   suite: "equinoctial",
   routine: "equinoctial",
   inputs: ["mu", "rx", "ry", "rz", "vx", "vy", "vz"],
-  refs: ["p_ref", "f_ref", "g_ref", "h_ref", "k_ref", "L_ref", "cond_p", "cond_f", "cond_g", "cond_h", "cond_k", "cond_L"],
-  compare: [
-    { output: "p", ref: "p_ref", metric: "rel", cond: "cond_p" },
-    { output: "f", ref: "f_ref", metric: "abs", cond: "cond_f" },
-    { output: "g", ref: "g_ref", metric: "abs", cond: "cond_g" },
-    { output: "h", ref: "h_ref", metric: "abs", cond: "cond_h" },
-    { output: "k", ref: "k_ref", metric: "abs", cond: "cond_k" },
-    { output: "L", ref: "L_ref", metric: "abs", cond: "cond_L" },
-  ],
+  refs: [...EQ_NAMES.map((n) => `${n}_ref`), ...EQ_NAMES.map((n) => `cond_${n}`)],
+  compare: [against("p", "rel"), ...EQ_NAMES.slice(1).map((n) => against(n, "abs"))],
   generator: CONVERSION_GENERATOR,
   precision: "50 significant digits, rounded to nearest double",
   notes: [
