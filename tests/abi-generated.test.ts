@@ -56,7 +56,8 @@ describe("the built module against the table", () => {
 
   it("names each slot once and the routines follow the table", () => {
     for (const x of ABI_TABLE.exports) expect(new Set(x.outputs.map((o) => o.name)).size).toBe(x.outputs.length);
-    expect(slotsOf("integrate").t).toBe(15); // the layout documented in docs/abi.md
+    expect(slotsOf("integrate", "t").t).toBe(15);
+    expect(() => slotsOf("integrate", "nope")).toThrow(/no output nope/); // the layout documented in docs/abi.md
     expect(ROUTINES.map((r) => r.exportName)).toEqual(ABI_TABLE.exports.filter((x) => x.routine).map((x) => x.name));
   });
 });

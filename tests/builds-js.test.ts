@@ -10,7 +10,7 @@ import { loadJsBuild, loadJsModule, assemblyModules } from "../harness/module/js
 import { loadBuild } from "../harness/module/load.js";
 import { SPECS } from "../harness/verify/specs/index.js";
 import { vectorPath, readVectors } from "../harness/verify/vectors.js";
-import { traceSuite, compareTraces } from "../harness/verify/compare.js";
+import { traceSuite, compareTraces } from "../harness/verify/compare-builds.js";
 import { makeShim } from "../harness/module/jsshim.js";
 import { encodeModule } from "./builds-helpers.js";
 

@@ -12,7 +12,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { ROOT } from "../harness/core/paths.js";
 import { SPECS } from "../harness/verify/specs/index.js";
-import { compareBuilds, type CompareBuild } from "../harness/verify/compare.js";
+import { compareBuilds, type CompareBuild } from "../harness/verify/compare-builds.js";
 import { nativeUnavailable, closeNative, NATIVE_EXE } from "../harness/module/builds.js";
 import { readVectors, vectorPath } from "../harness/verify/vectors.js";
 import { evaluateCsv } from "../harness/run/evaluate.js";

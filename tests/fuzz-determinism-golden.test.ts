@@ -8,7 +8,7 @@ import { describe, it, expect } from "vitest";
 import { existsSync } from "node:fs";
 import { SPECS } from "../harness/verify/specs/index.js";
 import { readVectors, vectorPath } from "../harness/verify/vectors.js";
-import { traceSuite, tracesInChild, type Trace } from "../harness/verify/compare.js";
+import { traceSuite, tracesInChild, type Trace } from "../harness/verify/compare-builds.js";
 import { goldenDifferences, goldenPath } from "../harness/verify/golden.js";
 import { nativeUnavailable, loadNative, closeNative } from "../harness/module/builds.js";
 import { release } from "./helpers.js";

@@ -9,7 +9,7 @@ import { spawnSync } from "node:child_process";
 import { existsSync, mkdtempSync, readFileSync, writeFileSync, mkdirSync, statSync, copyFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { delimiter, join } from "node:path";
-import { writeReport } from "../harness/report/index.js";
+import { writeReport } from "../harness/report/html.js";
 import { runSuite } from "../harness/verify/check.js";
 import { findSpec } from "../harness/verify/specs/index.js";
 import { ROOT } from "../harness/core/paths.js";
