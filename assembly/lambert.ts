@@ -78,16 +78,20 @@ const LN2: real = <real>0.6931471805599453;
 const TWO_THIRDS: real = <real>0.6666666666666666;
 const FOUR_THIRDS: real = <real>1.3333333333333333;
 
-// The problem being solved, set once per call (module-level scalars: no allocation).
+// File-private scratch (nothing here is exported; a WebAssembly instance runs one call at a time). Scalars only,
+// so that the kernel allocates nothing:
+//  - the problem of the current call, set once by lambert() before any iteration;
+//  - timeAt's outputs besides its return value: T'(x), T''(x), T'''(x) at the x it was last given, read by its
+//    caller right after the call (dT2 = dT3 = 0 means "Newton only": the higher derivatives are not usable there);
+//  - steps: the iteration count reported in slot 6.
 let lam: real = 0; // lambda
 let lam2: real = 0; // lambda^2
 let oml2: real = 0; // 1 - lambda^2 = c / s
 let npi: real = 0; // N pi
 let zeroRev: bool = true;
-// Derivatives of T at the last point given to timeAt.
-let d1: real = 0;
-let d2: real = 0;
-let d3: real = 0;
+let dT1: real = 0;
+let dT2: real = 0;
+let dT3: real = 0;
 let steps: i32 = 0;
 
 /** lambda y - x, with no cancellation when lambda x > 0 (y^2 = 1 - lambda^2 + lambda^2 x^2). */
@@ -103,7 +107,7 @@ function oneMinusLam(): real {
 
 /**
  * T(x) from Battin's series (N = 0, x near 1): eta = y - lambda x, S1 = (1 - lambda - x eta) / 2,
- * Q = 4/3 F(3, 1; 5/2; S1), T = (eta^3 Q + 4 lambda eta) / 2. Sets d1 = T'(x) from the same series.
+ * Q = 4/3 F(3, 1; 5/2; S1), T = (eta^3 Q + 4 lambda eta) / 2. Sets dT1 = T'(x) from the same series.
  */
 function battinTime(x: real, y: real, eta: real): real {
   const S1 = (oneMinusLam() - x * eta) * <real>0.5;
@@ -126,11 +130,11 @@ function battinTime(x: real, y: real, eta: real): real {
   const e2 = eta * eta;
   const deta = (-lam * eta) / y;
   const dS1 = -(eta + x * deta) * <real>0.5;
-  d1 = (<real>3.0 * e2 * deta * Q + e2 * eta * dQ * dS1 + <real>4.0 * lam * deta) * <real>0.5;
+  dT1 = (<real>3.0 * e2 * deta * Q + e2 * eta * dQ * dS1 + <real>4.0 * lam * deta) * <real>0.5;
   return (e2 * eta * Q + <real>4.0 * lam * eta) * <real>0.5;
 }
 
-/** Normalized time of flight T(x) for the current problem; sets d1, d2, d3 (d2 = d3 = 0 means Newton only). */
+/** Normalized time of flight T(x) for the current problem; sets dT1, dT2, dT3 (dT2 = dT3 = 0 means Newton only). */
 function timeAt(x: real): real {
   const omx2 = (<real>1.0 - x) * (<real>1.0 + x);
   const y = RMath.sqrt(oml2 + lam2 * x * x);
@@ -151,16 +155,16 @@ function timeAt(x: real): real {
     T = (-lamYMinusX(x, y) - psi / sq) / rho;
   }
   if (series && abs(omx2) < NEAR_PARABOLA) {
-    d2 = 0;
-    d3 = 0;
+    dT2 = 0;
+    dT3 = 0;
     return T;
   }
   // Izzo (2015), eq. 22.
   const y2 = y * y;
   const l3 = lam2 * lam;
-  if (!series) d1 = (<real>3.0 * T * x - <real>2.0 + (<real>2.0 * l3 * x) / y) / omx2;
-  d2 = (<real>3.0 * T + <real>5.0 * x * d1 + (<real>2.0 * oml2 * l3) / (y2 * y)) / omx2;
-  d3 = (<real>7.0 * x * d2 + <real>8.0 * d1 - (<real>6.0 * oml2 * l3 * lam2 * x) / (y2 * y2 * y)) / omx2;
+  if (!series) dT1 = (<real>3.0 * T * x - <real>2.0 + (<real>2.0 * l3 * x) / y) / omx2;
+  dT2 = (<real>3.0 * T + <real>5.0 * x * dT1 + (<real>2.0 * oml2 * l3) / (y2 * y)) / omx2;
+  dT3 = (<real>7.0 * x * dT2 + <real>8.0 * dT1 - (<real>6.0 * oml2 * l3 * lam2 * x) / (y2 * y2 * y)) / omx2;
   return T;
 }
 
@@ -179,11 +183,11 @@ function solveX(Tt: real, x0: real, lo0: real, hi0: real, increasing: bool): rea
     if (f > 0 != increasing) lo = x;
     else hi = x;
     let dx: real;
-    const newton = d2 == 0 && d3 == 0;
+    const newton = dT2 == 0 && dT3 == 0;
     if (newton) {
-      dx = -f / d1;
+      dx = -f / dT1;
     } else {
-      dx = (-f * (d1 * d1 - <real>0.5 * f * d2)) / (d1 * (d1 * d1 - f * d2) + d3 * f * f * <real>0.16666666666666666);
+      dx = (-f * (dT1 * dT1 - <real>0.5 * f * dT2)) / (dT1 * (dT1 * dT1 - f * dT2) + dT3 * f * f * <real>0.16666666666666666);
     }
     // The step is measured against the distance to the end where T runs off to infinity (x = -1, and x = 1
     // with N >= 1: there T grows like (1 - x^2)^-3/2 and 1 -+ x is what carries the orbit), else against max(1, |x|).
@@ -207,10 +211,10 @@ function findXMin(): real {
   for (let it = 0; it < LAMBERT_MIN_MAX_ITER; it++) {
     timeAt(x);
     steps++;
-    if (d1 == 0) return x;
-    if (d1 < 0) lo = x;
+    if (dT1 == 0) return x;
+    if (dT1 < 0) lo = x;
     else hi = x;
-    const dx = (<real>-2.0 * d1 * d2) / (<real>2.0 * d2 * d2 - d1 * d3);
+    const dx = (<real>-2.0 * dT1 * dT2) / (<real>2.0 * dT2 * dT2 - dT1 * dT3);
     if (abs(dx) <= STOP_MIN) return x + dx;
     const xn = x + dx;
     x = xn > lo && xn < hi ? xn : <real>0.5 * (lo + hi);
@@ -300,7 +304,7 @@ export function lambert(mu: real, r1x: real, r1y: real, r1z: real, r2x: real, r2
       lo = left ? 0 : xm;
       hi = left ? xm : <real>1.0;
       // Near the minimum T is about Tmin + T''(xm) (x - xm)^2 / 2: start from that parabola's root.
-      const dq = d2 > 0 ? RMath.sqrt((<real>2.0 * (T - Tmin)) / d2) : 0;
+      const dq = dT2 > 0 ? RMath.sqrt((<real>2.0 * (T - Tmin)) / dT2) : 0;
       const xq = left ? xm - dq : xm + dq;
       if (!(x0 > lo && x0 < hi) || T - Tmin < <real>0.1 * (T0 - Tmin)) x0 = xq > lo && xq < hi ? xq : <real>0.5 * (lo + hi);
     }
