@@ -67,6 +67,7 @@
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED, ERR_DEGENERATE, ERR_NO_SOLUTION, ERR_OVERFLOW } from "./status";
 import { put } from "./io";
 import { IS_F32, EPS, PI } from "./real";
+import { BRANCH_SHORT_PERIOD, BRANCH_LONG_PERIOD, LAMBERT_V1X, LAMBERT_V1Y, LAMBERT_V1Z, LAMBERT_V2X, LAMBERT_V2Y, LAMBERT_V2Z, LAMBERT_ITERATIONS } from "./abi";
 
 /** Cap on the steps solving T(x) = T. */
 export const LAMBERT_MAX_ITER: i32 = 30;
@@ -74,11 +75,6 @@ export const LAMBERT_MAX_ITER: i32 = 30;
 export const LAMBERT_MIN_MAX_ITER: i32 = 20;
 /** Cap on the terms of the hypergeometric series (|S1| <= 0.25 in its region: 2^-53 after 30 terms). */
 const SERIES_MAX_TERMS: i32 = 60;
-
-/** Branch 0: the multi-revolution solution with the smaller semi-major axis. */
-export const LAMBERT_SHORT_PERIOD: i32 = 0;
-/** Branch 1: the multi-revolution solution with the larger semi-major axis. */
-export const LAMBERT_LONG_PERIOD: i32 = 1;
 
 /** At or below this sin(transfer angle) the plane of r1 and r2 is undefined: 8 unit roundoffs (header, step 1). */
 const PLANE_MIN_SIN: real = IS_F32 ? <real>4.76837158203125e-7 : <real>8.881784197001252e-16; // 2^-21, 2^-50
@@ -260,7 +256,7 @@ function solveForX(T: real, branch: i32): i32 {
     return isNaN(xSol) ? ERR_NOT_CONVERGED : OK;
   }
   const T0 = T00 + npi;
-  const left = branch == LAMBERT_SHORT_PERIOD;
+  const left = branch == BRANCH_SHORT_PERIOD;
   // Izzo's starters for the two branches (2015, eq. 31).
   const tl = RMath.pow((npi + PI) / (<real>8.0 * T), TWO_THIRDS);
   const tr = RMath.pow((<real>8.0 * T) / npi, TWO_THIRDS);
@@ -292,12 +288,12 @@ function solveForX(T: real, branch: i32): i32 {
  * ignored when revs = 0). Writes v1 to slots 0-2, v2 to 3-5, the step count to 6.
  */
 export function lambert(mu: real, r1x: real, r1y: real, r1z: real, r2x: real, r2y: real, r2z: real, tof: real, revs: i32, retrograde: i32, branch: i32): i32 {
-  put(6, 0);
+  put(LAMBERT_ITERATIONS, 0);
   steps = 0;
   if (!isFinite(mu) || !isFinite(r1x) || !isFinite(r1y) || !isFinite(r1z) || !isFinite(r2x) || !isFinite(r2y) || !isFinite(r2z) || !isFinite(tof)) {
     return ERR_NONFINITE;
   }
-  if (!(mu > 0) || !(tof > 0) || revs < 0 || (retrograde != 0 && retrograde != 1) || (branch != 0 && branch != 1)) return ERR_DOMAIN;
+  if (!(mu > 0) || !(tof > 0) || revs < 0 || (retrograde != 0 && retrograde != 1) || (branch != BRANCH_SHORT_PERIOD && branch != BRANCH_LONG_PERIOD)) return ERR_DOMAIN;
   const r1n = RMath.sqrt(r1x * r1x + r1y * r1y + r1z * r1z);
   const r2n = RMath.sqrt(r2x * r2x + r2y * r2y + r2z * r2z);
   if (!(r1n > 0) || !(r2n > 0)) return ERR_DOMAIN;
@@ -347,7 +343,7 @@ export function lambert(mu: real, r1x: real, r1y: real, r1z: real, r2x: real, r2
   if (!isFinite(T)) return ERR_OVERFLOW;
 
   const st = solveForX(T, branch);
-  put(6, <real>steps);
+  put(LAMBERT_ITERATIONS, <real>steps);
   if (st != OK) return st;
   const x = xSol;
 
@@ -377,11 +373,11 @@ export function lambert(mu: real, r1x: real, r1y: real, r1z: real, r2x: real, r2
   const v2y = vr2 * i2y + vt2 * (nz * i2x - nx * i2z);
   const v2z = vr2 * i2z + vt2 * (nx * i2y - ny * i2x);
   if (!isFinite(v1x + v1y + v1z + v2x + v2y + v2z)) return ERR_OVERFLOW;
-  put(0, v1x);
-  put(1, v1y);
-  put(2, v1z);
-  put(3, v2x);
-  put(4, v2y);
-  put(5, v2z);
+  put(LAMBERT_V1X, v1x);
+  put(LAMBERT_V1Y, v1y);
+  put(LAMBERT_V1Z, v1z);
+  put(LAMBERT_V2X, v2x);
+  put(LAMBERT_V2Y, v2y);
+  put(LAMBERT_V2Z, v2z);
   return OK;
 }

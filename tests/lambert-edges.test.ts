@@ -11,8 +11,8 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single, run } from "./helpers.js";
-import { referenceLambert } from "../harness/reference/lambert.js";
-import { limitsFor, type Limits } from "../harness/limits.js";
+import { referenceLambert } from "../harness/verify/reference/lambert.js";
+import { limitsFor, type Limits } from "../harness/verify/limits.js";
 
 const OK = 0;
 const DEGENERATE = 19;
