@@ -61,7 +61,7 @@
 // 1e-7 degree off). Worst seen against the conditioning: v1 of a hyperbola, mu = 398600.4418, r1 =
 // (-6552.095814906167, -19896.847225730493, 26983.55043029272), r2 = (12159.391809338778, 1020.1495826615759,
 // -575.3802157971982), tof = 5996.052341872337, prograde: 2.2e-15 at a conditioning of 3.9e-16. At most 8
-// iterations (mean 2.8). Before issue 15 sigma came from 1 - rho^2 formed by subtraction, of the order of theta^2
+// iterations (mean 2.8). Before the rewrite for the edges, sigma came from 1 - rho^2 formed by subtraction, of the order of theta^2
 // near 0 and 360 degrees: v lost about 1e-17 / theta relative (6.7e-10 at 1e-6 degree); tests/lambert-edges.test.ts.
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED, ERR_DEGENERATE, ERR_NO_SOLUTION, ERR_OVERFLOW } from "./status";

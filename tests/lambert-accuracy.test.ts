@@ -68,7 +68,7 @@ describe("lambert: accuracy against the references", () => {
     const multi = v.values.filter((row) => row[c("revs")]! >= 1);
     expect(new Set(multi.map((row) => row[c("branch")])).size).toBe(2);
     expect(new Set(v.values.map((row) => row[c("retrograde")])).size).toBe(2);
-    // The edges of the transfer angle (issue 15): next to 0, 180 and 360 degrees.
+    // The edges of the transfer angle: next to 0, 180 and 360 degrees.
     for (const t of ["edge0-short", "edge360-long", "edge180-short", "edge180-long"]) expect(tags.has(t)).toBe(true);
   });
 

@@ -1,5 +1,5 @@
 /**
- * Lambert's problem at the edges of the transfer angle (issue 15): next to 0 and 360 degrees the chord turns
+ * Lambert's problem at the edges of the transfer angle: next to 0 and 360 degrees the chord turns
  * radial and, before the fix, sigma = sqrt(1 - rho^2) cancelled (v lost about 1e-17 / theta relative, 6.7e-10 at
  * 1e-6 degree); below sin theta = 1.2e-10 the kernel gave up (degenerate). The issue's setup: r1 = 7000 km on x,
  * r2 = 9000 km at the transfer angle in the xy plane, mu = 398600.4418 km^3/s^2 (WGS 84, NIMA TR8350.2),
@@ -80,7 +80,7 @@ function checkAngle(k: ReturnType<typeof release>, lim: Limits, r1: number[], r2
   return { solved, worstRatio };
 }
 
-describe("lambert at transfer angles next to 0, 180 and 360 degrees (issue 15), release build", () => {
+describe("lambert at transfer angles next to 0, 180 and 360 degrees, release build", () => {
   const lim = limitsFor("lambert", "f64");
   const ANGLES = [0.1, 1e-4, 1e-6, 1e-9, 359.9, 359.9999, 359.999999, 359.999999999, 179.9, 179.9999999, 180.0000001, 180.1];
   for (const frame of ["xy", "rotated", "rotated, inwards"] as const) {

@@ -6,7 +6,7 @@
  * follow from the starting orbit. The reference is then computed from the rounded inputs alone, by the p-iteration
  * polished by shooting, so the starting velocity is an independent check of it (tests/lambert-reference.test.ts).
  * The edge cases (transfer angles within 1e-9 to 0.1 degree of 0 and 360 degrees, within 1e-7 to 0.1 degree of 180,
- * issue 15) are built the other way round: r1 and r2 first, at the chosen angle in a random frame, then a member of
+ * all of them) are built the other way round: r1 and r2 first, at the chosen angle in a random frame, then a member of
  * the family of conics through them (by its semi-latus rectum) and that member's time of flight.
  */
 import { Rng } from "../../core/rng.js";
@@ -247,7 +247,7 @@ function drawCases(): AnyDraw[] {
   return [...out, ...edgeDraws()];
 }
 
-/** Transfer angles at the edges of the domain (issue 15), degrees as exact decimal strings. */
+/** Transfer angles at the edges of the domain, degrees as exact decimal strings. */
 const EDGE_ANGLES: readonly string[] = [
   "1e-9", "1e-6", "1e-4", "0.1",
   "359.9", "359.9999", "359.999999", "359.999999999",
