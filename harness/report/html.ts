@@ -136,7 +136,7 @@ export async function writeReport(dir: string, results: readonly SuiteResult[], 
     data.iteration_map = { x: "log10 M", y: "-log10(1 - e)", value: "largest iteration count in the cell", mean: im.mean, worst: im.worst, cells: im.cells };
     sections.push({ id: "iteration-map", title: "Iteration counts of the elliptic solver",
       intro: `Correction steps after the starter, on a 64 x 64 grid (e up to 1 - 1e-15, M from 1e-12 to pi); mean ${im.mean.toFixed(2)}, worst ${im.worst}${im.failures ? `, ${im.failures} not converged (shown as -1)` : ""}. 'areal bench' gives the histogram on a finer grid and the Newton baseline's counts.`,
-      svg: await renderSvg(heatmapSpec("iterations per grid point", im.cells, "log10 M", "-log10(1 - e)", "iterations", "oranges", false)) });
+      svg: await renderSvg(heatmapSpec("iterations per grid point", im.cells, "log10 M", "-log10(1 - e)", "iterations", "oranges", false, true)) });
   }
   const orbits = opts.orbits ?? 100;
   const dr = drift(k, orbits);
