@@ -169,6 +169,27 @@ export const ROUTINES: readonly Routine[] = [
     outputs: ["rx", "ry", "rz", "vx", "vy", "vz", "energy_dev", "h_dev", "ecc_dev", "areal_dev",
       "energy_step", "h_step", "ecc_step", "areal_step"],
   },
+  {
+    name: "to-relative",
+    exportName: "to_relative",
+    summary: "deputy inertial state -> relative state in the chief's rotating frame (x radial, z along h, y = z x x)",
+    inputs: [r("rcx"), r("rcy"), r("rcz"), r("vcx"), r("vcy"), r("vcz"), r("rdx"), r("rdy"), r("rdz"), r("vdx"), r("vdy"), r("vdz")],
+    outputs: ["x", "y", "z", "vx", "vy", "vz"],
+  },
+  {
+    name: "from-relative",
+    exportName: "from_relative",
+    summary: "relative state in the chief's rotating frame -> deputy inertial state",
+    inputs: [r("rcx"), r("rcy"), r("rcz"), r("vcx"), r("vcy"), r("vcz"), r("x"), r("y"), r("z"), r("vx"), r("vy"), r("vz")],
+    outputs: ["rdx", "rdy", "rdz", "vdx", "vdy", "vdz"],
+  },
+  {
+    name: "relative-motion",
+    exportName: "relative_motion",
+    summary: "first-order relative state after dt about an elliptic chief (Yamanaka & Ankersen 2002), rotating frame",
+    inputs: [r("mu"), r("rcx"), r("rcy"), r("rcz"), r("vcx"), r("vcy"), r("vcz"), r("x0"), r("y0"), r("z0"), r("vx0"), r("vy0"), r("vz0"), r("dt")],
+    outputs: ["x", "y", "z", "vx", "vy", "vz"],
+  },
 ];
 
 /** The routine with the given CLI name, or undefined. */
