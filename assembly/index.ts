@@ -12,3 +12,4 @@ export { invariants } from "./invariants";
 export { gravity_zonal } from "./gravity";
 export { integrate, integrate_begin, integrate_step } from "./integrators";
 export { to_relative, from_relative, relative_motion } from "./relative";
+export { rendezvous_linear } from "./rendezvous";

@@ -190,6 +190,14 @@ export const ROUTINES: readonly Routine[] = [
     inputs: [r("mu"), r("rcx"), r("rcy"), r("rcz"), r("vcx"), r("vcy"), r("vcz"), r("x0"), r("y0"), r("z0"), r("vx0"), r("vy0"), r("vz0"), r("dt")],
     outputs: ["x", "y", "z", "vx", "vy", "vz"],
   },
+  {
+    name: "rendezvous-linear",
+    exportName: "rendezvous_linear",
+    summary: "two-impulse rendezvous in the linear model: dv1 at t0, dv2 at t0 + dt reaching (xf, yf, zf) at rest; cond",
+    inputs: [r("mu"), r("rcx"), r("rcy"), r("rcz"), r("vcx"), r("vcy"), r("vcz"), r("x0"), r("y0"), r("z0"), r("vx0"), r("vy0"), r("vz0"),
+      r("xf"), r("yf"), r("zf"), r("dt")],
+    outputs: ["dv1x", "dv1y", "dv1z", "dv2x", "dv2y", "dv2z", "cond"],
+  },
 ];
 
 /** The routine with the given CLI name, or undefined. */
