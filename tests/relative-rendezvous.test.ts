@@ -110,3 +110,20 @@ describe("singular transfer times", () => {
     expect(release().call("rendezvous_linear", ok.map((q, j) => (j >= 4 && j <= 6 ? q * 1.5 : q)))).toBe(17);
   });
 });
+
+describe("the linearisation error against Lambert (scripts/relative-linearisation.mjs)", () => {
+  it("vanishes in proportion to the separation: 1e-6 of dv at 10 m, ten times more per decade (LEO, 0.25 orbit)", async () => {
+    // @ts-expect-error: a plain .mjs script, no type declarations
+    const { compare } = (await import("../scripts/relative-linearisation.mjs")) as {
+      compare: (mu: number, chief: number[], rel: number[], target: number[], dt: number) => { err1: number; err2: number; missKm: number };
+    };
+    const c = circ(6778);
+    const errs = [0.01, 0.1, 1].map((s) => compare(MU, c.s, [-0.2 * s, -0.97 * s, 0.14 * s, 0, 0, 0], [0, 0, 0], 0.25 * c.T));
+    expect(Math.max(errs[0]!.err1, errs[0]!.err2)).toBeLessThan(3e-6);
+    for (let i = 1; i < errs.length; i++) {
+      expect(errs[i]!.err1 / errs[i - 1]!.err1).toBeGreaterThan(7);
+      expect(errs[i]!.err1 / errs[i - 1]!.err1).toBeLessThan(13);
+      expect(errs[i]!.missKm / errs[i - 1]!.missKm).toBeGreaterThan(70); // the miss is second order
+    }
+  });
+});
