@@ -42,6 +42,12 @@
 //   ERR_DOMAIN; a non-finite intermediate or result -> ERR_OVERFLOW. No iteration here (the Kepler solve is
 //   kepler_elliptic's, capped there).
 //
+// Range: no power-of-two scaling here (unlike invariants.ts). Accuracy is measured for states of ordinary
+// magnitudes (the suite's: km, km/s, the Earth's mu); far from them an intermediate can under- or overflow. One
+// that shows as a zero angular momentum or a non-finite value gives ERR_DEGENERATE or ERR_OVERFLOW; an ok status
+// always comes with finite outputs (fuzzed with huge, tiny and subnormal inputs, scripts/fuzz.mjs), but the
+// accuracy there is not measured and not promised.
+//
 // Output slots: to_relative 0..5 = x, y, z, vx, vy, vz; from_relative 0..2 = rd, 3..5 = vd; relative_motion
 // 0..5 = x, y, z, vx, vy, vz.
 // Accuracy (release f64, vectors/relative-motion.csv: 480 cases, 60-digit references by differences of
