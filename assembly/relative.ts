@@ -51,7 +51,7 @@
 // Output slots: to_relative 0..5 = x, y, z, vx, vy, vz; from_relative 0..2 = rd, 3..5 = vd; relative_motion
 // 0..5 = x, y, z, vx, vy, vz.
 // Accuracy (release f64, vectors/relative-motion.csv: 480 cases, 60-digit references by differences of
-// nonlinear propagations, harness/reference/relative.ts): |r - r_ref| / |r_ref| at most 2.6e-11 and
+// nonlinear propagations, harness/verify/reference/relative.ts): |r - r_ref| / |r_ref| at most 2.6e-11 and
 // |v - v_ref| / |v_ref| at most 9.5e-11 (limit 1e-9); below 1.3e-13 for e <= 0.9. Worst case: e = 0.999,
 // several orbits (chief period conditioned by eps / (1 - e)): x got 0.006345456366297882, want
 // 0.006345456365695659. to_relative / from_relative: within 4 ulp of the largest term of the decimal.js mapping,
@@ -60,6 +60,12 @@
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_OVERFLOW, FIRST_ERROR } from "./status";
 import { put, got } from "./io";
+import {
+  TO_RELATIVE_X, TO_RELATIVE_Y, TO_RELATIVE_Z, TO_RELATIVE_VX, TO_RELATIVE_VY, TO_RELATIVE_VZ,
+  FROM_RELATIVE_RDX, FROM_RELATIVE_RDY, FROM_RELATIVE_RDZ, FROM_RELATIVE_VDX, FROM_RELATIVE_VDY, FROM_RELATIVE_VDZ,
+  RELATIVE_MOTION_X, RELATIVE_MOTION_Y, RELATIVE_MOTION_Z, RELATIVE_MOTION_VX, RELATIVE_MOTION_VY, RELATIVE_MOTION_VZ,
+  TRUE_TO_MEAN_M, MEAN_TO_TRUE_NU,
+} from "./abi";
 import { checkState, sR, sH, sHX, sHY, sHZ, sRV } from "./invariants";
 import { true_to_mean, mean_to_true } from "./anomaly";
 
@@ -101,7 +107,8 @@ export function to_relative(rcx: real, rcy: real, rcz: real, vcx: real, vcy: rea
   const vy = ux * fYx + uy * fYy + uz * fYz - fW * x;
   const vz = ux * fZx + uy * fZy + uz * fZz;
   if (!finite6(x, y, z, vx, vy, vz)) return ERR_OVERFLOW;
-  put(0, x); put(1, y); put(2, z); put(3, vx); put(4, vy); put(5, vz);
+  put(TO_RELATIVE_X, x); put(TO_RELATIVE_Y, y); put(TO_RELATIVE_Z, z);
+  put(TO_RELATIVE_VX, vx); put(TO_RELATIVE_VY, vy); put(TO_RELATIVE_VZ, vz);
   return OK;
 }
 
@@ -120,7 +127,8 @@ export function from_relative(rcx: real, rcy: real, rcz: real, vcx: real, vcy: r
   const vdy = vcy + (ix * fXy + iy * fYy + vz * fZy);
   const vdz = vcz + (ix * fXz + iy * fYz + vz * fZz);
   if (!finite6(rdx, rdy, rdz, vdx, vdy, vdz)) return ERR_OVERFLOW;
-  put(0, rdx); put(1, rdy); put(2, rdz); put(3, vdx); put(4, vdy); put(5, vdz);
+  put(FROM_RELATIVE_RDX, rdx); put(FROM_RELATIVE_RDY, rdy); put(FROM_RELATIVE_RDZ, rdz);
+  put(FROM_RELATIVE_VDX, vdx); put(FROM_RELATIVE_VDY, vdy); put(FROM_RELATIVE_VDZ, vdz);
   return OK;
 }
 
@@ -150,10 +158,10 @@ export function chiefAnomalies(mu: real, rx: real, ry: real, rz: real, vx: real,
   let st = true_to_mean(e, th0);
   if (st >= FIRST_ERROR) return ERR_OVERFLOW;
   const eta = RMath.sqrt((<real>1.0 - e) * (<real>1.0 + e));
-  const M = got(0) + k2 * eta * eta * eta * dt;
+  const M = got(TRUE_TO_MEAN_M) + k2 * eta * eta * eta * dt;
   st = mean_to_true(e, M);
   if (st >= FIRST_ERROR || !isFinite(k2) || !(k2 > 0)) return ERR_OVERFLOW;
-  const th = got(0);
+  const th = got(MEAN_TO_TRUE_NU);
   cE = e; cK2 = k2; cJ = k2 * dt;
   cRho0 = rho0; cSin0 = RMath.sin(th0); cCos0 = RMath.cos(th0); cEs0 = es;
   cSin = RMath.sin(th); cCos = RMath.cos(th);
@@ -170,7 +178,7 @@ export function anomalyGapSin(): real {
 
 /**
  * Steps 3-5 of relative_motion: the relative state (rotating frame, Hill axes) after the chief's last
- * chiefAnomalies call, written to slots 0..5. Returns false when a result is not finite.
+ * chiefAnomalies call, written to relative_motion's slots (RELATIVE_MOTION_X .. VZ). Returns false when a result is not finite.
  */
 export function yaMap(x: real, y: real, z: real, vx: real, vy: real, vz: real): bool {
   const e = cE, k2 = cK2, J = cJ, r0 = cRho0, ir0 = <real>1.0 / cRho0;
@@ -201,7 +209,8 @@ export function yaMap(x: real, y: real, z: real, vx: real, vy: real, vz: real): 
   const VY = k2 * (rho * ap1 + cEs * a1);
   const VZ = k2 * (rho * ztp1 + cEs * zt1);
   if (!finite6(X, Y, Z, VX, VY, VZ)) return false;
-  put(0, X); put(1, Y); put(2, Z); put(3, VX); put(4, VY); put(5, VZ);
+  put(RELATIVE_MOTION_X, X); put(RELATIVE_MOTION_Y, Y); put(RELATIVE_MOTION_Z, Z);
+  put(RELATIVE_MOTION_VX, VX); put(RELATIVE_MOTION_VY, VY); put(RELATIVE_MOTION_VZ, VZ);
   return true;
 }
 

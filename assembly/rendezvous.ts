@@ -31,6 +31,11 @@
 
 import { OK, ERR_NONFINITE, ERR_NO_SOLUTION, ERR_OVERFLOW } from "./status";
 import { put, got } from "./io";
+import {
+  RELATIVE_MOTION_X, RELATIVE_MOTION_Y, RELATIVE_MOTION_Z, RELATIVE_MOTION_VX, RELATIVE_MOTION_VY, RELATIVE_MOTION_VZ,
+  RENDEZVOUS_LINEAR_DV1X, RENDEZVOUS_LINEAR_DV1Y, RENDEZVOUS_LINEAR_DV1Z, RENDEZVOUS_LINEAR_DV2X, RENDEZVOUS_LINEAR_DV2Y,
+  RENDEZVOUS_LINEAR_DV2Z, RENDEZVOUS_LINEAR_COND,
+} from "./abi";
 import { IS_F32 } from "./real";
 import { chiefAnomalies, yaMap, anomalyGapSin } from "./relative";
 
@@ -53,13 +58,13 @@ export function rendezvous_linear(mu: real, rcx: real, rcy: real, rcz: real, vcx
   if (s != OK) return s;
   // Step 2.
   if (!yaMap(x0, y0, z0, <real>0.0, <real>0.0, <real>0.0)) return ERR_OVERFLOW;
-  const px = got(0), py = got(1), pz = got(2);
+  const px = got(RELATIVE_MOTION_X), py = got(RELATIVE_MOTION_Y), pz = got(RELATIVE_MOTION_Z);
   if (!yaMap(<real>0.0, <real>0.0, <real>0.0, <real>1.0, <real>0.0, <real>0.0)) return ERR_OVERFLOW;
-  const b11 = got(0), b21 = got(1);
+  const b11 = got(RELATIVE_MOTION_X), b21 = got(RELATIVE_MOTION_Y);
   if (!yaMap(<real>0.0, <real>0.0, <real>0.0, <real>0.0, <real>1.0, <real>0.0)) return ERR_OVERFLOW;
-  const b12 = got(0), b22 = got(1);
+  const b12 = got(RELATIVE_MOTION_X), b22 = got(RELATIVE_MOTION_Y);
   if (!yaMap(<real>0.0, <real>0.0, <real>0.0, <real>0.0, <real>0.0, <real>1.0)) return ERR_OVERFLOW;
-  const bz = got(2);
+  const bz = got(RELATIVE_MOTION_Z);
   // Step 3.
   const det = b11 * b22 - b12 * b21;
   const ratio = <real>2.0 * abs(det) / (b11 * b11 + b21 * b21 + b12 * b12 + b22 * b22);
@@ -74,8 +79,10 @@ export function rendezvous_linear(mu: real, rcx: real, rcy: real, rcz: real, vcx
   // Step 5.
   if (!yaMap(x0, y0, z0, u, w, vz)) return ERR_OVERFLOW;
   const d1x = u - vx0, d1y = w - vy0, d1z = vz - vz0;
-  const d2x = -got(3), d2y = -got(4), d2z = -got(5);
+  const d2x = -got(RELATIVE_MOTION_VX), d2y = -got(RELATIVE_MOTION_VY), d2z = -got(RELATIVE_MOTION_VZ);
   if (!isFinite(d1x) || !isFinite(d1y) || !isFinite(d1z) || !isFinite(d2x) || !isFinite(d2y) || !isFinite(d2z)) return ERR_OVERFLOW;
-  put(0, d1x); put(1, d1y); put(2, d1z); put(3, d2x); put(4, d2y); put(5, d2z); put(6, c);
+  put(RENDEZVOUS_LINEAR_DV1X, d1x); put(RENDEZVOUS_LINEAR_DV1Y, d1y); put(RENDEZVOUS_LINEAR_DV1Z, d1z);
+  put(RENDEZVOUS_LINEAR_DV2X, d2x); put(RENDEZVOUS_LINEAR_DV2Y, d2y); put(RENDEZVOUS_LINEAR_DV2Z, d2z);
+  put(RENDEZVOUS_LINEAR_COND, c);
   return OK;
 }

@@ -17,8 +17,8 @@ import { dirname, join } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
-const { loadBuild } = await import(pathToFileURL(join(root, "dist", "harness", "load.js")).href);
-const { stateOf } = await import(pathToFileURL(join(root, "dist", "harness", "specs", "twobody.js")).href);
+const { loadBuild } = await import(pathToFileURL(join(root, "dist", "harness", "module", "load.js")).href);
+const { stateOf } = await import(pathToFileURL(join(root, "dist", "harness", "verify", "specs", "twobody.js")).href);
 const k = loadBuild("f64");
 
 function call(name, args, n) {

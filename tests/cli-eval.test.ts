@@ -7,7 +7,7 @@ import { mkdtempSync, writeFileSync, readFileSync, existsSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { release, run, areal } from "./helpers.js";
-import { sameBits } from "../harness/float.js";
+import { sameBits } from "../harness/core/float.js";
 
 let dir: string;
 
@@ -84,6 +84,12 @@ describe("areal eval", () => {
     const r = areal("eval", "kepler-elliptic", "-i", file("header.csv", "e,M\n"));
     expect(r.code).toBe(0);
     expect(r.out).toBe("e,M,E,iterations,status\n");
+  });
+
+  it("a typo in a routine, a command or a value gets a suggestion (did you mean)", () => {
+    expect(areal("eval", "kepler-eliptic", "-i", "x.csv").err).toMatch(/unknown routine 'kepler-eliptic' \(did you mean 'kepler-elliptic'\?\)/);
+    expect(areal("evl").err).toMatch(/unknown command 'evl' \(did you mean 'eval'\?\)/);
+    expect(areal("check", "--build", "f46").err).toMatch(/--build: 'f46' is not one of .*did you mean 'f64'/);
   });
 
   it("bad option values name the flag", () => {

@@ -1,14 +1,14 @@
 /**
  * The rotating-frame kernels (to_relative, from_relative, assembly/relative.ts): against the decimal.js frame
- * mapping (harness/reference/relative.ts), round trips to round-off, an exact fact of the frame (a deputy on the
+ * mapping (harness/verify/reference/relative.ts), round trips to round-off, an exact fact of the frame (a deputy on the
  * chief's own circular orbit is at rest in it), and the special-case statuses.
  */
 import { describe, it, expect } from "vitest";
 import { release, single, run } from "./helpers.js";
-import { Rng } from "../harness/rng.js";
-import { Dec, exact, toDouble } from "../harness/reference/decimal.js";
-import { toRelativeDec, fromRelativeDec } from "../harness/reference/relative.js";
-import type { V3 } from "../harness/reference/vec3.js";
+import { Rng } from "../harness/core/rng.js";
+import { Dec, exact, toDouble } from "../harness/verify/reference/decimal.js";
+import { toRelativeDec, fromRelativeDec } from "../harness/verify/reference/relative.js";
+import type { V3 } from "../harness/verify/reference/vec3.js";
 
 const MU = 398600.4418; // WGS 84 (NIMA TR8350.2)
 const EPS = 2 ** -52;

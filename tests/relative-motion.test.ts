@@ -1,6 +1,6 @@
 /**
  * relative_motion (assembly/relative.ts, Yamanaka & Ankersen 2002) against things outside it: the vector suite
- * (differences of 60-digit nonlinear propagations, harness/reference/relative.ts), the Clohessy-Wiltshire
+ * (differences of 60-digit nonlinear propagations, harness/verify/reference/relative.ts), the Clohessy-Wiltshire
  * (1960) closed form written out here, the reference again next to e = 0 (no cliff), the f32 build against the
  * f64 build, statuses, and the CLI.
  */
@@ -9,11 +9,11 @@ import { writeFileSync, mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { release, single, run, areal } from "./helpers.js";
-import { runSuite } from "../harness/check.js";
-import { readVectors, vectorPath } from "../harness/vectors.js";
-import { relativeMotionSpec } from "../harness/specs/relative.js";
-import { stateOf, GM_WGS84 as MU } from "../harness/specs/twobody.js";
-import { referenceRelativeMotion } from "../harness/reference/relative.js";
+import { runSuite } from "../harness/verify/check.js";
+import { readVectors, vectorPath } from "../harness/verify/vectors.js";
+import { relativeMotionSpec } from "../harness/verify/specs/relative.js";
+import { stateOf, GM_WGS84 as MU } from "../harness/verify/specs/twobody.js";
+import { referenceRelativeMotion } from "../harness/verify/reference/relative.js";
 
 const norm = (x: readonly number[]): number => Math.hypot(...x);
 /** max(|r - r_ref| / |r_ref|, |v - v_ref| / |v_ref|). */

@@ -1,13 +1,13 @@
 /**
  * rendezvous_linear (assembly/rendezvous.ts): against the two-impulse solution written here from the
  * Clohessy & Wiltshire (1960) matrices for a circular chief; on elliptic chiefs, the impulses flown through the
- * decimal.js first-order reference (harness/reference/relative.ts) reach the target at rest; ERR_NO_SOLUTION at
+ * decimal.js first-order reference (harness/verify/reference/relative.ts) reach the target at rest; ERR_NO_SOLUTION at
  * the singular transfer times, and only near them.
  */
 import { describe, it, expect } from "vitest";
 import { release, single, run } from "./helpers.js";
-import { stateOf, GM_WGS84 as MU } from "../harness/specs/twobody.js";
-import { referenceRelativeMotion } from "../harness/reference/relative.js";
+import { stateOf, GM_WGS84 as MU } from "../harness/verify/specs/twobody.js";
+import { referenceRelativeMotion } from "../harness/verify/reference/relative.js";
 
 const norm = (x: readonly number[]): number => Math.hypot(...x);
 const sub = (a: readonly number[], b: readonly number[]): number[] => a.map((q, i) => q - b[i]!);

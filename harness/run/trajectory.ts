@@ -1,0 +1,315 @@
+/**
+ * `areal trajectory --plan FILE`: run a fixed-step integration described by a small JSON trajectory plan, monitor the
+ * invariants on every step (the kernels integrate_begin / integrate_step, assembly/integrators.ts), and write
+ *  - a trajectory CSV with the state and the invariants of every step, and
+ *  - a CCSDS Orbit Ephemeris Message in KVN form (CCSDS 502.0-B, OEM version 2.0) that other tools can read.
+ * A budget broken is reported with the invariant, the first step over it and its time; the caller exits non-zero.
+ *
+ * The plan's fields are documented in docs/trajectory-plan.md.
+ */
+import type { Kernels } from "../module/load.js";
+import { statusWord } from "../module/status.js";
+import { shortest } from "../core/float.js";
+import { ABI_TABLE } from "../module/abi-table.js";
+import { slotsOf } from "../module/routines.js";
+
+export class PlanError extends Error {}
+
+/** The integrators by name (the ABI table's method enumeration). */
+export const METHODS: Readonly<Record<string, number>> = Object.fromEntries(ABI_TABLE.enums.find((e) => e.name === "method")!.values.map((v) => [v.word, v.value]));
+export type MethodName = string;
+/** Output slots of the integration calls (the ABI table's integration layout). */
+const S = slotsOf("integrate_step", "rx", "ry", "rz", "vx", "vy", "vz", "energy_dev", "h_dev", "ecc_dev", "areal_dev",
+  "energy_step", "h_step", "ecc_step", "areal_step", "k", "t", "energy", "hx", "hy", "hz", "ex", "ey", "ez", "areal_velocity",
+  "energy_dev_now", "h_dev_now", "ecc_dev_now", "areal_dev_now");
+const TIME_SYSTEMS = ["UTC", "TAI", "TT", "GPS", "TDB", "TCB"] as const;
+const INVARIANTS = ["energy", "h", "ecc", "areal"] as const;
+export type InvariantName = (typeof INVARIANTS)[number];
+/** Largest step count a plan may ask for (the kernels take up to 1e9 a call; files would be too large). */
+export const MAX_PLAN_STEPS = 5_000_000;
+
+export interface Plan {
+  readonly mission: string;
+  readonly spacecraft: string;
+  readonly objectId: string;
+  readonly epoch: string;
+  readonly timeSystem: string;
+  readonly centerName: string;
+  readonly refFrame: string;
+  readonly mu: number;
+  readonly radius: number;
+  readonly j2: number;
+  readonly j3: number;
+  readonly r: readonly [number, number, number];
+  readonly v: readonly [number, number, number];
+  readonly method: MethodName;
+  readonly step: number;
+  readonly steps: number;
+  readonly budgets: Readonly<Record<InvariantName, number>>;
+  readonly oemEvery: number;
+}
+
+const KNOWN_FIELDS = new Set(["mission", "spacecraft", "object_id", "epoch", "time_system", "center_name", "ref_frame",
+  "mu", "radius", "j2", "j3", "r", "v", "method", "step", "duration", "steps", "budgets", "oem_every", "comment"]);
+
+/** Parse and check a trajectory plan. Errors name the file and the field. */
+export function parsePlan(text: string, source: string): Plan {
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text);
+  } catch (err) {
+    throw new PlanError(`${source}: not valid JSON (${(err as Error).message})`);
+  }
+  if (typeof raw !== "object" || raw === null || Array.isArray(raw)) throw new PlanError(`${source}: expected a JSON object`);
+  const o = raw as Record<string, unknown>;
+  const bad = (field: string, what: string): never => {
+    throw new PlanError(`${source}: field '${field}' ${what}`);
+  };
+  for (const key of Object.keys(o)) if (!KNOWN_FIELDS.has(key)) bad(key, `is not a plan field (known: ${[...KNOWN_FIELDS].join(", ")})`);
+  const text_ = (f: string, def?: string): string => {
+    const v = o[f];
+    if (v === undefined) return def ?? bad(f, "is required");
+    if (typeof v !== "string" || v.trim() === "" || /[\r\n]/.test(v)) return bad(f, "must be a non-empty one-line string");
+    return v.trim();
+  };
+  const num = (f: string, def?: number): number => {
+    const v = o[f];
+    if (v === undefined) return def ?? bad(f, "is required");
+    if (typeof v !== "number" || !Number.isFinite(v)) return bad(f, "must be a finite number");
+    return v;
+  };
+  const vec = (f: string): [number, number, number] => {
+    const v = o[f];
+    if (!Array.isArray(v) || v.length !== 3 || !v.every((x) => typeof x === "number" && Number.isFinite(x))) {
+      return bad(f, "must be an array of three finite numbers");
+    }
+    return [v[0], v[1], v[2]];
+  };
+  const mission = text_("mission");
+  const spacecraft = text_("spacecraft");
+  const objectId = text_("object_id", "UNKNOWN");
+  const epoch = text_("epoch");
+  parseEpoch(epoch, source);
+  const timeSystem = text_("time_system", "UTC");
+  if (!(TIME_SYSTEMS as readonly string[]).includes(timeSystem)) bad("time_system", `is '${timeSystem}'; expected one of ${TIME_SYSTEMS.join(", ")}`);
+  const centerName = text_("center_name", "EARTH");
+  const refFrame = text_("ref_frame", "EME2000");
+  const mu = num("mu");
+  if (!(mu > 0)) bad("mu", "must be positive");
+  const radius = num("radius", 1);
+  if (!(radius > 0)) bad("radius", "must be positive");
+  const j2 = num("j2", 0);
+  const j3 = num("j3", 0);
+  const r = vec("r");
+  const v = vec("v");
+  const m = text_("method");
+  if (!(m in METHODS)) bad("method", `is '${m}'; expected one of ${Object.keys(METHODS).join(", ")}`);
+  const step = num("step");
+  if (step === 0) bad("step", "must not be zero");
+  let steps: number;
+  if (o.steps !== undefined && o.duration !== undefined) bad("steps", "and 'duration' exclude each other");
+  if (o.steps !== undefined) {
+    steps = num("steps");
+    if (!Number.isInteger(steps) || steps < 0) bad("steps", "must be a whole number >= 0");
+  } else {
+    const duration = num("duration");
+    steps = Math.round(duration / step);
+    if (steps < 0 || Math.abs(steps * step - duration) > 1e-9 * Math.max(1, Math.abs(duration))) {
+      bad("duration", `(${duration} s) is not a whole number of steps of ${step} s in the step's direction`);
+    }
+  }
+  if (steps > MAX_PLAN_STEPS) bad(o.steps !== undefined ? "steps" : "duration", `asks for ${steps} steps; at most ${MAX_PLAN_STEPS}`);
+  const budgets = { energy: 0, h: 0, ecc: 0, areal: 0 };
+  if (o.budgets !== undefined) {
+    const b = o.budgets;
+    if (typeof b !== "object" || b === null || Array.isArray(b)) bad("budgets", "must be an object {energy, h, ecc, areal}");
+    for (const [key, val] of Object.entries(b as Record<string, unknown>)) {
+      if (!(INVARIANTS as readonly string[]).includes(key)) bad(`budgets.${key}`, `is not an invariant (known: ${INVARIANTS.join(", ")})`);
+      if (typeof val !== "number" || !Number.isFinite(val) || val < 0) bad(`budgets.${key}`, "must be a finite number >= 0");
+      budgets[key as InvariantName] = val as number;
+    }
+  }
+  const oemEvery = num("oem_every", 1);
+  if (!Number.isInteger(oemEvery) || oemEvery < 1) bad("oem_every", "must be a whole number >= 1");
+  return { mission, spacecraft, objectId, epoch, timeSystem, centerName, refFrame, mu, radius, j2, j3, r, v,
+    method: m as MethodName, step, steps, budgets, oemEvery };
+}
+
+/** An epoch split as whole days since 1970-01-01 and seconds of that day (keeps sub-millisecond steps exact-ish). */
+interface Epoch {
+  readonly day: number;
+  readonly sec: number;
+}
+
+function parseEpoch(s: string, source: string): Epoch {
+  const m = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2}):(\d{2}(?:\.\d+)?)$/.exec(s);
+  if (!m) throw new PlanError(`${source}: field 'epoch' is '${s}'; expected YYYY-MM-DDThh:mm:ss[.fff] (no zone suffix)`);
+  const [y, mo, d, hh, mm] = [m[1], m[2], m[3], m[4], m[5]].map(Number) as [number, number, number, number, number];
+  const ss = Number(m[6]);
+  const ms = Date.UTC(y, mo - 1, d);
+  const back = new Date(ms);
+  if (back.getUTCFullYear() !== y || back.getUTCMonth() !== mo - 1 || back.getUTCDate() !== d || hh > 23 || mm > 59 || ss >= 60) {
+    throw new PlanError(`${source}: field 'epoch' is '${s}', which is not a valid date and time`);
+  }
+  return { day: Math.round(ms / 86400000), sec: hh * 3600 + mm * 60 + ss };
+}
+
+/** The epoch `t` seconds after `e`, formatted YYYY-MM-DDThh:mm:ss.ffffff (uniform time scale). */
+let lastEpoch: [string, Epoch] | undefined;
+export function epochPlus(e: string, t: number): string {
+  if (lastEpoch?.[0] !== e) lastEpoch = [e, parseEpoch(e, "epoch")];
+  const p = lastEpoch[1];
+  let sec = p.sec + t;
+  const dd = Math.floor(sec / 86400);
+  sec -= dd * 86400;
+  let micro = Math.round(sec * 1e6);
+  let day = p.day + dd;
+  if (micro >= 86400e6) {
+    micro -= 86400e6;
+    day += 1;
+  }
+  const date = new Date(day * 86400000).toISOString().slice(0, 10);
+  const s = Math.floor(micro / 1e6);
+  const frac = String(micro - s * 1e6).padStart(6, "0");
+  const hh = String(Math.floor(s / 3600)).padStart(2, "0");
+  const mm = String(Math.floor((s % 3600) / 60)).padStart(2, "0");
+  const ss = String(s % 60).padStart(2, "0");
+  return `${date}T${hh}:${mm}:${ss}.${frac}`;
+}
+
+/** A budget broken: the invariant, its budget, the first step over it and the largest deviation of the run. */
+export interface Breach {
+  readonly invariant: InvariantName;
+  readonly budget: number;
+  readonly step: number;
+  readonly t: number;
+  readonly max: number;
+}
+
+export interface TrajectoryResult {
+  /** Steps done (equal to the plan's unless the kernel failed). */
+  readonly steps: number;
+  /** Kernel status of the run: 0 when every step went through. */
+  readonly status: number;
+  readonly csv: Uint8Array;
+  readonly oem: string;
+  /** Largest deviation of each invariant over the run. */
+  readonly maxDev: Readonly<Record<InvariantName, number>>;
+  readonly breaches: readonly Breach[];
+}
+
+export const CSV_COLUMNS = ["step", "t", "rx", "ry", "rz", "vx", "vy", "vz", "energy", "hx", "hy", "hz", "ex", "ey", "ez",
+  "areal_velocity", "energy_dev", "h_dev", "ecc_dev", "areal_dev"] as const;
+/** The slot behind each CSV column (the deviations are this step's, the *_now slots). */
+const CSV_SLOTS: readonly number[] = [S.k, S.t, S.rx, S.ry, S.rz, S.vx, S.vy, S.vz, S.energy, S.hx, S.hy, S.hz, S.ex, S.ey, S.ez,
+  S.areal_velocity, S.energy_dev_now, S.h_dev_now, S.ecc_dev_now, S.areal_dev_now];
+
+export interface TrajectoryOptions {
+  /** Called now and then with (steps done, total); the CLI draws its progress bar with it. */
+  readonly progress?: (done: number, total: number) => void;
+  /** CREATION_DATE of the OEM (YYYY-MM-DDThh:mm:ss); pass a fixed value for reproducible files. */
+  readonly creationDate: string;
+  /** Name of the build or module, written into the file headers. */
+  readonly source: string;
+}
+
+const ROWS_PER_CHUNK = 20_000;
+
+/** One header line per CSV column: its meaning and unit, from the ABI table's integration layout. */
+function columnNotes(): string[] {
+  const outs = ABI_TABLE.exports.find((x) => x.name === "integrate_step")!.outputs;
+  const unit = (u: string): string => u.replace(/length/g, "km").replace(/time/g, "s");
+  return CSV_COLUMNS.map((c, i) => {
+    const o = outs[CSV_SLOTS[i]!]!;
+    const doc = o.doc ?? (c.length <= 2 ? `component ${c}` : c);
+    return `# column ${c}: ${doc} [${unit(o.unit)}]`;
+  });
+}
+
+/** Run a plan on a loaded module. Pure apart from calling the kernels: files are the caller's job. */
+export function runTrajectory(k: Kernels, sc: Plan, opts: TrajectoryOptions): TrajectoryResult {
+  for (const name of ["integrate_begin", "integrate_step"]) {
+    if (!k.has(name)) throw new PlanError(`${k.label}: the module has no export ${name} (docs/abi.md)`);
+  }
+  const b = sc.budgets;
+  const st0 = k.call("integrate_begin", [sc.mu, ...sc.r, ...sc.v, sc.step, METHODS[sc.method]!, sc.j2, sc.j3, sc.radius, b.energy, b.h, b.ecc, b.areal]);
+  if (st0 !== 0) throw new PlanError(`the initial state is rejected by integrate_begin: ${statusWord(st0)}`);
+  const out = k.out;
+  const chunks: Buffer[] = [];
+  const enc = (s: string): void => void chunks.push(Buffer.from(s, "utf8"));
+  const header = [
+    `# areal trajectory: mission ${sc.mission}, spacecraft ${sc.spacecraft}, module ${opts.source}`,
+    `# method ${sc.method}, step ${shortest(sc.step)} s, ${sc.steps} steps, mu ${shortest(sc.mu)} km^3/s^2, radius ${shortest(sc.radius)} km, j2 ${shortest(sc.j2)}, j3 ${shortest(sc.j3)}`,
+    `# epoch ${sc.epoch} ${sc.timeSystem}, frame ${sc.refFrame}, centre ${sc.centerName}; t in s from the epoch, km, km/s`,
+    ...columnNotes(),
+    `# budgets: ${INVARIANTS.map((n) => `${n} ${b[n] > 0 ? shortest(b[n]) : "none"}`).join(", ")}`,
+    CSV_COLUMNS.join(","),
+  ];
+  enc(header.join("\n") + "\n");
+  const oemLines: string[] = [];
+  const row = (): string => {
+    return CSV_SLOTS.map((i) => shortest(out[i]!)).join(",");
+  };
+  const oemRow = (): string => {
+    const t = out[S.t]!;
+    return `${epochPlus(sc.epoch, t)} ${[S.rx, S.ry, S.rz, S.vx, S.vy, S.vz].map((i) => shortest(out[i]!)).join(" ")}`;
+  };
+  let lines: string[] = [row()];
+  oemLines.push(oemRow());
+  let status = 0;
+  let done = 0;
+  const tick = Math.max(1, Math.floor(sc.steps / 200));
+  for (let i = 1; i <= sc.steps; i++) {
+    status = k.call("integrate_step", [1]);
+    if (status !== 0) break;
+    done = i;
+    lines.push(row());
+    if (i % sc.oemEvery === 0 || i === sc.steps) oemLines.push(oemRow());
+    if (lines.length >= ROWS_PER_CHUNK) {
+      enc(lines.join("\n") + "\n");
+      lines = [];
+    }
+    if (opts.progress && i % tick === 0) opts.progress(i, sc.steps);
+  }
+  if (lines.length > 0) enc(lines.join("\n") + "\n");
+  if (opts.progress) opts.progress(done, sc.steps);
+  // A failing integrate_step writes only slot 14 (the failed step): slots 6..13 still hold the last good step's.
+  const maxDev = { energy: out[S.energy_dev]!, h: out[S.h_dev]!, ecc: out[S.ecc_dev]!, areal: out[S.areal_dev]! };
+  const firsts = { energy: out[S.energy_step]!, h: out[S.h_step]!, ecc: out[S.ecc_step]!, areal: out[S.areal_step]! };
+  const breaches: Breach[] = [];
+  for (const n of INVARIANTS) {
+    const f = firsts[n];
+    if (f >= 0) breaches.push({ invariant: n, budget: b[n], step: f, t: f * sc.step, max: maxDev[n] });
+  }
+  const oem = formatOem(sc, oemLines, opts, done);
+  return { steps: done, status, csv: Buffer.concat(chunks), oem, maxDev, breaches };
+}
+
+/** The OEM text (KVN): header, one metadata block, the ephemeris lines. */
+export function formatOem(sc: Plan, data: readonly string[], opts: TrajectoryOptions, steps: number): string {
+  const start = epochPlus(sc.epoch, 0);
+  const stop = epochPlus(sc.epoch, steps * sc.step);
+  const [first, last] = sc.step > 0 ? [start, stop] : [stop, start];
+  const ordered = sc.step > 0 ? data : [...data].reverse(); // OEM epochs must increase
+  return [
+    "CCSDS_OEM_VERS = 2.0",
+    `CREATION_DATE = ${opts.creationDate}`,
+    "ORIGINATOR = AREAL",
+    "",
+    "META_START",
+    `OBJECT_NAME = ${sc.spacecraft}`,
+    `OBJECT_ID = ${sc.objectId}`,
+    `CENTER_NAME = ${sc.centerName}`,
+    `REF_FRAME = ${sc.refFrame}`,
+    `TIME_SYSTEM = ${sc.timeSystem}`,
+    `START_TIME = ${first}`,
+    `STOP_TIME = ${last}`,
+    "META_STOP",
+    "",
+    `COMMENT mission ${sc.mission}; propagated by areal (${opts.source}), method ${sc.method}, step ${shortest(sc.step)} s`,
+    `COMMENT force model: mu ${shortest(sc.mu)} km**3/s**2, radius ${shortest(sc.radius)} km, J2 ${shortest(sc.j2)}, J3 ${shortest(sc.j3)}`,
+    "COMMENT units: km and km/s; not flight-qualified",
+    ...ordered,
+    "",
+  ].join("\n");
+}
