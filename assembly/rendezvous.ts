@@ -20,6 +20,9 @@
 //     det B = (8 (1 - cos n t) - 3 n t sin n t) / n^2: n t = 2 pi k, where B's first column vanishes, and
 //     n t = 2.81 pi, 4.89 pi, 6.92 pi, ..., 1.41, 2.45, 3.46 orbits; found numerically here).
 //     c < NO_SOLUTION_COND -> ERR_NO_SOLUTION (dt = 0 included).
+//     A transfer in the chief's plane (z0 = 0 and zf = 0) needs no out-of-plane solve: the answer there is
+//     vz0+ = 0 whatever b_z (it keeps z = 0), so only the in-plane figure counts (a half-orbit transfer in the
+//     plane is then no longer refused) and dv1z = -vz0.
 //  4. v0+ = Phi_rv^-1 (rf - Phi_rr x0) (Cramer's rule on B; b_z alone); dv1 = v0+ - v0.
 //  5. The arrival velocity v(t0 + dt) from (x0, v0+) (yaMap); dv2 = -v(t0 + dt).
 // Special cases, in order: a NaN or infinite input -> ERR_NONFINITE; mu <= 0 or rc = 0 -> ERR_DOMAIN;
@@ -68,14 +71,15 @@ export function rendezvous_linear(mu: real, rcx: real, rcy: real, rcz: real, vcx
   // Step 3.
   const det = b11 * b22 - b12 * b21;
   const ratio = <real>2.0 * abs(det) / (b11 * b11 + b21 * b21 + b12 * b12 + b22 * b22);
-  const c = min(ratio, abs(anomalyGapSin()));
+  const planar = z0 == 0 && zf == 0;
+  const c = planar ? ratio : min(ratio, abs(anomalyGapSin()));
   if (!isFinite(det) || !isFinite(ratio)) return ERR_OVERFLOW;
   if (!(c >= NO_SOLUTION_COND)) return ERR_NO_SOLUTION;
   // Step 4.
   const ex = xf - px, ey = yf - py;
   const u = (b22 * ex - b12 * ey) / det;
   const w = (b11 * ey - b21 * ex) / det;
-  const vz = (zf - pz) / bz;
+  const vz = planar ? <real>0.0 : (zf - pz) / bz;
   // Step 5.
   if (!yaMap(x0, y0, z0, u, w, vz)) return ERR_OVERFLOW;
   const d1x = u - vx0, d1y = w - vy0, d1z = vz - vz0;

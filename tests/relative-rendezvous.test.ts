@@ -94,6 +94,24 @@ describe("singular transfer times", () => {
     const times = [0, 0.5 * c.T, c.T, 1.5 * c.T, 2 * c.T, root(8.5, 9.2) / c.n, root(15, 15.6) / c.n];
     for (const k of [release(), single()]) for (const t of times) expect(call(k, t)[0]).toBe(20);
   });
+  it("a transfer in the chief's plane (z0 = zf = 0) is solved at half an orbit, as Clohessy-Wiltshire's in-plane block gives it", () => {
+    const s0 = [0.1, -1.0, 0, 1e-4, -2e-4, 3e-4];
+    const rf = [0, 0.05, 0];
+    const t = 0.5 * c.T;
+    const [st, ...got] = run(release(), "rendezvous_linear", [MU, ...c.s, ...s0, ...rf, t], 7);
+    expect(st).toBe(0);
+    const B = cwBlocks(c.n, t);
+    const free = mv(B.rr, s0.slice(0, 3));
+    const det = B.rv[0]![0]! * B.rv[1]![1]! - B.rv[0]![1]! * B.rv[1]![0]!;
+    const ex = rf[0]! - free[0]!, ey = rf[1]! - free[1]!;
+    const v0p = [(B.rv[1]![1]! * ex - B.rv[0]![1]! * ey) / det, (B.rv[0]![0]! * ey - B.rv[1]![0]! * ex) / det, 0];
+    const dv1 = sub(v0p, s0.slice(3));
+    const dv2 = mv(B.vr, s0.slice(0, 3)).map((q, i) => -(q + mv(B.vv, v0p)[i]!));
+    expect(norm(sub(got.slice(0, 3), dv1)) / norm(dv1)).toBeLessThan(1e-9);
+    expect(norm(sub(got.slice(3, 6), dv2)) / norm(dv2)).toBeLessThan(1e-9);
+    // Out of the plane at the start, the same time has no solution.
+    expect(run(release(), "rendezvous_linear", [MU, ...c.s, 0.1, -1.0, 0.01, 1e-4, -2e-4, 3e-4, ...rf, t], 7)[0]).toBe(20);
+  });
   it("the conditioning output falls linearly into a singular time; ok down to 2^-26, ok far from it", () => {
     for (const d of [1e-3, 1e-5]) {
       const [st, , , , , , , cond] = call(release(), c.T * (1 + d));
