@@ -37,6 +37,7 @@ export const OPTIONS = {
   workers: { type: "string", value: "N", help: "worker threads, each with its own module instance (default: the number of cores)" },
   grid: { type: "string", value: "FILE", help: "sweep: grid description JSON (docs/sweeps.md lists its fields)" },
   shard: { type: "string", value: "k/n", help: "sweep: run only shard k of n (for job arrays); join the parts with areal merge" },
+  resume: { type: "boolean", help: "sweep: when --out already holds this shard of this sweep (same routine, grid, module, shard; whole), keep it and exit 0 (safe resubmission)" },
   report: { type: "string", value: "DIR", help: "also write the HTML report (one self-contained file) and its JSON into this folder" },
   long: { type: "boolean", help: "bench: longer timings and a finer iteration grid (several minutes)" },
   profile: { type: "string", value: "FILE", help: "bench: target profile JSON (cycles per operation; bench/profiles/example-target.json)" },
