@@ -17,8 +17,8 @@ import { MAX_LINE_BYTES } from "../harness/core/stream.js";
 let dir: string;
 
 function areal(...args: string[]): { code: number; out: string; err: string; timedOut: boolean } {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", cwd: dir, timeout: 120_000, env: { ...process.env, NO_COLOR: "1" } });
-  return { code: r.status ?? -1, out: r.stdout, err: r.stderr, timedOut: r.signal === "SIGTERM" };
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", cwd: dir, timeout: 120_000, killSignal: "SIGKILL", env: { ...process.env, NO_COLOR: "1" } });
+  return { code: r.status ?? -1, out: r.stdout, err: r.stderr, timedOut: r.signal === "SIGKILL" };
 }
 
 function file(name: string, text: string | Uint8Array): string {

@@ -20,8 +20,8 @@ const LIMIT = "0.5";
 
 /** `areal ARGS` in the test folder, killed after 60 s so that a hang fails the test instead of stalling it. */
 function areal(...args: string[]): { code: number; out: string; err: string; timedOut: boolean } {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", cwd: dir, timeout: 60_000, env: { ...process.env, NO_COLOR: "1" } });
-  return { code: r.status ?? -1, out: r.stdout, err: r.stderr, timedOut: r.signal === "SIGTERM" };
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", cwd: dir, timeout: 60_000, killSignal: "SIGKILL", env: { ...process.env, NO_COLOR: "1" } });
+  return { code: r.status ?? -1, out: r.stdout, err: r.stderr, timedOut: r.signal === "SIGKILL" };
 }
 
 function mod(name: string): string {
