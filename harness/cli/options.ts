@@ -28,6 +28,7 @@ export const OPTIONS = {
   builds: { type: "string", value: "LIST", help: "comma-separated builds to compare, the first is the baseline (f64,native,js,f32,debug,baseline,optimizing)" },
   tol: { type: "string", value: "X", help: "compare a.csv b.csv: largest allowed absolute difference per cell" },
   module: { type: "string", value: "FILE", help: "an external WebAssembly module following docs/abi.md" },
+  "call-limit": { type: "string", value: "SECONDS", help: "--module: time limit of each call into the module, its start function included (default 10); a call over it stops the run" },
   suite: { type: "string", multiple: true, value: "NAME", help: "limit to this vector suite (repeatable)" },
   json: { type: "string", value: "FILE", help: "also write the results as JSON to this file" },
   verbose: { type: "boolean", short: "v", help: "more detail: iteration histograms, limits and their reasons" },

@@ -13,9 +13,11 @@ import { closeSync, existsSync, mkdtempSync, openSync, readFileSync, readSync, r
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { BUILD_DIR, BUILD_FILES } from "../core/paths.js";
-import { loadBuild, loadFile, ModuleError, type Kernels } from "./load.js";
+import { loadBuild, ModuleError, type Kernels } from "./load.js";
 import { loadJsBuild } from "./jsbuild.js";
-import { readSignatures, ABI_VERSION, OUT_SLOTS, type ExportInfo } from "./signatures.js";
+import { readSignatures, checkKernelSignatures, ABI_VERSION, OUT_SLOTS, type ExportInfo } from "./signatures.js";
+import { loadBounded, DEFAULT_CALL_LIMIT_S } from "./bounded.js";
+import { ROUTINES } from "./routines.js";
 
 /** The built-in builds, in the order help text lists them. */
 export const BUILDS = ["f64", "f32", "js", "native", "debug"] as const;
@@ -45,20 +47,38 @@ export function loadNamedBuild(name: BuildName): Kernels {
   }
 }
 
-/** An external module: its kernels and the exact signature of every export (from the binary). */
-export function loadModule(path: string): { kernels: Kernels; signatures: Map<string, ExportInfo> } {
+/**
+ * An external module (`--module`): its kernels and the exact signature of every export (from the binary). The
+ * core exports and every kernel export the routine table knows are checked before any call (the same message
+ * for every command), and the module runs in a worker thread of its own with every call, its start function
+ * included, limited to `callLimitS` seconds (bounded.ts).
+ */
+export function loadModule(path: string, callLimitS = DEFAULT_CALL_LIMIT_S): { kernels: Kernels; signatures: Map<string, ExportInfo> } {
   if (!existsSync(path)) throw new ModuleError(`--module: no such file: ${path}`);
   const bytes = readFileSync(path);
+  if (!WebAssembly.validate(bytes)) {
+    try {
+      new WebAssembly.Module(bytes);
+    } catch (err) {
+      throw new ModuleError(`${path}: not a WebAssembly module (${(err as Error).message})`);
+    }
+  }
   let signatures: Map<string, ExportInfo>;
   try {
     signatures = readSignatures(bytes, path);
   } catch (err) {
     throw new ModuleError((err as Error).message);
   }
-  const kernels = loadFile(path);
-  if (kernels.has("areal_abi_version")) {
-    const v = kernels.call("areal_abi_version", []);
-    if (v !== ABI_VERSION) throw new ModuleError(`${path}: areal_abi_version() returned ${v}; this harness implements ABI version ${ABI_VERSION} (docs/abi.md)`);
+  const kernels = loadBounded(path, callLimitS);
+  try {
+    checkKernelSignatures(signatures, kernels.realBytes, ROUTINES, path);
+    if (kernels.has("areal_abi_version")) {
+      const v = kernels.call("areal_abi_version", []);
+      if (v !== ABI_VERSION) throw new ModuleError(`${path}: areal_abi_version() returned ${v}; this harness implements ABI version ${ABI_VERSION} (docs/abi.md)`);
+    }
+  } catch (err) {
+    kernels.close?.();
+    throw err instanceof ModuleError ? err : new ModuleError((err as Error).message);
   }
   return { kernels, signatures };
 }

@@ -7,7 +7,7 @@ import { findRoutine, type Routine } from "../module/routines.js";
 import type { Kernels } from "../module/load.js";
 import { limitsFor, type Limits } from "./limits.js";
 import { ulpDistance, ulpDistance32 } from "../core/float.js";
-import { isOk, statusWord } from "../module/status.js";
+import { isOk, statusWord, abiViolation, abiViolationMessage } from "../module/status.js";
 import type { VectorSpec, Comparison } from "./specs/types.js";
 import { statSync } from "node:fs";
 import { WorkerPool, type KernelSource } from "../core/pool.js";
@@ -85,6 +85,8 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
   let iterSum = 0;
   let iterMax = 0;
   let statusFailures = 0;
+  let abiViolations = 0;
+  let firstViolation: string | undefined;
   let skipped = 0;
   let firstFail: SuiteResult["firstStatusFailure"];
   const args: number[] = new Array(argCols.length).fill(0);
@@ -104,6 +106,13 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
       continue;
     }
     const status = k.call(routine.exportName, args);
+    // docs/abi.md's promises (a known status; finite outputs and a whole iteration count with a success).
+    const broken = abiViolation(status, k.out, routine.outputs);
+    if (broken !== undefined) {
+      abiViolations++;
+      firstViolation ??= abiViolationMessage(k.label, routine.exportName, args, broken);
+      continue;
+    }
     if (!isOk(status)) {
       statusFailures++;
       firstFail ??= { row: r, status: statusWord(status), inputs: inputsOf(r) };
@@ -157,8 +166,9 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
       }
     });
   }
-  const counted = rows.length - skipped - statusFailures;
+  const counted = rows.length - skipped - statusFailures - abiViolations;
   const reasons: string[] = [];
+  if (abiViolations > 0) reasons.push(`${abiViolations} case(s) broke the ABI (first: ${firstViolation})`);
   if (statusFailures > 0) reasons.push(`${statusFailures} case(s) returned a failure status (first: row ${firstFail!.row}, ${firstFail!.status})`);
   const metrics: MetricResult[] = cmp.map((m, j) => ({ output: m.c.output, metric: m.c.metric, ...acc[j]! }));
   for (const m of metrics) if (m.maxRatio > 1) reasons.push(`${m.output}: error ${fmt(m.max)} ${m.metric} exceeds the limit`);

@@ -10,11 +10,11 @@ import { SPECS } from "../../verify/specs/index.js";
 import { selectSpecs } from "../../verify/generate.js";
 import { formatCheckTable, checkJson } from "../../verify/summary.js";
 import { UsageError, type Command } from "../options.js";
-import { kernelSource, loadKernels, writeReport } from "../shared.js";
+import { callLimit, kernelSource, loadKernels, writeReport } from "../shared.js";
 
 export const checkCommand: Command = {
   summary: "run the vector suites against a build or a module and compare with the references (exit 1 if one fails)",
-  options: ["build", "module", "suite", "json", "verbose", "workers", "report"],
+  options: ["build", "module", "call-limit", "suite", "json", "verbose", "workers", "report"],
   async run(_pos, values) {
     const workers = parseWorkers(values.workers as string | undefined);
     const mod = values.module as string | undefined;
@@ -24,7 +24,7 @@ export const checkCommand: Command = {
     if (mod !== undefined) {
       // An external module: run the suites whose exports it has (with the ABI's signatures), name the rest.
       if (values.build !== undefined) throw new UsageError("--module and --build exclude each other");
-      const m = loadModule(mod);
+      const m = loadModule(mod, callLimit(values));
       k = m.kernels;
       const plan = planModule(m.signatures, k.realBytes, suites.length === 0 ? SPECS : selectSpecs(suites), ROUTINES, mod);
       for (const line of skippedLines(plan)) process.stdout.write(`${line}\n`);
@@ -32,7 +32,7 @@ export const checkCommand: Command = {
         process.stderr.write(`areal: ${mod} has none of the exports the selected suites need (docs/abi.md)\n`);
         return 1;
       }
-      results = await runSuitesOn(plan.run, k, { module: mod }, workers);
+      results = await runSuitesOn(plan.run, k, kernelSource(values), workers);
     } else {
       k = loadKernels(values);
       results = await runSuitesOn(suites.length === 0 ? SPECS : selectSpecs(suites), k, kernelSource(values), workers);

@@ -9,7 +9,7 @@ import { kernelSource, loadKernels, routineArg } from "../shared.js";
 export const evalCommand: Command = {
   summary: "run a routine over a CSV of inputs; one output row per input row, with its status",
   args: "<routine>",
-  options: ["input", "out", "build", "module", "workers"],
+  options: ["input", "out", "build", "module", "call-limit", "workers"],
   required: ["input"],
   async run(pos, values) {
     const routine = routineArg("eval", pos[0]);
