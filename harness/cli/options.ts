@@ -25,6 +25,7 @@ export const OPTIONS = {
   builds: { type: "string", value: "LIST", help: "comma-separated builds to compare, the first is the baseline (f64,native,js,f32,debug,baseline,optimizing)" },
   tol: { type: "string", value: "X", help: "compare a.csv b.csv: largest allowed absolute difference per cell" },
   module: { type: "string", value: "FILE", help: "an external WebAssembly module following docs/abi.md" },
+  library: { type: "string", value: "FILE.so", help: "a native shared library with the ABI of include/areal.h, run in a child process (a crash is reported with the call)" },
   suite: { type: "string", multiple: true, value: "NAME", help: "limit to this vector suite (repeatable)" },
   json: { type: "string", value: "FILE", help: "also write the results as JSON to this file" },
   verbose: { type: "boolean", short: "v", help: "more detail: iteration histograms, limits and their reasons" },

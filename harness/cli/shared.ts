@@ -2,15 +2,21 @@
 import { ROUTINES, findRoutine, type Routine } from "../module/routines.js";
 import { loadFile, type Kernels } from "../module/load.js";
 import { loadNamedBuild, type BuildName } from "../module/builds.js";
+import { loadLibrary } from "../module/library.js";
 import type { KernelSource } from "../core/pool.js";
 import { runSuite, type SuiteResult } from "../verify/check.js";
 import { SPECS } from "../verify/specs/index.js";
 import { selectSpecs } from "../verify/generate.js";
 import { UsageError, unknownName } from "./options.js";
 
-/** The kernels a command runs: `--module FILE` or `--build NAME` (default f64), not both. */
+/** The kernels a command runs: `--module FILE`, `--library FILE.so` or `--build NAME` (default f64), one of them. */
 export function loadKernels(values: Record<string, unknown>): Kernels {
   const mod = values.module as string | undefined;
+  const lib = values.library as string | undefined;
+  if (lib !== undefined) {
+    if (mod !== undefined || values.build !== undefined) throw new UsageError("--library excludes --module and --build");
+    return loadLibrary(lib).kernels;
+  }
   if (mod !== undefined) {
     if (values.build !== undefined) throw new UsageError("--module and --build exclude each other");
     return loadFile(mod);
