@@ -2,6 +2,7 @@
 import { writeAtomic } from "../../core/atomic.js";
 import { parseWorkers } from "../../core/pool.js";
 import { loadModule } from "../../module/builds.js";
+import { loadLibrary } from "../../module/library.js";
 import { planModule, skippedLines } from "../../module/signatures.js";
 import { ROUTINES } from "../../module/routines.js";
 import type { Kernels } from "../../module/load.js";
@@ -14,17 +15,19 @@ import { kernelSource, loadKernels, writeReport } from "../shared.js";
 
 export const checkCommand: Command = {
   summary: "run the vector suites against a build or a module and compare with the references (exit 1 if one fails)",
-  options: ["build", "module", "suite", "json", "verbose", "workers", "report"],
+  options: ["build", "module", "library", "suite", "json", "verbose", "workers", "report"],
   async run(_pos, values) {
     const workers = parseWorkers(values.workers as string | undefined);
-    const mod = values.module as string | undefined;
+    const lib = values.library as string | undefined;
+    const mod = (values.module ?? lib) as string | undefined;
     const suites = (values.suite as string[] | undefined) ?? [];
     let k: Kernels;
     let results: SuiteResult[];
     if (mod !== undefined) {
       // An external module: run the suites whose exports it has (with the ABI's signatures), name the rest.
-      if (values.build !== undefined) throw new UsageError("--module and --build exclude each other");
-      const m = loadModule(mod);
+      if (values.build !== undefined) throw new UsageError(`--${lib !== undefined ? "library" : "module"} and --build exclude each other`);
+      if (lib !== undefined && values.module !== undefined) throw new UsageError("--library and --module exclude each other");
+      const m = lib !== undefined ? loadLibrary(lib) : loadModule(mod);
       k = m.kernels;
       const plan = planModule(m.signatures, k.realBytes, suites.length === 0 ? SPECS : selectSpecs(suites), ROUTINES, mod);
       for (const line of skippedLines(plan)) process.stdout.write(`${line}\n`);
@@ -32,7 +35,7 @@ export const checkCommand: Command = {
         process.stderr.write(`areal: ${mod} has none of the exports the selected suites need (docs/abi.md)\n`);
         return 1;
       }
-      results = await runSuitesOn(plan.run, k, { module: mod }, workers);
+      results = await runSuitesOn(plan.run, k, { module: mod }, lib !== undefined ? 1 : workers);
     } else {
       k = loadKernels(values);
       results = await runSuitesOn(suites.length === 0 ? SPECS : selectSpecs(suites), k, kernelSource(values), workers);
