@@ -26,6 +26,7 @@ export const OPTIONS = {
   tol: { type: "string", value: "X", help: "compare a.csv b.csv: largest allowed absolute difference per cell" },
   module: { type: "string", value: "FILE", help: "an external WebAssembly module following docs/abi.md" },
   library: { type: "string", value: "FILE.so", help: "a native shared library with the ABI of include/areal.h, run in a child process (a crash is reported with the call)" },
+  limits: { type: "string", value: "FILE", help: "check: your own limits, JSON {suite or \"*\": {max_ulp|max_rel|max_abs, max_iterations (null: no cap), why}} over the default (areal's limits for areal's builds; accuracy only, no iteration cap, for --module and --library)" },
   suite: { type: "string", multiple: true, value: "NAME", help: "limit to this vector suite (repeatable)" },
   json: { type: "string", value: "FILE", help: "also write the results as JSON to this file" },
   verbose: { type: "boolean", short: "v", help: "more detail: iteration histograms, limits and their reasons" },
