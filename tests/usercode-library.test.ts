@@ -51,6 +51,13 @@ describe.skipIf(why !== undefined)(`examples/c-kepler as .wasm and as .so${why ?
     expect(b.out.replace(built!.so, "X")).toBe(a.out.replace(built!.wasm, "X"));
   });
 
+  it("compare --builds takes both files and finds them bit-identical on every vector case they can run", () => {
+    const r = areal("compare", "--builds", `${built!.wasm},${built!.so}`);
+    expect(r.code).toBe(0);
+    expect(r.out).toMatch(/kepler-elliptic +\S+libc-kepler\.so +20000 +20000 /);
+    expect(r.out).toContain("every compared build is bit-identical to the baseline on every case.");
+  });
+
   it("eval through both builds writes byte-identical files", () => {
     const rows = ["e,M"];
     for (let i = 0; i < 400; i++) rows.push(`${(i % 20) / 20.5},${(i - 200) * 0.37}`);

@@ -22,7 +22,7 @@ export const OPTIONS = {
   input: { type: "string", short: "i", value: "FILE", help: "input CSV (header of named columns)" },
   out: { type: "string", short: "o", value: "FILE", help: "output file (written whole, or not at all)" },
   build: { type: "string", value: "NAME", help: "which build runs the kernels", values: BUILDS },
-  builds: { type: "string", value: "LIST", help: "comma-separated builds to compare, the first is the baseline (f64,native,js,f32,debug,baseline,optimizing)" },
+  builds: { type: "string", value: "LIST", help: "comma-separated builds to compare, the first is the baseline (f64,native,js,f32,debug,baseline,optimizing, or a FILE.so library or FILE.wasm module of your own)" },
   tol: { type: "string", multiple: true, value: "[COL=]X", help: "compare a.csv b.csv: tolerance, for every column or for COL (repeatable): 4ulp, 1e-12rel, 1e-9abs, or a bare number (absolute); default exact" },
   map: { type: "string", multiple: true, value: "THEIRS=OURS", help: "compare a.csv b.csv: read b's column THEIRS as a's column OURS (repeatable)" },
   ignore: { type: "string", multiple: true, value: "COL", help: "compare a.csv b.csv: leave this column out (repeatable)" },
