@@ -41,7 +41,7 @@ function compareRun(pos: readonly string[], values: Record<string, unknown>): nu
   }
   for (const o of ["tol", "map", "ignore", "only"]) if (values[o] !== undefined) throw usage(`--${o} applies to comparing two CSV files`);
   const list = ((values.builds as string | undefined) ?? "f64,native,js,f32").split(",").map((s) => s.trim()).filter(Boolean);
-  for (const b of list) if (!isCompareBuild(b)) throw usage(`--builds: '${b}' is not one of f64, f32, js, native, debug, baseline, optimizing`);
+  for (const b of list) if (!isCompareBuild(b)) throw usage(`--builds: '${b}' is not one of f64, f32, js, native, debug, baseline, optimizing, or a FILE.so library or FILE.wasm module`);
   if (list.length < 2) throw usage("--builds needs at least two builds (the first is the baseline)");
   const suites = (values.suite as string[] | undefined) ?? [];
   const specs = suites.length === 0 ? SPECS : suites.map((s) => {
@@ -54,7 +54,9 @@ function compareRun(pos: readonly string[], values: Record<string, unknown>): nu
   if (values.json !== undefined) writeAtomic(values.json as string, JSON.stringify(rep, null, 2) + "\n");
   // The release module under any engine tier and its native translation must agree bit for bit: exit 1 if not.
   const exact = new Set(["f64", "native", "baseline", "optimizing"]);
-  const broken = exact.has(rep.builds[0]!) ? rep.comparisons.filter((c) => exact.has(c.build) && c.identical !== c.cases) : [];
+  // So must your own source in its two builds (a .wasm and a .so, compared with each other).
+  const mustAgree = (b: string): boolean => exact.has(b) || /\.(so|wasm)$/.test(b);
+  const broken = mustAgree(rep.builds[0]!) ? rep.comparisons.filter((c) => mustAgree(c.build) && c.identical !== c.cases) : [];
   for (const c of broken) process.stderr.write(`areal: ${c.build} is not bit-identical to ${c.baseline} on ${c.suite} (${c.cases - c.identical} case(s))\n`);
   return broken.length ? 1 : 0;
 }
