@@ -3,6 +3,7 @@ import { ROUTINES, findRoutine, type Routine } from "../module/routines.js";
 import type { Kernels } from "../module/load.js";
 import { loadModule, loadNamedBuild, type BuildName } from "../module/builds.js";
 import { parseCallLimit } from "../module/bounded.js";
+import { loadLibrary } from "../module/library.js";
 import type { KernelSource } from "../core/pool.js";
 import { runSuite, type SuiteResult } from "../verify/check.js";
 import { SPECS } from "../verify/specs/index.js";
@@ -15,11 +16,17 @@ export function callLimit(values: Record<string, unknown>): number {
 }
 
 /**
- * The kernels a command runs: `--module FILE` or `--build NAME` (default f64), not both. A module is checked
- * against the ABI's signatures and runs with every call bounded (module/bounded.ts); builds run directly.
+ * The kernels a command runs: `--module FILE`, `--library FILE.so` or `--build NAME` (default f64), one of
+ * them. A module is checked against the ABI's signatures and runs with every call bounded (module/bounded.ts);
+ * a library runs in a child process (module/library.ts); builds run directly.
  */
 export function loadKernels(values: Record<string, unknown>): Kernels {
   const mod = values.module as string | undefined;
+  const lib = values.library as string | undefined;
+  if (lib !== undefined) {
+    if (mod !== undefined || values.build !== undefined) throw new UsageError("--library excludes --module and --build");
+    return loadLibrary(lib).kernels;
+  }
   if (mod !== undefined) {
     if (values.build !== undefined) throw new UsageError("--module and --build exclude each other");
     return loadModule(mod, callLimit(values)).kernels;

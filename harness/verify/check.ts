@@ -61,11 +61,11 @@ function argIndices(routine: Routine, v: VectorSet): number[] {
 }
 
 /** Run one suite against a loaded build. `rows` limits the run to some row indices (all by default). */
-export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly number[]; vectors?: VectorSet } = {}): SuiteResult {
+export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly number[]; vectors?: VectorSet; limits?: Limits } = {}): SuiteResult {
   const routine = findRoutine(spec.routine);
   if (!routine) throw new Error(`suite ${spec.suite}: unknown routine ${spec.routine}`);
   const v = opts.vectors ?? readVectors(vectorPath(spec.suite));
-  const limits = limitsFor(spec.suite, k.label === "f32" ? "f32" : "f64");
+  const limits = opts.limits ?? limitsFor(spec.suite, k.label === "f32" ? "f32" : "f64");
   const single = k.realBytes === 4;
   const argCols = argIndices(routine, v);
   const outIndex = new Map(routine.outputs.map((o, i) => [o, i]));
@@ -214,12 +214,12 @@ export const CHECK_WORKERS_MIN_BYTES = 32 << 20;
 /**
  * Run suites on `k`, or spread over worker threads (each loading `load`) when their vector files add up to
  * `minBytes` or more: one suite per job, results in suite order, so the table and JSON are the same for any
- * number of workers.
+ * number of workers. `limitsOf` (limits other than areal's own) runs in this thread.
  */
-export async function runSuitesOn(specs: readonly VectorSpec[], k: Kernels, load: KernelSource, workers: number, minBytes = CHECK_WORKERS_MIN_BYTES): Promise<SuiteResult[]> {
+export async function runSuitesOn(specs: readonly VectorSpec[], k: Kernels, load: KernelSource, workers: number, minBytes = CHECK_WORKERS_MIN_BYTES, limitsOf?: (suite: string) => Limits): Promise<SuiteResult[]> {
   const bytes = specs.reduce((sum, s) => sum + (statSync(vectorPath(s.suite), { throwIfNoEntry: false })?.size ?? 0), 0);
-  const n = bytes < minBytes ? 1 : Math.min(workers, specs.length);
-  if (n <= 1) return specs.map((s) => runSuite(s, k));
+  const n = bytes < minBytes || limitsOf ? 1 : Math.min(workers, specs.length);
+  if (n <= 1) return specs.map((s) => runSuite(s, k, { limits: limitsOf?.(s.suite) }));
   const pool = await WorkerPool.start(n, { kind: "check", load });
   const results: SuiteResult[] = [];
   try {
