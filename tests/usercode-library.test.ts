@@ -15,6 +15,7 @@ import { loadLibrary, closeLibraries } from "../harness/module/library.js";
 import { ModuleError } from "../harness/module/load.js";
 import { onPath } from "./builds-helpers.js";
 import { ROOT } from "../harness/core/paths.js";
+import { slotsOf } from "../harness/module/routines.js";
 
 const missing = cToolchainMissing();
 const why = missing ? recordSkip("usercode-library (C example built as .wasm and .so)", missing, "apt-get install clang lld gcc") : undefined;
@@ -76,20 +77,20 @@ describe.skipIf(why !== undefined)(`examples/c-kepler as .wasm and as .so${why ?
 const noGcc = onPath("gcc") ? undefined : recordSkip("usercode-library (crash reporting)", "gcc not on PATH", "apt-get install gcc");
 
 describe.skipIf(noGcc !== undefined)("a library that crashes or does not follow the ABI", () => {
-  const CRASH = `#include <stdint.h>
+  const CRASH = `#include "areal.h"
 static double out[64];
 double *areal_out(void) { return out; }
 int32_t areal_real_bytes(void) { return 8; }
 int32_t kepler_elliptic(double e, double M) {
   if (M > 1.5) { volatile int *p = 0; *p = 1; }
-  out[0] = M; out[1] = 0; (void)e; return 0;
+  out[AREAL_SLOT_KEPLER_ELLIPTIC_E] = M; out[AREAL_SLOT_KEPLER_ELLIPTIC_ITERATIONS] = 0; (void)e; return 0;
 }
 `;
   it("reports the signal with the export and the inputs, and the CLI exits 2 (a faulty module) naming them", () => {
     const so = buildSo(dir, "crash", CRASH);
     const { kernels } = loadLibrary(so);
     expect(kernels.call("kepler_elliptic", [0.5, 1])).toBe(0);
-    expect(kernels.out[0]).toBe(1);
+    expect(kernels.out[slotsOf("kepler_elliptic", "E").E]).toBe(1);
     let err: unknown;
     try {
       kernels.call("kepler_elliptic", [0.5, 2]);

@@ -21,7 +21,8 @@
  * kepler_parabolic(M)     Barker's equation D + D^3/3 = M by plain Newton from D0 = M up to |M| = 2^30 (no
  *   closed-form starter, so large |M| takes many steps: D grows like M^(1/3) and Newton on a cubic from far away
  *   gains only a factor 3/2 a step; about 40 steps at |M| = 2^30), beyond that from a power of two near
- *   (3|M|)^(1/3). Cap MAX_BARKER = 200. Slots: D, iterations, nu (not computed by this example: NaN).
+ *   (3|M|)^(1/3). Cap MAX_BARKER = 200. Slots: D, iterations, nu = 2 atan D (atan_ below: two half-angle
+ *   reductions to |x| <= tan(pi/16), then the odd series to 12 terms; a few ulp, enough for this example).
  */
 #define AREAL_IMPLEMENTATION
 #include "../../include/areal.h"
@@ -130,6 +131,22 @@ AREAL_API(kepler_elliptic) int32_t kepler_elliptic(areal_real e, areal_real M) {
   return AREAL_OK;
 }
 
+/* atan x: 1/x beyond 1, two half-angle reductions atan a = 2 atan(a / (1 + sqrt(1 + a^2))) to a <= tan(pi/16) =
+ * 0.199, then the odd series a - a^3/3 + ... to the a^23 term (0.2^25 / 25 < 2^-61 relative). */
+static double atan_(double x) {
+  static const double PIO2 = 0x1.921fb54442d18p+0;
+  double a = fabs_(x), s = 0, a2;
+  int inv = a > 1.0, k;
+  if (inv) a = 1.0 / a;
+  a = a / (1.0 + __builtin_sqrt(1.0 + a * a));
+  a = a / (1.0 + __builtin_sqrt(1.0 + a * a));
+  a2 = a * a;
+  for (k = 23; k >= 1; k -= 2) s = 1.0 / k - a2 * s;
+  s = 4.0 * (a * s);
+  if (inv) s = PIO2 - s;
+  return x < 0 ? -s : s;
+}
+
 /* A power of two within a factor 2 of the cube root of |x| (x normal), from the exponent bits. */
 static double cbrt_guess(double x) {
   union { double d; uint64_t u; } b;
@@ -162,6 +179,6 @@ AREAL_API(kepler_parabolic) int32_t kepler_parabolic(areal_real M) {
   if (it > MAX_BARKER) return AREAL_ERR_NOT_CONVERGED;
   out_region[AREAL_SLOT_KEPLER_PARABOLIC_D] = D;
   out_region[AREAL_SLOT_KEPLER_PARABOLIC_ITERATIONS] = it;
-  out_region[AREAL_SLOT_KEPLER_PARABOLIC_NU] = 0.0 / 0.0; /* not computed by this example */
+  out_region[AREAL_SLOT_KEPLER_PARABOLIC_NU] = 2.0 * atan_(D);
   return AREAL_OK;
 }
