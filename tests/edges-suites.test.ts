@@ -7,7 +7,8 @@
  * The table in docs/edges.md and README.md is this file's measurement: `AREAL_EDGES_TABLE=1 npx vitest run
  * tests/edges-suites.test.ts` prints, per kernel and edge, the worst error, the conditioning there and the worst
  * ratio error / conditioning (conditioning at least one unit: 1 ulp, or 2^-53 relative, or 2^-53 max(1, |ref|)
- * absolute). The Kepler suites store no conditioning column; there it is the root's, from implicit
+ * absolute; on the single-precision build the two-body suites' cond_* columns, per f64 ulp of an input, are
+ * scaled by 2^29 to one f32 ulp). The Kepler suites store no conditioning column; there it is the root's, from implicit
  * differentiation of Kepler's equation (common practice): one ulp of e or M moves E by
  * (|sin E| ulp(e) + ulp(M)) / (1 - e cos E), H by (|sinh H| ulp(e) + ulp(M)) / (e cosh H - 1), D by ulp(M) / (1 + D^2).
  */
@@ -103,7 +104,8 @@ function measure(suite: string, k: Kernels): EdgeFigure[] {
       } else {
         const eps = isSingle ? 2 ** -24 : 2 ** -53;
         err = c.metric === "rel" ? (want === 0 ? absErr : absErr / want) : absErr;
-        cond = c.cond ? row[col(v, c.cond)]! : 0;
+        // The two-body cond_* columns are per f64 ulp of an input; one f32 ulp is 2^29 of them.
+        cond = c.cond ? row[col(v, c.cond)]! * (isSingle ? 2 ** 29 : 1) : 0;
         unit = c.metric === "rel" ? eps : eps * Math.max(1, Math.abs(w1));
       }
       const ratio = err / Math.max(cond, unit);
