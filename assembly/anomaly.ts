@@ -207,7 +207,15 @@ export function time_of_flight(mu: real, p: real, e: real, nu1: real, nu2: real)
     integral = <real>0.5 * dm;
   } else {
     const k = e < 1 ? (<real>1.0 - e) * (<real>1.0 + e) : (e - <real>1.0) * (e + <real>1.0);
-    integral = dm / (k * RMath.sqrt(k));
+    const k32 = k * RMath.sqrt(k);
+    if (isFinite(k32)) {
+      integral = dm / k32;
+    } else {
+      // Huge e (beyond about 1e102, 7e12 in f32): |e^2 - 1|^(3/2) overflows though the integral, about
+      // dm / e^3, need not; divide by q = sqrt(e - 1) sqrt(e + 1) three times instead.
+      const q = RMath.sqrt(e - <real>1.0) * RMath.sqrt(e + <real>1.0);
+      integral = dm / q / q / q;
+    }
   }
   const area = <real>0.5 * p * p * integral;
   const arealRate = <real>0.5 * RMath.sqrt(mu * p);

@@ -28,6 +28,16 @@ function trueToAnomalyDec(e: Dec, nu: Dec): Dec | undefined {
   return D.atanh(u).times(2);
 }
 
+/**
+ * tanh at this precision. From |y| = 100 on, 1 - |tanh y| = 2 / (e^(2|y|) + 1) < 3e-87 is below the working
+ * precision (70 digits), so the value is sign(y); decimal.js's own tanh does not finish for |y| of 1e9 and more
+ * (the anomaly-to-true edge cases reach H = 1.8e308).
+ */
+function tanhDec(y: Dec): Dec {
+  return y.abs().gte(TANH_SATURATION) ? new D(y.s) : D.tanh(y);
+}
+const TANH_SATURATION = 100;
+
 function anomalyToTrueDec(e: Dec, x: Dec): Dec {
   if (e.lt(1)) {
     const { k, r } = reduce(x);
@@ -36,7 +46,7 @@ function anomalyToTrueDec(e: Dec, x: Dec): Dec {
     return nr.plus(k.times(piOf(D).times(2)));
   }
   if (e.eq(1)) return D.atan(x).times(2);
-  return D.atan(e.plus(1).div(e.minus(1)).sqrt().times(D.tanh(x.div(2)))).times(2);
+  return D.atan(e.plus(1).div(e.minus(1)).sqrt().times(tanhDec(x.div(2)))).times(2);
 }
 
 function anomalyToMeanDec(e: Dec, x: Dec): Dec {

@@ -13,6 +13,7 @@ import type { Case, Comparison, VectorSpec } from "./types.js";
 /** WGS 84 Earth GM, km^3/s^2 (NIMA TR8350.2). */
 export const GM_WGS84 = 398600.4418;
 const TWO_PI = 2 * Math.PI;
+const EDGE_NOTE = "tags edge-*: the edges of the domain (docs/edges.md), seeded groups appended after the other cases so that those keep their rows";
 
 export const ORBIT_CLASSES = [
   "leo",
@@ -238,8 +239,9 @@ export const elementsSpec: VectorSpec = {
     COND_NOTE,
     UNITS_NOTE,
     "tags: orbit classes, seed 20261211",
+    `${EDGE_NOTE}; seed 20261231`,
   ],
-  cases: () => classCases(20261211, 1200, (_rng, o) => [o.mu, ...stateOf(o)]),
+  cases: () => [...classCases(20261211, 1200, (_rng, o) => [o.mu, ...stateOf(o)]), ...edgeOrbitCases(20261231, 3, (o) => [o.mu, ...stateOf(o)])],
   reference: (x) => referenceElements(x),
 };
 
@@ -251,8 +253,11 @@ export const stateSpec: VectorSpec = {
   compare: STATE_COMPARE,
   generator: CONVERSION_GENERATOR,
   precision: "50 significant digits, rounded to nearest double",
-  notes: ["a = p / (1 - e^2) of the seeded orbit, rounded; e = 1 is not in this suite (state_p takes p)", COND_NOTE, UNITS_NOTE, "tags: orbit classes, seed 20261212"],
-  cases: () => classCases(20261212, 1200, (_rng, o) => [o.mu, o.p / ((1 - o.e) * (1 + o.e)), o.e, o.i, o.raan, o.argp, o.nu]),
+  notes: ["a = p / (1 - e^2) of the seeded orbit, rounded; e = 1 is not in this suite (state_p takes p)", COND_NOTE, UNITS_NOTE, "tags: orbit classes, seed 20261212", `${EDGE_NOTE}; seed 20261232`],
+  cases: () => {
+    const make = (o: Orbit): number[] => [o.mu, o.p / ((1 - o.e) * (1 + o.e)), o.e, o.i, o.raan, o.argp, o.nu];
+    return [...classCases(20261212, 1200, (_rng, o) => make(o)), ...edgeOrbitCases(20261232, 3, (o) => make(o))];
+  },
   reference: (x) => referenceState(x),
 };
 
@@ -270,15 +275,18 @@ export const equinoctialSpec: VectorSpec = {
     COND_NOTE,
     UNITS_NOTE,
     "tags: orbit classes, seed 20261213",
+    `${EDGE_NOTE}; seed 20261233`,
   ],
-  cases: () =>
-    classCases(20261213, 1200, (_rng, o) => {
+  cases: () => {
+    const make = (o: Orbit): number[] | undefined => {
       if (o.i > 3.0) return undefined;
       // L = raan + argp + nu must stay off the 0 / 2 pi seam.
       const L = (((o.raan + o.argp + o.nu) % TWO_PI) + TWO_PI) % TWO_PI;
       if (L < 0.01 || L > TWO_PI - 0.01) return undefined;
       return [o.mu, ...stateOf(o)];
-    }),
+    };
+    return [...classCases(20261213, 1200, (_rng, o) => make(o)), ...edgeOrbitCases(20261233, 3, make)];
+  },
   reference: (x) => referenceEquinoctial(x),
 };
 
@@ -290,7 +298,7 @@ export const fromEquinoctialSpec: VectorSpec = {
   compare: STATE_COMPARE,
   generator: CONVERSION_GENERATOR,
   precision: "50 significant digits, rounded to nearest double",
-  notes: ["the reference goes through the classical elements", COND_NOTE, UNITS_NOTE, "tags: random (e < 0.9), hyperbolic (e up to 3), circular, equatorial; seed 20261214"],
+  notes: ["the reference goes through the classical elements", COND_NOTE, UNITS_NOTE, "tags: random (e < 0.9), hyperbolic (e up to 3), circular, equatorial; seed 20261214", `${EDGE_NOTE}; seed 20261234`],
   cases(): Case[] {
     const rng = new Rng(20261214);
     const out: Case[] = [];
@@ -307,10 +315,102 @@ export const fromEquinoctialSpec: VectorSpec = {
       if (1 + f * Math.cos(L) + g * Math.sin(L) < 0.05) continue;
       out.push({ inputs: [GM_WGS84, rng.between(6600, 50000), f, g, t * Math.cos(O), t * Math.sin(O), L], tag });
     }
-    return out;
+    return [...out, ...fromEquinoctialEdges()];
   },
   reference: (x) => referenceFromEquinoctial(x),
 };
+
+// ---- edge cases (docs/edges.md) ----------------------------------------------------------------------------
+
+const isEdge = (c: Case): boolean => c.tag.startsWith("edge-");
+
+/** One edge of the state-based suites: a tag and the parts of an orbit it pins (the rest drawn by the seed). */
+interface EdgeOrbit {
+  tag: string;
+  mu?: number;
+  rp?: number;
+  e?: number;
+  i?: number;
+  nu?: number;
+  planar?: boolean;
+}
+
+/**
+ * The edges of the element conversions: e next to 0 (either side of the 2^-36 circular convention, never within
+ * a factor 2 of it), next to 1 from both sides and huge; i next to 0 and pi (either side of the equatorial
+ * convention); nu next to 0, pi and the asymptote; tiny and huge lengths and mu; near-rectilinear orbits (e next to
+ * 1, far from periapsis: |r x v| down to 1e-6 |r| |v|).
+ */
+function edgeOrbits(): EdgeOrbit[] {
+  const list: EdgeOrbit[] = [];
+  for (const e of [1e-300, 1e-14, 2 ** -38, 2 ** -34, 1e-9, 1e-6]) list.push({ tag: "edge-e0", e });
+  for (const e of [1 - 1e-15, 1 - 1e-12, 1 - 1e-9, 1 - 1e-6]) list.push({ tag: "edge-e1-", e });
+  for (const e of [1 + 1e-15, 1 + 1e-12, 1 + 1e-9, 1 + 1e-6]) list.push({ tag: "edge-e1+", e });
+  for (const e of [1e3, 1e6, 1e10]) list.push({ tag: "edge-huge-e", e });
+  for (const i of [1e-300, 1e-14, 2 ** -38, 2 ** -34, 1e-9, 1e-6]) list.push({ tag: "edge-i0", i });
+  for (const d of [1e-14, 2 ** -34, 1e-9, 1e-6]) list.push({ tag: "edge-ipi", i: Math.PI - d });
+  list.push({ tag: "edge-ipi", i: Math.PI, planar: true }, { tag: "edge-i0", i: 0, planar: true });
+  for (const nu of [1e-6, Math.PI - 1e-9, Math.PI, Math.PI + 1e-9, TWO_PI - 1e-6]) list.push({ tag: "edge-nu", nu });
+  for (const [mu, rp] of [[1e-10, 1e-6], [1e-20, 1], [1, 1e-10], [GM_WGS84, 1e-3], [GM_WGS84, 1e12], [1e20, 1e6], [1e30, 1e15]] as const) list.push({ tag: "edge-scale", mu, rp });
+  for (const e of [1 - 1e-12, 1 - 1e-9, 1 + 1e-12, 1 + 1e-9]) list.push({ tag: "edge-rectilinear", e, nu: 0.999 * (e < 1 ? Math.PI : Math.acos(-1 / e)) });
+  return list;
+}
+
+/** Seeded orbits for the edges, `reps` draws of each (the unpinned parts random). */
+function edgeOrbitCases(seed: number, reps: number, make: (o: Orbit) => number[] | undefined): Case[] {
+  const rng = new Rng(seed);
+  const out: Case[] = [];
+  for (let r = 0; r < reps; r++) {
+    for (const d of edgeOrbits()) {
+      const mu = d.mu ?? GM_WGS84;
+      const e = d.e ?? rng.uniform() * 0.9;
+      const rp = d.rp ?? rng.between(6600, 42164);
+      const o: Orbit = { mu, p: rp * (1 + e), e, i: d.i ?? rng.between(0.05, 3.0), raan: angle(rng), argp: angle(rng), nu: 0, cls: "leo", planar: d.planar ?? false };
+      if (o.planar) o.raan = 0;
+      o.nu = d.nu ?? anomaly(rng, e);
+      if (e >= 1 && Math.abs(o.nu > Math.PI ? o.nu - TWO_PI : o.nu) >= Math.acos(-1 / e)) o.nu = anomaly(rng, e);
+      const inputs = make(o);
+      if (inputs) out.push({ inputs, tag: d.tag });
+    }
+  }
+  return out;
+}
+
+/**
+ * From-equinoctial edges (seed 20261234): e next to 0, next to 1 and huge; tan(i/2) tiny and huge (i next to 0 and
+ * pi); tiny and huge p and mu; L next to 0, pi and 2 pi; 1 + f cos L + g sin L down to 1e-6 (near-rectilinear).
+ */
+function fromEquinoctialEdges(): Case[] {
+  const rng = new Rng(20261234);
+  const out: Case[] = [];
+  const draw = (tag: string, d: { mu?: number; p?: number; e?: number; t?: number; L?: number; w?: number }): void => {
+    const e = d.e ?? rng.uniform() * 0.9;
+    const w = d.w ?? rng.between(0, TWO_PI);
+    const t = d.t ?? Math.tan(rng.between(0, 1.45));
+    const O = rng.between(0, TWO_PI);
+    const L = d.L ?? rng.between(0.01, TWO_PI - 0.01);
+    out.push({ inputs: [d.mu ?? GM_WGS84, d.p ?? rng.between(6600, 50000), e * Math.cos(w), e * Math.sin(w), t * Math.cos(O), t * Math.sin(O), L], tag });
+  };
+  for (let r = 0; r < 3; r++) {
+    for (const e of [0, 1e-300, 1e-14, 1e-9]) draw("edge-e0", { e });
+    for (const e of [1 - 1e-15, 1 - 1e-9, 1 + 1e-15, 1 + 1e-9, 10, 1e6]) {
+      const w = rng.between(0, TWO_PI);
+      // Keep 1 + e cos(L - w) >= 0.05 (away from the asymptote), L off the seam.
+      const lim = e > 1 ? Math.acos(-0.95 / e) : 2.5;
+      draw(e > 2 ? "edge-huge-e" : "edge-e1", { e, w, L: (((w + rng.between(-lim, lim)) % TWO_PI) + TWO_PI) % TWO_PI || 1 });
+    }
+    for (const t of [0, 1e-300, 1e-14, 1e-8, 1e4, 1e8, 1e15]) draw(t > 1 ? "edge-ipi" : "edge-i0", { t });
+    for (const L of [1e-9, 1e-6, Math.PI - 1e-9, Math.PI, TWO_PI - 1e-6]) draw("edge-L", { L });
+    for (const [mu, p] of [[1e-10, 1e-6], [1e-20, 1], [1, 1e-10], [GM_WGS84, 1e-3], [GM_WGS84, 1e12], [1e20, 1e6], [1e30, 1e15]] as const) draw("edge-scale", { mu, p });
+    for (const q of [1e-3, 1e-6]) {
+      const e = 1 - 1e-9;
+      const w = rng.between(0, TWO_PI);
+      const dL = Math.acos((q - 1) / e); // 1 + e cos(dL) = q
+      draw("edge-rectilinear", { e, w, L: (((w + (rng.uniform() < 0.5 ? dL : -dL)) % TWO_PI) + TWO_PI) % TWO_PI });
+    }
+  }
+  return out;
+}
 
 // ---- exact-f32-input companion suites ---------------------------------------------------------------------
 
@@ -324,15 +424,16 @@ function f32Inputs(base: VectorSpec, count: number, valid: (x: readonly number[]
   return {
     ...base,
     suite: `${base.suite}-f32in`,
-    notes: [...base.notes, `inputs: the cases of ${base.suite}, thinned to about ${count} and rounded to binary32 (exact f32 values), kept where still valid`],
+    notes: [...base.notes, `inputs: the cases of ${base.suite}, thinned to about ${count} (the edge cases all kept) and rounded to binary32 (exact f32 values), kept where still valid`],
     cases(): Case[] {
       const all = base.cases();
-      // Seeded thinning (a fixed stride would alias with the cycle of orbit classes and keep only a few).
+      // Seeded thinning (a fixed stride would alias with the cycle of orbit classes and keep only a few). The
+      // edge cases (appended last) are all kept, and the rate is set by the others so that their rows stay.
       const rng = new Rng(20261202);
-      const keep = count / all.length;
+      const keep = count / all.filter((c) => !isEdge(c)).length;
       const out: Case[] = [];
       for (const c of all) {
-        if (!(rng.uniform() < keep)) continue;
+        if (!isEdge(c) && !(rng.uniform() < keep)) continue;
         const x = c.inputs.map((v) => Math.fround(v));
         const normal = x.every((v) => Number.isFinite(v) && (v === 0 || Math.abs(v) >= 1.1754943508222875e-38));
         if (normal && valid(x)) out.push({ inputs: x, tag: c.tag });
