@@ -36,6 +36,6 @@ describe("reference vectors", () => {
           }
         });
       }
-    });
+    }, 600_000); // decimal.js at 50-70 digits: the heavier suites (lambert, transition) take minutes on a loaded 2-core machine
   }
 });
