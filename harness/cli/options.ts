@@ -44,7 +44,7 @@ export const OPTIONS = {
   oem: { type: "string", value: "FILE", help: "CCSDS OEM (KVN) file to write (default <plan name>.oem here)" },
   workers: { type: "string", value: "N", help: "worker threads, each with its own module instance (default: the number of cores)" },
   grid: { type: "string", value: "FILE", help: "sweep: grid description JSON (docs/sweeps.md lists its fields)" },
-  shard: { type: "string", value: "k/n", help: "sweep: run only shard k of n (for job arrays); join the parts with areal merge" },
+  shard: { type: "string", value: "k/n", help: "only shard k of n, for job arrays: sweep, the cases of shard k (join the parts with areal merge); eval, the rows starting in byte range k of n of the input (part 1 has the header; the parts joined in order are one run's bytes)" },
   resume: { type: "boolean", help: "sweep: when --out already holds this shard of this sweep (same routine, grid, module, shard; whole), keep it and exit 0 (safe resubmission)" },
   report: { type: "string", value: "DIR", help: "also write the HTML report (one self-contained file) and its JSON into this folder" },
   long: { type: "boolean", help: "bench: longer timings and a finer iteration grid (several minutes)" },

@@ -131,6 +131,17 @@ export interface FileEvalOptions {
   /** Called after each chunk with the bytes done so far and the file size. */
   readonly progress?: (bytesRead: number, size: number) => void;
   readonly chunkBytes?: number;
+  /**
+   * Only the rows that start in byte range k of n of the data (after the header), for job arrays: part 1 has the
+   * header, the others none, so the parts joined in order are the bytes of one run over the whole file.
+   */
+  readonly shard?: { readonly k: number; readonly n: number };
+}
+
+/** Bytes [lo, hi) of the data, the range of shard k of n: contiguous, together exactly [first, size). */
+export function shardBytes(first: number, size: number, k: number, n: number): { lo: number; hi: number } {
+  const at = (j: number): number => first + Number((BigInt(j) * BigInt(size - first)) / BigInt(n));
+  return { lo: at(k - 1), hi: at(k) };
 }
 
 /**
@@ -179,7 +190,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
         throw cannotWrite(err);
       }
     };
-    write(Buffer.from(outputHeader(routine, head.columns) + "\n"));
+    if (opts.shard === undefined || opts.shard.k === 1) write(Buffer.from(outputHeader(routine, head.columns) + "\n"));
     line = head.nextLine;
     let rows = 0;
     const statuses: Record<string, number> = {};
@@ -195,8 +206,21 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
       line += res.lineCount;
       add(res.rows, res.statuses, stream.position);
     };
-    // A file of one chunk or less gains nothing from threads: it is run here (the bytes are the same).
-    if (opts.workers <= 1 || stream.size <= (opts.chunkBytes ?? CHUNK_BYTES)) {
+    // A shard: the lines starting in its byte range, in chunks of ranges (lines numbered from the range, so a
+    // bad cell is named by its byte offset, as with workers).
+    const shard = opts.shard === undefined ? undefined : shardBytes(stream.position, stream.size, opts.shard.k, opts.shard.n);
+    if (shard !== undefined && opts.workers <= 1) {
+      const init = { columns: head.columns, source, path, first: stream.position, size: stream.size };
+      const step = opts.chunkBytes ?? CHUNK_BYTES;
+      for (let start = shard.lo; start < shard.hi; start += step) {
+        const r = evalRange(routine, plan, init, opts.kernels, start, Math.min(shard.hi, start + step));
+        if (r.error !== undefined) throw new EvalError(`${source}: in the lines from byte ${r.begin}: ${r.error}`);
+        write(r.bytes);
+        add(r.rows, r.statuses, r.finish);
+        await turn();
+      }
+    } else if (shard === undefined && (opts.workers <= 1 || stream.size <= (opts.chunkBytes ?? CHUNK_BYTES))) {
+      // A file of one chunk or less gains nothing from threads: it is run here (the bytes are the same).
       for (let c = stream.nextChunk(); c !== undefined; c = stream.nextChunk()) {
         here(c);
         await turn(); // let an interrupt (cleanup.ts) be handled between chunks
@@ -208,11 +232,12 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
       const size = stream.size;
       const step = opts.chunkBytes ?? CHUNK_BYTES;
       pool = await WorkerPool.start(opts.workers, { kind: "eval", load: opts.load, routine: routine.name, columns: head.columns, source, path, first, size });
-      let next = first;
+      let next = shard?.lo ?? first;
+      const stop = shard?.hi ?? size;
       const ranges: Iterator<{ start: number; end: number }> = {
         next: () => {
-          if (next >= size) return { done: true, value: undefined };
-          const r = { start: next, end: Math.min(size, next + step) };
+          if (next >= stop) return { done: true, value: undefined };
+          const r = { start: next, end: Math.min(stop, next + step) };
           next = r.end;
           return { done: false, value: r };
         },

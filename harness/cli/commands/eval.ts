@@ -1,6 +1,7 @@
 /** `areal eval <routine>`: run a routine over a CSV of inputs. */
 import { existsSync } from "node:fs";
 import { evaluateFile } from "../../run/evaluate.js";
+import { parseShard } from "../../run/sweep.js";
 import { parseWorkers } from "../../core/pool.js";
 import { progressLine, progressWanted } from "../../core/progress.js";
 import { UsageError, type Command } from "../options.js";
@@ -9,7 +10,7 @@ import { kernelSource, loadKernels, routineArg } from "../shared.js";
 export const evalCommand: Command = {
   summary: "run a routine over a CSV of inputs; one output row per input row, with its status",
   args: "<routine>",
-  options: ["input", "out", "build", "module", "library", "call-limit", "workers"],
+  options: ["input", "out", "shard", "build", "module", "library", "call-limit", "workers"],
   required: ["input"],
   async run(pos, values) {
     const routine = routineArg("eval", pos[0]);
@@ -18,6 +19,7 @@ export const evalCommand: Command = {
     if (!existsSync(input)) throw new UsageError(`--input: no such file: ${input}`);
     // A library runs in one child process: no worker threads.
     const workers = values.library !== undefined ? 1 : parseWorkers(values.workers as string | undefined);
+    const shard = values.shard === undefined ? undefined : parseShard(values.shard as string);
     const k = loadKernels(values);
     const out = values.out as string | undefined;
     // Streamed in chunks through the workers; the output appears whole at the end, or not at all.
@@ -25,7 +27,7 @@ export const evalCommand: Command = {
     const mb = (b: number): string => (b / 1048576).toFixed(0);
     let res;
     try {
-      res = await evaluateFile(routine, input, input, { workers, load: kernelSource(values), kernels: k, out, progress: (d, n) => bar.update(`${routine.name}: ${mb(d)} of ${mb(n)} MB read`) });
+      res = await evaluateFile(routine, input, input, { workers, load: kernelSource(values), kernels: k, out, shard, progress: (d, n) => bar.update(`${routine.name}: ${mb(d)} of ${mb(n)} MB read`) });
     } finally {
       bar.end();
     }
