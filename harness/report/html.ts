@@ -39,7 +39,7 @@ function suiteTable(results: readonly SuiteResult[]): string {
   const rows = results.map((r) => {
     const err = r.metrics.map((m) => `${esc(m.output)} ${formatFigure(m.max)} ${m.metric}`).join("; ");
     const it = r.maxIterations !== undefined ? `${r.maxIterations} / ${r.meanIterations?.toFixed(2)}` : "-";
-    const verdict = !r.applicable ? "n/a" : r.pass ? "pass" : "FAIL";
+    const verdict = r.verdict === "not-applicable" ? "n/a" : r.verdict === "pass" ? "pass" : "FAIL";
     return `<tr class="${verdict === "FAIL" ? "fail" : ""}"><td>${esc(r.suite)}</td><td>${r.cases - r.skipped}</td><td>${err}</td><td>${it}</td><td>${esc(r.reasons.join("; ") || "")}</td><td>${verdict}</td></tr>`;
   });
   return `<table><thead><tr><th>suite</th><th>cases</th><th>max error</th><th>iterations max / mean</th><th>reasons</th><th>result</th></tr></thead><tbody>${rows.join("")}</tbody></table>`;
@@ -96,7 +96,7 @@ export async function writeReport(dir: string, results: readonly SuiteResult[], 
       svg: await renderSvg(ulpHistogramSpec("output values per ULP difference", hb.bars)) });
   }
 
-  const pass = results.every((r) => r.pass);
+  const pass = results.every((r) => r.verdict !== "fail");
   const generated = new Date().toISOString();
   const body = sections.map((s) => `<section id="${s.id}"><h2>${esc(s.title)}</h2>${s.svg ? `<p>${s.intro}</p><figure class="plot" data-plot="${s.id}">${s.svg}</figure>` : `<p class="absent">Not shown: ${esc(s.absent ?? "")}.</p>`}</section>`).join("\n");
   const html = `<!DOCTYPE html>

@@ -37,7 +37,7 @@ export function formatCheckTable(results: readonly SuiteResult[], k: Kernels, ve
     r.metrics.map((m) => formatFigure(m.maxAbs)).join("; "),
     r.maxIterations !== undefined ? `${r.maxIterations} / ${r.meanIterations?.toFixed(2)}` : "-",
     limitText(r),
-    !r.applicable ? "n/a" : r.pass ? "pass" : "FAIL",
+    r.verdict === "not-applicable" ? "n/a" : r.verdict === "pass" ? "pass" : "FAIL",
   ]);
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((row) => row[i]!.length)));
   const line = (cells: string[]): string => cells.map((c, i) => c.padEnd(widths[i]!)).join("  ").trimEnd();
@@ -46,14 +46,14 @@ export function formatCheckTable(results: readonly SuiteResult[], k: Kernels, ve
   out.push("", "worst case per suite (inputs, tag, got, want):");
   for (const r of results) if (r.applicable) out.push(`  ${r.suite}: ${worstText(r)}`);
   for (const r of results) {
-    if (!r.pass) out.push(`  FAIL ${r.suite}: ${r.reasons.join("; ")}`);
+    if (r.verdict === "fail") out.push(`  FAIL ${r.suite}: ${r.reasons.join("; ")}`);
     if (verbose && r.iterationHistogram) {
       const h = Object.entries(r.iterationHistogram).map(([it, n]) => `${it}:${n}`).join(" ");
       out.push(`  ${r.suite} iterations histogram (iterations:cases): ${h}`);
     }
     if (verbose && r.limits.why) out.push(`  ${r.suite} limit: ${r.limits.why}`);
   }
-  const failed = results.filter((r) => !r.pass).length;
+  const failed = results.filter((r) => r.verdict === "fail").length;
   const na = results.filter((r) => !r.applicable).length;
   out.push("", `${results.length - failed - na} suite(s) passed, ${failed} failed${na ? `, ${na} not applicable to this build (inputs not exact in its precision)` : ""}.`, CAUTION);
   return out.join("\n") + "\n";
@@ -65,7 +65,7 @@ export function checkJson(results: readonly SuiteResult[], k: Kernels): object {
     tool: "areal check",
     build: k.label,
     real_bytes: k.realBytes,
-    pass: results.every((r) => r.pass),
+    pass: results.every((r) => r.verdict !== "fail"),
     caution: CAUTION,
     suites: results,
   };
