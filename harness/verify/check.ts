@@ -195,9 +195,11 @@ export function caseError(metric: Comparison["metric"], got: number, want: numbe
  * comparison names a conditioning column (`cond`, the value of that column on this case), and for `rel` scaled by
  * (1 + revs). A `condRelative` column holds a relative figure: on an `abs` comparison it widens by
  * cond_factor * cond * |want| (an output near zero, such as e of a nearly circular orbit, is compared absolutely).
+ * The widening stops at the limits' `cond_cap` (in the metric's units) where one is set.
  */
 export function caseLimit(c: Comparison, limits: Limits, cond: number | undefined, revs: number, want: number): number {
-  const widen = cond === undefined ? 0 : (limits.cond_factor ?? 0) * cond * (c.condRelative && c.metric === "abs" ? Math.abs(want) : 1);
+  const scaled = cond === undefined ? 0 : (limits.cond_factor ?? 0) * cond * (c.condRelative && c.metric === "abs" ? Math.abs(want) : 1);
+  const widen = Math.min(scaled, limits.cond_cap ?? Infinity);
   if (c.metric === "ulp") return Math.max(limits.max_ulp ?? 0, widen);
   if (c.metric === "rel") return Math.max((limits.max_rel ?? 0) * (1 + Math.abs(revs)), widen);
   return Math.max(limits.max_abs ?? 0, widen);
