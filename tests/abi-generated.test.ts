@@ -12,9 +12,12 @@ import { ROOT, BUILD_FILES } from "../harness/core/paths.js";
 import { ABI_TABLE } from "../harness/module/abi-table.js";
 import { readSignatures } from "../harness/module/signatures.js";
 import { ROUTINES, slotsOf } from "../harness/module/routines.js";
+import { noteSkip } from "./support/skips.js";
 
 const GEN = join(ROOT, "scripts", "gen-abi.mjs");
 const has = (cmd: string): boolean => spawnSync("sh", ["-c", `command -v ${cmd}`]).status === 0;
+if (!has("gcc")) noteSkip("C header, native (tests/abi-generated)", "no gcc on PATH", "apt-get install gcc");
+if (!has("clang")) noteSkip("C header, wasm32 (tests/abi-generated)", "no clang on PATH", "apt-get install clang lld");
 
 describe("files generated from the ABI table", () => {
   it("are current (npm run abi writes them)", () => {

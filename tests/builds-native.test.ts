@@ -20,6 +20,7 @@ import { findRoutine } from "../harness/module/routines.js";
 import { loadBuild } from "../harness/module/load.js";
 import { formatCsv } from "../harness/core/csv.js";
 import { prepareNative, REQUIRE_NATIVE } from "./builds-helpers.js";
+import { noteSkip } from "./support/skips.js";
 
 const run = promisify(execFile);
 
@@ -35,6 +36,7 @@ beforeAll(() => {
   if (nativeWhy) {
     if (REQUIRE_NATIVE) throw new Error(`AREAL_REQUIRE_NATIVE=1 but the native build cannot run: ${nativeWhy}`);
     process.stderr.write(`builds-native: native build skipped: ${nativeWhy}\n`);
+    noteSkip("native build (tests/builds-native)", nativeWhy, "apt-get install wabt gcc, then npm run build:native");
   }
   return () => closeNative();
 });

@@ -14,6 +14,7 @@ import { loadNative, closeNative } from "../harness/module/builds.js";
 import { prepareNative, REQUIRE_NATIVE } from "./builds-helpers.js";
 import { release } from "./helpers.js";
 import { toBits, fromBits } from "../harness/core/float.js";
+import { noteSkip } from "./support/skips.js";
 
 const specs = SPECS.filter((s) => existsSync(vectorPath(s.suite)));
 const vectors = new Map(specs.map((s) => [s.suite, readVectors(vectorPath(s.suite))]));
@@ -46,7 +47,7 @@ describe("determinism golden files", () => {
     const why = prepareNative();
     if (why) {
       if (REQUIRE_NATIVE) throw new Error(`AREAL_REQUIRE_NATIVE=1 but the native build cannot run: ${why}`);
-      process.stdout.write(`native build not compared: ${why}\n`);
+      noteSkip("native golden bits (tests/fuzz-determinism-golden)", why, "apt-get install wabt gcc, then npm run build:native");
       ctx.skip();
       return;
     }
