@@ -19,7 +19,7 @@ import { evaluateCsv } from "../harness/run/evaluate.js";
 import { findRoutine } from "../harness/module/routines.js";
 import { loadBuild } from "../harness/module/load.js";
 import { formatCsv } from "../harness/core/csv.js";
-import { prepareNative, REQUIRE_NATIVE } from "./builds-helpers.js";
+import { prepareNative, nativeToolchainMissing, REQUIRE_NATIVE } from "./builds-helpers.js";
 import { noteSkip } from "./support/skips.js";
 
 const run = promisify(execFile);

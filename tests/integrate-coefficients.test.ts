@@ -6,13 +6,12 @@
  */
 import { describe, it, expect } from "vitest";
 import { readFileSync } from "node:fs";
-import Decimal from "decimal.js";
 import { release } from "./helpers.js";
-import { exact, toDouble } from "../harness/verify/reference/decimal.js";
+import { exact, toDouble, decimalAt, type Dec } from "../harness/verify/reference/decimal.js";
 import { slotsOf } from "../harness/module/routines.js";
 import { ABI_TABLE } from "../harness/module/abi-table.js";
 
-const D = Decimal.clone({ precision: 60 });
+const D = decimalAt(60);
 const W1 = new D(1).div(new D(2).minus(new D(2).pow(new D(1).div(3))));
 
 /** The literal assigned to a named constant in a kernel file (the source, not the build). */
@@ -40,7 +39,7 @@ describe("integrator coefficients against their closed forms", () => {
     const h = 0.3;
     const w = [W1, new D(1).minus(W1.times(2)), W1];
     let [x, y, vx, vy] = [exact(D, 1), exact(D, 0), exact(D, 0), exact(D, 1.1)];
-    const acc = (px: Decimal, py: Decimal): [Decimal, Decimal] => {
+    const acc = (px: Dec, py: Dec): [Dec, Dec] => {
       const r3 = px.pow(2).plus(py.pow(2)).pow(1.5);
       return [px.neg().times(mu).div(r3), py.neg().times(mu).div(r3)];
     };
