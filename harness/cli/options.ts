@@ -4,6 +4,9 @@
  * parser accepts.
  */
 import { BUILDS } from "../module/builds.js";
+import { hang, wrap } from "../core/text.js";
+
+export { hang, wrap } from "../core/text.js";
 
 type OptionType = "string" | "boolean";
 export interface OptionDef {
@@ -36,6 +39,7 @@ export const OPTIONS = {
   workers: { type: "string", value: "N", help: "worker threads, each with its own module instance (default: the number of cores)" },
   grid: { type: "string", value: "FILE", help: "sweep: grid description JSON (docs/sweeps.md lists its fields)" },
   shard: { type: "string", value: "k/n", help: "sweep: run only shard k of n (for job arrays); join the parts with areal merge" },
+  resume: { type: "boolean", help: "sweep: when --out already holds this shard of this sweep (same routine, grid, module, shard; whole), keep it and exit 0 (safe resubmission)" },
   report: { type: "string", value: "DIR", help: "also write the HTML report (one self-contained file) and its JSON into this folder" },
   long: { type: "boolean", help: "bench: longer timings and a finer iteration grid (several minutes)" },
   profile: { type: "string", value: "FILE", help: "bench: target profile JSON (cycles per operation; bench/profiles/example-target.json)" },
@@ -74,25 +78,6 @@ export function usageLines(name: string, c: Command): string[] {
   const lines = [form(c.args, c.options, c.required)];
   if (c.alternative) lines.push(form(c.alternative.args, c.alternative.options, c.alternative.required));
   return lines;
-}
-
-/** `head` then `text` wrapped to `width` columns, continuation lines indented to the head's width. */
-export function hang(head: string, text: string, width = 100): string[] {
-  return wrap(text, width - head.length, "").map((l, i) => (i === 0 ? head : " ".repeat(head.length)) + l);
-}
-
-/** Wrap words to a width (the terminal output stays within 100 columns). */
-export function wrap(text: string, width: number, indent: string): string[] {
-  const out: string[] = [];
-  let line = "";
-  for (const w of text.split(/\s+/).filter(Boolean)) {
-    if (line && line.length + 1 + w.length > width) {
-      out.push(line);
-      line = indent + w;
-    } else line = line ? `${line} ${w}` : w;
-  }
-  if (line) out.push(line);
-  return out;
 }
 
 /** Help for one command: usage, summary, every option it takes with its help. */

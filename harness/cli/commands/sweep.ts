@@ -3,15 +3,15 @@ import { existsSync, readFileSync } from "node:fs";
 import { writeAtomic } from "../../core/atomic.js";
 import { parseWorkers } from "../../core/pool.js";
 import { progressLine, progressWanted } from "../../core/progress.js";
-import { parseGrid, parseShard, runSweep, formatSweep, moduleIdentity, sweepRoutine } from "../../run/sweep.js";
-import { mergeSweeps } from "../../run/merge.js";
+import { parseGrid, parseShard, runSweep, formatSweep, moduleIdentity, sweepRoutine, gridHash, shardRange, totalCases, type Grid, type ModuleId } from "../../run/sweep.js";
+import { mergeSweeps, readSweepDoc } from "../../run/merge.js";
 import { UsageError, type Command } from "../options.js";
 import { kernelSource, loadKernels, routineArg } from "../shared.js";
 
 export const sweepCommand: Command = {
   summary: "run a routine over a grid of inputs and summarise errors, iterations and statuses (JSON)",
   args: "<routine>",
-  options: ["grid", "out", "shard", "workers", "build", "module"],
+  options: ["grid", "out", "shard", "resume", "workers", "build", "module"],
   required: ["grid", "out"],
   async run(pos, values) {
     const routine = sweepRoutine(routineArg("sweep", pos[0]).name);
@@ -25,6 +25,13 @@ export const sweepCommand: Command = {
     const g = parseGrid(readFileSync(gridFile, "utf8"), gridFile, routine);
     const k = loadKernels(values);
     const load = kernelSource(values);
+    if (values.resume && existsSync(out)) {
+      const done = finishedShard(out, routine.name, g, moduleIdentity(load, k.label), shard);
+      if (done) {
+        process.stderr.write(`sweep ${routine.name} shard ${shard.k}/${shard.n}: ${out} already holds it (${done} cases); kept\n`);
+        return 0;
+      }
+    }
     const bar = progressLine(progressWanted());
     const t0 = Date.now();
     let doc;
@@ -41,6 +48,22 @@ export const sweepCommand: Command = {
     return 0;
   },
 };
+
+/**
+ * The case count of `path` when it is a whole, readable part of exactly this sweep (routine, grid, module and
+ * shard all the same), else undefined (the shard runs again and the file is replaced whole).
+ */
+function finishedShard(path: string, routine: string, g: Grid, module: ModuleId, shard: { k: number; n: number }): number | undefined {
+  try {
+    const d = readSweepDoc({ path, text: readFileSync(path, "utf8") });
+    const want = shardRange(totalCases(g), shard.k, shard.n);
+    const same = d.routine === routine && d.grid_sha256 === gridHash(g) && d.module.sha256 === module.sha256 &&
+      d.shard.k === shard.k && d.shard.n === shard.n && d.shard.first === want.first && d.shard.end === want.end && d.cases === want.end - want.first;
+    return same ? d.cases : undefined;
+  } catch {
+    return undefined; // unreadable or not a sweep file: run the shard again
+  }
+}
 
 export const mergeCommand: Command = {
   summary: "merge the shard files of a sweep into the file one unsharded run writes",
