@@ -141,4 +141,15 @@ describe("the checks catch wrong builds", () => {
     expect(r.reasons.join()).toMatch(/rx/);
     expect(runSuite(spec("propagate"), release(), { rows: [best] }).verdict).toBe("pass");
   });
+
+  it("a relative error on negative references fails too (the error is |got - want| / |want|, not over a signed want)", () => {
+    // Only the cases whose time of flight is negative are made 1e-11 off.
+    const m = mutant(release(), (name, _a, out, st) => {
+      if (name === "time_of_flight" && out[TOF.tof]! < 0) out[TOF.tof] = out[TOF.tof]! * (1 + 1e-11);
+      return st;
+    });
+    const r = runSuite(spec("time-of-flight"), m);
+    expect(r.verdict).toBe("fail");
+    expect(r.metrics.find((x) => x.output === "tof")!.worst!.want).toBeLessThan(0);
+  });
 });
