@@ -8,6 +8,7 @@ import { runSuite } from "../harness/verify/check.js";
 import { findSpec } from "../harness/verify/specs/index.js";
 import { fromBits, toBits } from "../harness/core/float.js";
 import { findRoutine, slotsOf } from "../harness/module/routines.js";
+import { FIRST_ERROR, statusWord } from "../harness/module/status.js";
 import { limitsFor } from "../harness/verify/limits.js";
 import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
 
@@ -151,5 +152,15 @@ describe("the checks catch wrong builds", () => {
     const r = runSuite(spec("time-of-flight"), m);
     expect(r.verdict).toBe("fail");
     expect(r.metrics.find((x) => x.output === "tof")!.worst!.want).toBeLessThan(0);
+  });
+
+  it("the first error code (FIRST_ERROR, the lowest failure) on one case fails the suite: it is not a success", () => {
+    let n = 0;
+    const first = FIRST_ERROR;
+    expect(statusWord(first)).not.toMatch(/^ok/);
+    const m = mutant(release(), (name, _a, _o, st) => (name === "kepler_parabolic" && n++ === 5 ? first : st));
+    const r = runSuite(spec("kepler-parabolic"), m);
+    expect(r.verdict).toBe("fail");
+    expect(r.statusFailures).toBe(1);
   });
 });
