@@ -12,7 +12,8 @@
 //  3. Ellipse (alpha > 0): whole revolutions are removed first, dt' = dt - k T with T = 2 pi / n,
 //     n = sqrt(mu alpha^3), k = nearest(dt / T), so |dt'| <= T / 2 and the eccentric-anomaly change is below
 //     pi + 2 (the reduction adds about one ulp of dt; the rounding of T adds k ulp of T, both far below the
-//     error target, which grows with the revolutions).
+//     error target, which grows with the revolutions). When one ulp of dt exceeds PHASE_ULP_MAX T the angle is
+//     lost: ERR_OVERFLOW.
 //  4. Bracket: the universal Kepler function F(chi) = r0 U1 + sigma0 U2 + U3 - sqrt(mu) dt' is increasing with
 //     F' = r >= r_p, so the root lies between 0 and sqrt(mu) dt' / r_p (r_p = p / (1 + e), taken RP_SAFETY
 //     smaller); for the ellipse also |chi| <= CHI_TURN / sqrt(alpha) (|delta E| <= pi + 2).
@@ -90,7 +91,7 @@
 
 import { OK, ERR_NOT_CONVERGED, ERR_NONFINITE, ERR_OVERFLOW, FIRST_ERROR } from "./status";
 import { put, got } from "./io";
-import { IS_F32 } from "./real";
+import { IS_F32, EPS } from "./real";
 import { MIN_NORMAL, checkState, sR, sV2, sRV, sH } from "./invariants";
 import { stumpff, C0, C1, C2, C3 } from "./stumpff";
 import { kepler_elliptic } from "./kepler_elliptic";
@@ -123,6 +124,13 @@ const THIRD: real = <real>0.3333333333333333;
 /** Largest relative residual of the universal Kepler equation accepted at the final chi (2^-20). */
 const RESIDUAL_REL: real = <real>9.5367431640625e-7;
 const MAX_REAL: real = IS_F32 ? <real>3.4028234663852886e38 : <real>1.7976931348623157e308;
+/**
+ * Step 3 guard: the reduction dt - k T keeps a usable angle only while one ulp of dt (bounded by |dt| EPS) is at
+ * most this fraction of the period, 2^-10 (an angle of 2 pi / 1024, about 0.006 rad); beyond it the time no longer
+ * says where on the orbit the body is (a circular orbit with T = 2 pi and dt >= 1e17 returned the initial state
+ * with status ok): ERR_OVERFLOW, "too large to keep its precision". The fraction is common practice, not measured.
+ */
+const PHASE_ULP_MAX: real = <real>0.0009765625;
 
 /** Propagate (r0, v0) by dt under mu. Slots 0..5 = r, v; slot 6 = iterations. */
 export function propagate(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real): i32 {
@@ -140,7 +148,10 @@ export function propagate(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, 
   let dtr = dt;
   if (alpha > 0) {
     const T = TWO_PI / (sqmu * alpha * RMath.sqrt(alpha));
-    if (isFinite(T) && abs(dt) > <real>0.5 * T) dtr = dt - nearest(dt / T) * T;
+    if (isFinite(T) && abs(dt) > <real>0.5 * T) {
+      if (abs(dt) * EPS > PHASE_ULP_MAX * T) return ERR_OVERFLOW; // dt no longer says where on the orbit
+      dtr = dt - nearest(dt / T) * T;
+    }
   }
   // The anchor state (a, b) the solution is expanded about: (r0, v0), or periapsis after step 7.
   let ax = r0x, ay = r0y, az = r0z, bx = v0x, by = v0y, bz = v0z;

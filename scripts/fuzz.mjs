@@ -3,14 +3,19 @@
 // is tests/fuzz-kernels.test.ts). Each kernel runs in a worker thread; before every call the worker publishes the
 // call's arguments to shared memory, and a watchdog ends a worker whose call has not returned within
 // --hang-seconds, printing those arguments: that is the "no hang" check (every loop in a kernel is bounded).
+// Then the hostile phase: every module of tests/fixtures/hostile/modules.ts (loops forever, a start function
+// that loops forever, grows its memory, ok with NaN or Infinity, status 99, a bad iteration count, a wrong
+// signature) through `areal eval --module` with a short --call-limit, and generated hostile numbers (cells
+// that underflow or overflow on parsing, long digit strings, signed zeros, subnormals, inf/nan words) through
+// `areal eval`: no run may hang, pass a violation with exit 0, or leave a temporary file.
 // Then, when `areal eval` streams its input (harness/stream.ts), a 1 GB input is run through it and the peak
 // memory (maximum resident set size) measured.
 //
 //   node scripts/fuzz.mjs [--runs N] [--seed S] [--builds f64,f32,debug] [--only export,...] [--hang-seconds 30]
-//                         [--big-mb 1024 | --no-big]
+//                         [--big-mb 1024 | --no-big] [--no-hostile]
 // Runs from dist/ (npm run fuzz builds first). Exit 1 on any failure or hang.
 import { Worker, isMainThread, parentPort, workerData } from "node:worker_threads";
-import { readFileSync, existsSync, mkdtempSync, rmSync, createWriteStream, statSync, openSync, readSync, closeSync } from "node:fs";
+import { readFileSync, existsSync, mkdtempSync, rmSync, createWriteStream, statSync, openSync, readSync, closeSync, writeFileSync, readdirSync } from "node:fs";
 import { spawnSync } from "node:child_process";
 import { availableParallelism, tmpdir } from "node:os";
 import { dirname, join } from "node:path";
@@ -46,6 +51,7 @@ async function main() {
       "hang-seconds": { type: "string", default: "30" },
       "big-mb": { type: "string", default: "1024" },
       "no-big": { type: "boolean", default: false },
+      "no-hostile": { type: "boolean", default: false },
     },
   });
   const runs = Number(values.runs);
@@ -83,6 +89,7 @@ async function main() {
   }));
   const bad = results.filter((r) => r.failure || r.hang || r.error);
   let bigOk = true;
+  if (!values["no-hostile"]) bigOk = (await hostile(seed)) && bigOk;
   if (!values["no-big"]) bigOk = await bigInput(Number(values["big-mb"]));
   process.stdout.write(`\n${results.length - bad.length} of ${results.length} kernel/build pairs passed ${runs} cases (seed ${seed}).\n`);
   process.exitCode = bad.length === 0 && bigOk ? 0 : 1;
@@ -156,6 +163,66 @@ async function bigInput(mb) {
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
+}
+
+/**
+ * The hostile phase: each hostile module through `areal eval --module` (the expected outcome beside it), then
+ * `count` generated rows of hostile numbers. A run that hangs (no exit within 60 s), exits 0 where the ABI or
+ * the input was broken, or leaves a temporary file fails.
+ */
+async function hostile(seed, count = 2000) {
+  const { HOSTILE } = await import(pathToFileURL(join(root, "dist", "tests", "fixtures", "hostile", "modules.js")).href);
+  const dir = mkdtempSync(join(tmpdir(), "areal-hostile-fuzz-"));
+  let ok = true;
+  const run = (args) => spawnSync(process.execPath, [join(root, "bin", "areal.mjs"), ...args], { cwd: dir, encoding: "utf8", timeout: 60_000 });
+  const verdict = (name, good, r, want) => {
+    const leftovers = readdirSync(dir).filter((f) => f.endsWith(".tmp"));
+    const pass = good && r.signal === null && leftovers.length === 0;
+    ok &&= pass;
+    process.stdout.write(`${(pass ? "ok" : "FAIL").padEnd(5)} hostile ${name.padEnd(30)} exit ${r.status ?? r.signal} (want ${want})${pass ? "" : `\n  ${(r.stderr ?? "").trim().split("\n").pop()}`}\n`);
+  };
+  try {
+    const input = join(dir, "cases.csv");
+    writeFileSync(input, "e,M\n0.1,1\n0.5,2\n");
+    process.stdout.write("\n");
+    for (const [name, h] of Object.entries(HOSTILE)) {
+      const m = join(dir, `${name}.wasm`);
+      writeFileSync(m, h.bytes());
+      const limit = name.includes("forever") ? ["--call-limit", "0.5"] : [];
+      const r = run(["eval", "kepler-elliptic", "-i", input, "-o", join(dir, "out.csv"), "--module", m, ...limit]);
+      if (name === "grows-memory") verdict(name, r.status === 0 && readFileSync(join(dir, "out.csv"), "utf8").includes("0.1,1,0.5,2,ok"), r, "0, outputs read");
+      else verdict(name, r.status === 2 && !existsSync(join(dir, "out.csv")), r, "2, no output");
+      rmSync(join(dir, "out.csv"), { force: true });
+    }
+    // Hostile numbers: each row has one generated cell; a cell that loses its meaning must be an input error.
+    let x = seed >>> 0 || 1;
+    const rnd = () => ((x = (Math.imul(x, 1103515245) + 12345) >>> 0) / 2 ** 32);
+    const cells = [];
+    for (let i = 0; i < count; i++) {
+      const exp = Math.floor(rnd() * 1400) - 700;
+      const forms = [`${(rnd() * 10).toFixed(3)}e${exp}`, `-0`, `0e${exp}`, `${"9".repeat(1 + Math.floor(rnd() * 400))}`, `0.${"0".repeat(Math.floor(rnd() * 400))}1`, "inf", "-nan", "5e-324", "2.4703282292062328e-324"];
+      cells.push(forms[Math.floor(rnd() * forms.length)]);
+    }
+    let lost = 0;
+    for (const c of cells) {
+      const v = Number(c === "inf" ? "Infinity" : c === "-nan" ? "NaN" : c);
+      const losing = (v === 0 && /[1-9]/.test(c.split(/e/i)[0])) || (!Number.isFinite(v) && /^[+-]?\d/.test(c));
+      if (!losing) continue;
+      lost++;
+      writeFileSync(input, `e,M\n0.1,1\n0.1,${c}\n`);
+      const r = run(["eval", "kepler-elliptic", "-i", input]);
+      if (r.status !== 2 || !/cases\.csv:3: column 'M' .*(underflows|overflows).*\(column 2\)/.test(r.stderr)) {
+        verdict(`number ${c.slice(0, 24)}`, false, r, "2, line and column named");
+        break;
+      }
+    }
+    writeFileSync(input, ["e,M", ...cells.map((c) => `0.1,${c}`)].join("\n") + "\n");
+    const r = run(["eval", "kepler-elliptic", "-i", input, "-o", join(dir, "out.csv")]);
+    verdict(`${count} generated numbers (${lost} lose meaning)`, lost > 0 ? r.status === 2 : r.status === 0, r, lost > 0 ? "2" : "0");
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+  return ok;
 }
 
 /** Write a CSV of about `bytes` bytes (e, M rows from a fixed linear congruential sequence); returns the rows. */

@@ -7,6 +7,7 @@ import { existsSync, statSync } from "node:fs";
 import { delimiter, join } from "node:path";
 import { ROOT } from "../harness/core/paths.js";
 import { nativeUnavailable } from "../harness/module/builds.js";
+import { fileURLToPath } from "node:url";
 
 const TYPE: Record<string, number> = { i32: 0x7f, i64: 0x7e, f32: 0x7d, f64: 0x7c };
 
@@ -91,10 +92,10 @@ export function onPath(exe: string): boolean {
   });
 }
 
-/** Why the native toolchain is absent (undefined when wasm2c and a C compiler are on PATH). */
+/** Why the native toolchain is absent (undefined when the npm package wasm2c and a C compiler are here). */
 export function nativeToolchainMissing(): string | undefined {
-  if (!onPath("wasm2c")) return "wasm2c is not on PATH (install the 'wabt' package)";
-  if (!onPath("cc") && !onPath("gcc") && !onPath("clang") && !process.env.CC) return "no C compiler on PATH";
+  if (!existsSync(join(fileURLToPath(new URL("..", import.meta.url)), "node_modules", "wasm2c", "wasm2c.js"))) return "the npm package wasm2c is not installed (npm install)";
+  if (!onPath("cc") && !onPath("gcc") && !onPath("clang") && !process.env.CC) return "no C compiler on PATH (apt-get install gcc)";
   return undefined;
 }
 

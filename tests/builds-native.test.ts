@@ -1,8 +1,8 @@
 /**
  * The release module must give the same bits everywhere it runs: under the engine's baseline compiler and its
  * optimizing compiler (child node processes with the tier forced), and as native code (wasm2c + the C compiler,
- * -ffp-contract=off). Checked on every vector case of every suite. Also: the build is reproducible, and the
- * native runner's own CSV mode writes the same text as `areal eval`.
+ * -ffp-contract=off, loaded in-process as a shared library). Checked on every vector case of every suite. Also:
+ * the build is reproducible, and `eval` through the native build writes the same text as through the module.
  */
 import { describe, it, expect, beforeAll } from "vitest";
 import { execFile, execFileSync, spawnSync } from "node:child_process";
@@ -13,9 +13,9 @@ import { join } from "node:path";
 import { ROOT } from "../harness/core/paths.js";
 import { SPECS } from "../harness/verify/specs/index.js";
 import { compareBuilds, type CompareBuild } from "../harness/verify/compare-builds.js";
-import { closeNative, NATIVE_EXE } from "../harness/module/builds.js";
+import { nativeUnavailable, closeNative, loadNative } from "../harness/module/builds.js";
 import { readVectors, vectorPath } from "../harness/verify/vectors.js";
-import { evaluateCsv } from "../harness/run/evaluate.js";
+import { evaluateCsv, evaluateFile } from "../harness/run/evaluate.js";
 import { findRoutine } from "../harness/module/routines.js";
 import { loadBuild } from "../harness/module/load.js";
 import { formatCsv } from "../harness/core/csv.js";
@@ -57,8 +57,8 @@ describe("bit-identity of the release module across engine tiers and the native 
   });
 });
 
-describe("the native runner", () => {
-  it.skipIf(nativeToolchainMissing() !== undefined && !REQUIRE_NATIVE)("reads the CSV `areal eval` reads and writes the same text", () => {
+describe("eval through the native build", () => {
+  it.skipIf(nativeToolchainMissing() !== undefined && !REQUIRE_NATIVE)("writes the same text as the release module, in one thread and with worker threads", async () => {
     if (nativeWhy) return; // reported in beforeAll
     const v = readVectors(vectorPath("kepler-elliptic"));
     const rows = v.values.filter((_, i) => i % 7 === 0).map((r) => [r[0]!, r[1]!]);
@@ -67,10 +67,13 @@ describe("the native runner", () => {
     try {
       const file = join(dir, "cases.csv");
       writeFileSync(file, csv);
-      const native = execFileSync(NATIVE_EXE, ["eval", "kepler-elliptic", file], { encoding: "utf8", maxBuffer: 1 << 28 });
       const wasm = evaluateCsv(findRoutine("kepler-elliptic")!, readFileSync(file, "utf8"), file, loadBuild("f64")).csv;
-      expect(native.split("\n").length).toBe(rows.length + 2);
+      const native = evaluateCsv(findRoutine("kepler-elliptic")!, readFileSync(file, "utf8"), file, loadNative()).csv;
+      expect(wasm.split("\n").length).toBe(rows.length + 2);
       expect(native).toBe(wasm);
+      // Two worker threads, each with its own copy of the library (its output region is static storage).
+      await evaluateFile(findRoutine("kepler-elliptic")!, file, file, { workers: 2, load: { build: "native" }, kernels: loadNative(), out: join(dir, "n.csv"), chunkBytes: 4096 });
+      expect(readFileSync(join(dir, "n.csv"), "utf8")).toBe(wasm);
     } finally {
       rmSync(dir, { recursive: true, force: true });
     }

@@ -1,27 +1,44 @@
 /** What several commands share: choosing the module, naming a routine, dates, the lazily loaded report writer. */
 import { ROUTINES, findRoutine, type Routine } from "../module/routines.js";
-import { loadFile, type Kernels } from "../module/load.js";
-import { loadNamedBuild, type BuildName } from "../module/builds.js";
+import type { Kernels } from "../module/load.js";
+import { loadModule, loadNamedBuild, type BuildName } from "../module/builds.js";
+import { parseCallLimit } from "../module/bounded.js";
+import { loadLibrary } from "../module/library.js";
 import type { KernelSource } from "../core/pool.js";
 import { runSuite, type SuiteResult } from "../verify/check.js";
 import { SPECS } from "../verify/specs/index.js";
 import { selectSpecs } from "../verify/generate.js";
 import { UsageError, unknownName } from "./options.js";
 
-/** The kernels a command runs: `--module FILE` or `--build NAME` (default f64), not both. */
+/** `--call-limit SECONDS` (default 10): the time limit of each call into a `--module`. */
+export function callLimit(values: Record<string, unknown>): number {
+  return parseCallLimit(values["call-limit"] as string | undefined);
+}
+
+/**
+ * The kernels a command runs: `--module FILE`, `--library FILE.so` or `--build NAME` (default f64), one of
+ * them. A module is checked against the ABI's signatures and runs with every call bounded (module/bounded.ts);
+ * a library runs in a child process (module/library.ts); builds run directly.
+ */
 export function loadKernels(values: Record<string, unknown>): Kernels {
   const mod = values.module as string | undefined;
+  const lib = values.library as string | undefined;
+  if (lib !== undefined) {
+    if (mod !== undefined || values.build !== undefined) throw new UsageError("--library excludes --module and --build");
+    return loadLibrary(lib).kernels;
+  }
   if (mod !== undefined) {
     if (values.build !== undefined) throw new UsageError("--module and --build exclude each other");
-    return loadFile(mod);
+    return loadModule(mod, callLimit(values)).kernels;
   }
+  if (values["call-limit"] !== undefined) throw new UsageError("--call-limit applies to --module only");
   return loadNamedBuild(((values.build as string | undefined) ?? "f64") as BuildName);
 }
 
 /** Which module worker threads load: the same as loadKernels. */
 export function kernelSource(values: Record<string, unknown>): KernelSource {
   const mod = values.module as string | undefined;
-  return mod !== undefined ? { module: mod } : { build: (values.build as string | undefined) ?? "f64" };
+  return mod !== undefined ? { module: mod, callLimit: callLimit(values) } : { build: (values.build as string | undefined) ?? "f64" };
 }
 
 /** The routine named by a command's first positional, with "did you mean" for a typo. */

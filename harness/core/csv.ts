@@ -73,9 +73,28 @@ export function numberAt(t: Table, source: string, r: number, c: number): number
   const cell = t.rows[r]![c]!;
   const v = parseNumber(cell);
   if (v === undefined) {
-    throw new CsvError(`${source}:${t.lines[r]}: column '${t.columns[c]}' holds '${cell}', which is not a number`);
+    throw new CsvError(`${source}:${t.lines[r]}: column '${t.columns[c]}' holds '${cell}', which is not a number (column ${c + 1})`);
   }
+  const lost = lostOnParse(cell, v);
+  if (lost) throw new CsvError(`${source}:${t.lines[r]}: column '${t.columns[c]}' holds '${cell}', which ${lost} (column ${c + 1})`);
   return v;
+}
+
+/**
+ * Why a decimal cell lost its meaning on parsing, or undefined: a number written with a non-zero digit that
+ * rounds to 0 (below the smallest subnormal, about 4.9e-324), or a finite decimal that rounds to infinity
+ * (above about 1.8e308). A literal 0, and inf or nan spelled as such, are what they say.
+ */
+export function lostOnParse(cell: string, v: number): string | undefined {
+  const t = cell.trim();
+  if (/^0x/i.test(t)) return undefined; // bit patterns are exact
+  if (v === 0) {
+    const mantissa = t.split(/[eE]/)[0]!;
+    if (/[1-9]/.test(mantissa)) return "underflows to 0 in double precision (its magnitude is below 4.9e-324)";
+  } else if (!Number.isFinite(v) && /^[+-]?(\d|\.\d)/.test(t)) {
+    return "overflows to infinity in double precision (its magnitude is above 1.8e308)";
+  }
+  return undefined;
 }
 
 /** Format one cell: shortest round-trip decimal for numbers, text as is. */

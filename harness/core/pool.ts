@@ -15,6 +15,8 @@ import { ROOT } from "./paths.js";
 export interface KernelSource {
   readonly build?: string;
   readonly module?: string;
+  /** Time limit of each call into `module`, in seconds. */
+  readonly callLimit?: number;
 }
 
 /** What a worker is set up to do; it then takes jobs of the matching kind. */

@@ -5,7 +5,7 @@
  * checked with parseCsv's rules and messages).
  */
 import { openSync, readSync, closeSync, fstatSync } from "node:fs";
-import { parseCsv } from "./csv.js";
+import { parseCsv, CsvError } from "./csv.js";
 
 /**
  * Default chunk size (the unit of work of a worker): 64 KB. Measured on the 2-core reference machine, a
@@ -16,8 +16,25 @@ import { parseCsv } from "./csv.js";
 export const CHUNK_BYTES = 1 << 16;
 /** Bytes per read from the file: several chunks, to keep system calls few. */
 const READ_BYTES = 1 << 20;
-/** Bytes read past a range's end to find the LF that ends its last line. */
+/** Bytes read past a range's end to find the LF that ends its last line (doubling while none is found). */
 const READ_AHEAD = 4096;
+/**
+ * The longest line (header, comment or row) accepted: 1 MiB. A row of numbers needs about 25 bytes a cell; a
+ * longer line is not a CSV of cases (a binary file, a file with no line ends), and bounding it bounds the memory
+ * and time spent looking for its end.
+ */
+export const MAX_LINE_BYTES = 1 << 20;
+
+/** A line longer than MAX_LINE_BYTES, found at byte `offset` of the file (the reader does not count lines). */
+export class LineTooLong extends CsvError {
+  constructor(readonly source: string, readonly offset: number) {
+    super(`${source}: a line starting at byte ${offset} is longer than the limit of ${MAX_LINE_BYTES} bytes (no line end within it: is this a CSV file?)`);
+  }
+  /** The message naming the line, when the caller knows its number. */
+  atLine(line: number): CsvError {
+    return new CsvError(`${this.source}:${line}: line ${line} is longer than the limit of ${MAX_LINE_BYTES} bytes (no line end within it: is this a CSV file?)`);
+  }
+}
 
 const LF = 0x0a;
 
@@ -40,8 +57,17 @@ export class CsvFileStream {
   bytesRead = 0;
 
   constructor(path: string, private readonly source: string, private readonly chunkBytes = CHUNK_BYTES) {
-    this.fd = openSync(path, "r");
-    this.size = fstatSync(this.fd).size;
+    try {
+      this.fd = openSync(path, "r");
+      const st = fstatSync(this.fd);
+      if (st.isDirectory()) {
+        closeSync(this.fd);
+        throw Object.assign(new Error("is a folder"), { code: "EISDIR" });
+      }
+      this.size = st.size;
+    } catch (err) {
+      throw cannotRead(source, err);
+    }
   }
 
   /** Read more of the file into `pending` (READ_BYTES at a time, or a chunk if larger); false at the end of the file. */
@@ -68,6 +94,7 @@ export class CsvFileStream {
     for (;;) {
       const lf = this.pending.indexOf(LF, scanned);
       if (lf < 0) {
+        if (this.pending.length - scanned > MAX_LINE_BYTES) throw new LineTooLong(this.source, this.bytesRead - this.pending.length + scanned).atLine(line);
         if (this.fill()) continue;
         // No line end left: the rest, if any, is the header as the last line; parseCsv throws when there is none.
         const t = parseCsv(this.pending.toString("utf8"), this.source);
@@ -95,6 +122,7 @@ export class CsvFileStream {
       if (this.pending.length >= this.chunkBytes || this.eof) {
         let lf = this.pending.lastIndexOf(LF, this.chunkBytes - 1);
         if (lf < 0) lf = this.pending.indexOf(LF, this.chunkBytes); // a line longer than a chunk
+        if (lf < 0 && this.pending.length > MAX_LINE_BYTES) throw new LineTooLong(this.source, this.position);
         if (lf >= 0) {
           const out = new Uint8Array(this.pending.subarray(0, lf + 1));
           this.pending = this.pending.subarray(lf + 1);
@@ -107,6 +135,7 @@ export class CsvFileStream {
           return out;
         }
       }
+      if (!this.eof && this.pending.length > MAX_LINE_BYTES && this.pending.indexOf(LF) < 0) throw new LineTooLong(this.source, this.position);
       this.fill(); // at the end of the file this sets eof, and the loop above finishes
     }
   }
@@ -137,19 +166,22 @@ export interface OwnedLines {
  * or right after a LF. Ranges that tile [first, size) give line runs that tile it too, so eval workers can each
  * read their own ranges of the file and the outputs, joined in range order, are those of one sequential pass.
  */
-export function readOwnedLines(path: string, first: number, size: number, start: number, end: number): OwnedLines {
+export function readOwnedLines(path: string, first: number, size: number, start: number, end: number, source = path): OwnedLines {
   const fd = openSync(path, "r");
   try {
     const lo = Math.max(first, start - 1);
     let buf = Buffer.allocUnsafe(0);
     let have = lo; // buf holds the file's bytes [lo, have)
     // Read until `buf` holds a LF at or after file offset `from`, or the end of the file; the LF's offset or -1.
+    // Each read is at least as large as what is held, so the copies add up to a multiple of the bytes read
+    // (linear in the line length); a line longer than MAX_LINE_BYTES is an error.
     const lfFrom = (from: number): number => {
       for (;;) {
         const i = buf.indexOf(LF, Math.max(0, from - lo));
         if (i >= 0) return lo + i;
         if (have >= size) return -1;
-        const more = Buffer.allocUnsafe(Math.max(READ_AHEAD, end - have + READ_AHEAD));
+        if (have - Math.max(from, lo) > MAX_LINE_BYTES) throw new LineTooLong(source, Math.max(from, lo));
+        const more = Buffer.allocUnsafe(Math.max(READ_AHEAD, end - have + READ_AHEAD, buf.length));
         const n = readSync(fd, more, 0, more.length, have);
         if (n === 0) return -1;
         buf = buf.length === 0 ? more.subarray(0, n) : Buffer.concat([buf, more.subarray(0, n)]);
@@ -177,4 +209,10 @@ export function readOwnedLines(path: string, first: number, size: number, start:
 export function isSkippedBeforeHeader(line: string): boolean {
   const l = line.endsWith("\r") ? line.slice(0, -1) : line;
   return l.startsWith("#") || l.trim() === "";
+}
+
+/** The error for a file that could not be read: its name, the system's code and first words. */
+export function cannotRead(source: string, err: unknown): CsvError {
+  const e = err as NodeJS.ErrnoException;
+  return new CsvError(`cannot read ${source}: ${e.code ? `${e.code} (${e.message.split(",")[0]})` : e.message}`);
 }

@@ -23,12 +23,17 @@ export interface Kernels {
    * valid until the next call.
    */
   call(name: string, args: readonly number[]): number;
-  /** The output region, as reals of the module's precision. */
+  /**
+   * The output region, as reals of the module's precision. Read it after a call: a module that grows its
+   * memory during a call gets a new buffer, and the view is taken again after every call that did.
+   */
   readonly out: Float64Array | Float32Array;
   /** The module's linear memory (for the no-allocation checks). */
   readonly memory: WebAssembly.Memory;
   /** The raw exports. */
   readonly exports: WebAssembly.Exports;
+  /** Release what the module holds (a worker thread for a bounded module); nothing for the others. */
+  close?(): void;
 }
 
 export class ModuleError extends Error {}
@@ -71,7 +76,8 @@ export function instantiate(bytes: Uint8Array<ArrayBuffer>, label: string): Kern
   if (!Number.isInteger(base) || base < 0 || base % realBytes !== 0 || base + 64 * realBytes > memory.buffer.byteLength) {
     throw new ModuleError(`${label}: areal_out() returned ${base}, not an aligned address with 64 slots inside memory`);
   }
-  const out = realBytes === 8 ? new Float64Array(memory.buffer, base, 64) : new Float32Array(memory.buffer, base, 64);
+  const view = (): Float64Array | Float32Array => (realBytes === 8 ? new Float64Array(memory.buffer, base, 64) : new Float32Array(memory.buffer, base, 64));
+  let out = view();
   const fns = new Map<string, (...a: number[]) => number>();
   for (const [k, v] of Object.entries(ex)) if (typeof v === "function") fns.set(k, v as (...a: number[]) => number);
   const exportNames = [...fns.keys()];
@@ -79,7 +85,9 @@ export function instantiate(bytes: Uint8Array<ArrayBuffer>, label: string): Kern
     label,
     realBytes,
     exportNames,
-    out,
+    get out() {
+      return out;
+    },
     memory,
     exports: ex,
     has: (name) => fns.has(name),
@@ -88,7 +96,10 @@ export function instantiate(bytes: Uint8Array<ArrayBuffer>, label: string): Kern
       const fn = fns.get(name);
       if (!fn) throw new ModuleError(`${label}: no export named ${name}`);
       try {
-        return fn(...args);
+        const st = fn(...args);
+        // memory.grow detaches the old buffer: the outputs are in the new one (docs/abi.md allows growing).
+        if (out.buffer !== memory.buffer) out = view();
+        return st;
       } catch (err) {
         if (err instanceof WebAssembly.RuntimeError) {
           throw new ModuleError(`${label}: the kernel module trapped in ${name}(${args.join(", ")}) (${err.message}); the module is faulty, nothing was written`);

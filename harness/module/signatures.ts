@@ -216,7 +216,29 @@ export function checkCore(sigs: ReadonlyMap<string, ExportInfo>, label: string):
   }
 }
 
-/** What `areal check --module` does with each suite. */
+/**
+ * Check the core exports and every kernel export the routine table knows (whether or not a command uses it):
+ * a wrong signature means the module and the harness disagree about the ABI. Every command that takes
+ * `--module` calls this before any call, so the message is the same everywhere. Throws AbiError naming the
+ * module, the export, what it has and what the ABI asks for.
+ */
+export function checkKernelSignatures(sigs: ReadonlyMap<string, ExportInfo>, realBytes: 4 | 8, routines: readonly Routine[], label: string): void {
+  checkCore(sigs, label);
+  const real = realBytes === 8 ? "f64" : "f32";
+  for (const [name, { routine, inputs }] of kernelExports(routines)) {
+    const e = sigs.get(name);
+    if (!e) continue;
+    const want = kernelSignature(inputs, real);
+    if (e.kind !== "function" || !e.signature) {
+      throw new AbiError(`${label}: export ${name} is a ${e.kind}; the ABI needs a function ${formatSignature(want)} (routine ${routine.name}, docs/abi.md)`);
+    }
+    if (!sameSignature(e.signature, want)) {
+      const names = inputs.map((i) => `${i.name}: ${paramType(i, real)}`).join(", ");
+      throw new AbiError(`${label}: export ${name} has signature ${formatSignature(e.signature)}; the ABI needs ${formatSignature(want)}, that is ${name}(${names}) -> status: i32 with ${real} reals (areal_real_bytes() = ${realBytes}; routine ${routine.name}, docs/abi.md)`);
+    }
+  }
+}
+
 /** What the plan needs of a suite (a VectorSpec has more). */
 export interface SuiteRef {
   readonly suite: string;
@@ -235,20 +257,7 @@ export interface ModulePlan<S extends SuiteRef = SuiteRef> {
  * suite uses it: a wrong signature means the module and the harness disagree about the ABI.
  */
 export function planModule<S extends SuiteRef>(sigs: ReadonlyMap<string, ExportInfo>, realBytes: 4 | 8, specs: readonly S[], routines: readonly Routine[], label: string): ModulePlan<S> {
-  checkCore(sigs, label);
-  const real = realBytes === 8 ? "f64" : "f32";
-  for (const [name, { routine, inputs }] of kernelExports(routines)) {
-    const e = sigs.get(name);
-    if (!e) continue;
-    const want = kernelSignature(inputs, real);
-    if (e.kind !== "function" || !e.signature) {
-      throw new AbiError(`${label}: export ${name} is a ${e.kind}; the ABI needs a function ${formatSignature(want)} (routine ${routine.name}, docs/abi.md)`);
-    }
-    if (!sameSignature(e.signature, want)) {
-      const names = inputs.map((i) => `${i.name}: ${paramType(i, real)}`).join(", ");
-      throw new AbiError(`${label}: export ${name} has signature ${formatSignature(e.signature)}; the ABI needs ${formatSignature(want)}, that is ${name}(${names}) -> status: i32 with ${real} reals (areal_real_bytes() = ${realBytes}; routine ${routine.name}, docs/abi.md)`);
-    }
-  }
+  checkKernelSignatures(sigs, realBytes, routines, label);
   const run: S[] = [];
   const skipped: { suite: string; missing: string[] }[] = [];
   for (const s of specs) {

@@ -25,3 +25,26 @@ export function isOk(code: number): boolean {
 export function isKnownStatus(code: number): boolean {
   return ABI_TABLE.statuses.some((s) => s.code === code);
 }
+
+const KNOWN = new Set(ABI_TABLE.statuses.map((s) => s.code));
+
+/**
+ * What docs/abi.md forbids in one call's result, in words, or undefined when the result keeps the ABI: a
+ * status code the ABI does not define; a success with a non-finite output among `outputs` (slot i is
+ * outputs[i]); a success whose `iterations` output is not a whole number >= 0.
+ */
+export function abiViolation(status: number, out: ArrayLike<number>, outputs: readonly string[]): string | undefined {
+  if (!KNOWN.has(status)) return `returned status ${status}, which the ABI does not define`;
+  if (!isOk(status)) return undefined;
+  for (let i = 0; i < outputs.length; i++) {
+    const v = out[i]!;
+    if (!Number.isFinite(v)) return `returned ${statusWord(status)} with output ${outputs[i]} = ${v}; a success has finite outputs`;
+    if (outputs[i] === "iterations" && (!Number.isInteger(v) || v < 0)) return `returned ${statusWord(status)} with iterations = ${v}, not a whole number >= 0`;
+  }
+  return undefined;
+}
+
+/** The message of an ABI violation: the module, the call with its inputs, what was wrong. */
+export function abiViolationMessage(label: string, exportName: string, args: readonly number[], what: string): string {
+  return `${label}: ABI violation: ${exportName}(${args.join(", ")}) ${what} (docs/abi.md, "Kernel calls")`;
+}

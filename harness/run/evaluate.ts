@@ -5,16 +5,18 @@
  * once; `evaluateFile` streams a file of any size in chunks (stream.ts) through worker threads (workers.ts)
  * into a temporary file renamed at the end, with the same bytes for any number of workers.
  */
-import { closeSync, mkdirSync, mkdtempSync, openSync, renameSync, rmSync, writeSync, createReadStream } from "node:fs";
+import { closeSync, mkdtempSync, openSync, renameSync, rmSync, writeSync, createReadStream } from "node:fs";
 import { tmpdir } from "node:os";
 import { basename, dirname, join } from "node:path";
-import { parseCsv, CsvError, cell } from "../core/csv.js";
+import { parseCsv, CsvError, cell, lostOnParse } from "../core/csv.js";
 import { parseNumber } from "../core/float.js";
-import { cannotWrite as cannotWriteFile } from "../core/atomic.js";
+import { cannotWrite as cannotWriteFile, makeDirs, outputIsInput } from "../core/atomic.js";
+import { removeOnSignal } from "../core/cleanup.js";
 import type { Routine, InputSpec } from "../module/routines.js";
 import type { Kernels } from "../module/load.js";
-import { statusWord, isOk } from "../module/status.js";
-import { CsvFileStream, CHUNK_BYTES, readOwnedLines, isSkippedBeforeHeader } from "../core/stream.js";
+import { statusWord, isOk, abiViolation, abiViolationMessage } from "../module/status.js";
+import { ModuleError } from "../module/load.js";
+import { CsvFileStream, CHUNK_BYTES, readOwnedLines, isSkippedBeforeHeader, LineTooLong, MAX_LINE_BYTES } from "../core/stream.js";
 import { WorkerPool, type KernelSource } from "../core/pool.js";
 
 export class EvalError extends Error {}
@@ -47,18 +49,23 @@ function planFor(routine: Routine, columns: readonly string[], source: string): 
   throw new EvalError(`${source}: missing column '${main}' (routine ${routine.name} needs ${need.join(",")})`);
 }
 
-/** The argument a cell gives (line `lineNo` of `source`, column `column`); throws a CsvError naming the place. */
-function cellValue(word: string, source: string, lineNo: number, column: string, s: InputSpec): number {
+/**
+ * The argument a cell gives (line `lineNo` of `source`, column `column`, number `colNo` from 1); throws a
+ * CsvError naming the place: not a number, a number that under- or overflows on parsing (lostOnParse), not an
+ * integer where one is needed, not one of an enumeration's words.
+ */
+function cellValue(word: string, source: string, lineNo: number, column: string, colNo: number, s: InputSpec): number {
   if (s.choices) {
     const v = s.choices[word];
     if (v !== undefined) return v;
     const asNum = Number(word);
     if (word !== "" && Object.values(s.choices).includes(asNum)) return asNum;
-    throw new CsvError(`${source}:${lineNo}: column '${s.name}' holds '${word}'; expected one of ${Object.keys(s.choices).join(", ")}`);
+    throw new CsvError(`${source}:${lineNo}: column '${s.name}' holds '${word}'; expected one of ${Object.keys(s.choices).join(", ")} (column ${colNo})`);
   }
   const v = parseNumber(word);
-  if (v === undefined) throw new CsvError(`${source}:${lineNo}: column '${column}' holds '${word}', which is not a number`);
-  if (s.integer && !Number.isInteger(v)) throw new CsvError(`${source}:${lineNo}: column '${s.name}' holds '${word}', which is not an integer`);
+  if (v === undefined) throw new CsvError(`${source}:${lineNo}: column '${column}' holds '${word}', which is not a number (column ${colNo})`);
+  if ((v === 0 || !Number.isFinite(v)) && lostOnParse(word, v)) throw new CsvError(`${source}:${lineNo}: column '${column}' holds '${word}', which ${lostOnParse(word, v)} (column ${colNo})`);
+  if (s.integer && !Number.isInteger(v)) throw new CsvError(`${source}:${lineNo}: column '${s.name}' holds '${word}', which is not an integer (column ${colNo})`);
   return v;
 }
 
@@ -137,22 +144,28 @@ export interface FileEvalOptions {
  * workers. Throws EvalError or CsvError with the same messages as `evaluateCsv`.
  */
 export async function evaluateFile(routine: Routine, path: string, source: string, opts: FileEvalOptions): Promise<{ rows: number; statuses: Record<string, number> }> {
+  const target = opts.out;
+  const same = target === undefined ? undefined : outputIsInput(target, [path]);
+  if (same !== undefined) throw new EvalError(`--out: ${same}`);
   const stream = new CsvFileStream(path, source, opts.chunkBytes);
   let fd = -1;
+  let forget = (): void => {};
   let tmp: string | undefined;
   let tmpDir: string | undefined;
   let pool: WorkerPool | undefined;
-  const target = opts.out;
+  let line = 0;
   const cannotWrite = (err: unknown): Error => cannotWriteFile(target ?? "stdout", err);
   try {
     const head = stream.head();
     const plan = prepareEval(routine, head.columns, source, opts.kernels);
     try {
       if (target !== undefined) {
-        mkdirSync(dirname(target), { recursive: true });
+        makeDirs(dirname(target));
         tmp = join(dirname(target), `.${basename(target)}.${process.pid}.tmp`);
+        forget = removeOnSignal(tmp);
       } else {
         tmpDir = mkdtempSync(join(tmpdir(), "areal-eval-"));
+        forget = removeOnSignal(tmpDir);
         tmp = join(tmpDir, "out.csv");
       }
       fd = openSync(tmp, "w");
@@ -167,7 +180,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
       }
     };
     write(Buffer.from(outputHeader(routine, head.columns) + "\n"));
-    let line = head.nextLine;
+    line = head.nextLine;
     let rows = 0;
     const statuses: Record<string, number> = {};
     const add = (n: number, st: Record<string, number>, done: number): void => {
@@ -184,7 +197,10 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
     };
     // A file of one chunk or less gains nothing from threads: it is run here (the bytes are the same).
     if (opts.workers <= 1 || stream.size <= (opts.chunkBytes ?? CHUNK_BYTES)) {
-      for (let c = stream.nextChunk(); c !== undefined; c = stream.nextChunk()) here(c);
+      for (let c = stream.nextChunk(); c !== undefined; c = stream.nextChunk()) {
+        here(c);
+        await turn(); // let an interrupt (cleanup.ts) be handled between chunks
+      }
     } else {
       // Each worker reads its own byte ranges of the file (readOwnedLines: the lines starting in the range), so
       // this thread only hands out ranges and writes the results, in range order.
@@ -222,12 +238,17 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
     }
     if (target === undefined) await copyToStdout(tmp);
     return { rows, statuses };
+  } catch (err) {
+    // The sequential reader knows the line; a worker's range only the byte offset.
+    if (err instanceof LineTooLong) throw line > 0 && opts.workers <= 1 ? err.atLine(line) : err;
+    throw err;
   } finally {
     stream.close();
     if (pool) await pool.close();
     if (fd >= 0) closeSync(fd);
     if (tmp !== undefined && target !== undefined) rmSync(tmp, { force: true });
     if (tmpDir !== undefined) rmSync(tmpDir, { recursive: true, force: true });
+    forget();
   }
 }
 
@@ -262,6 +283,11 @@ export function evalRange(routine: Routine, plan: Plan, init: { readonly columns
 }
 
 const ENCODER = new TextEncoder();
+
+/** One turn of the event loop. */
+function turn(): Promise<void> {
+  return new Promise((resolve) => setImmediate(resolve));
+}
 
 function utf8(chunk: Uint8Array): string {
   return Buffer.from(chunk.buffer, chunk.byteOffset, chunk.byteLength).toString("utf8");
@@ -302,6 +328,7 @@ export function evaluateLines(routine: Routine, plan: Plan, width: number, sourc
     const end = lf < 0 ? len : lf > pos && text.charCodeAt(lf - 1) === 13 ? lf - 1 : lf;
     const start = pos;
     pos = lf < 0 ? len : lf + 1;
+    if (end - start > MAX_LINE_BYTES) throw new CsvError(`${source}:${lineNo}: line ${lineNo} is longer than the limit of ${MAX_LINE_BYTES} bytes (no line end within it: is this a CSV file?)`);
     const c0 = text.charCodeAt(start);
     if (end > start && c0 === 35) continue; // '#': a comment
     if (end === start || !keptByTrim(c0)) {
@@ -328,7 +355,7 @@ export function evaluateLines(routine: Routine, plan: Plan, width: number, sourc
     for (let i = 0; i < na; i++) {
       const c = wanted[i]!;
       const spec = plan.specs[i]!;
-      args[rows * na + i] = c < 0 ? spec.default! : cellValue(cells[c]!, source, lineNo, spec.name, spec);
+      args[rows * na + i] = c < 0 ? spec.default! : cellValue(cells[c]!, source, lineNo, spec.name, c + 1, spec);
     }
     starts[rows] = start;
     ends[rows] = end;
@@ -344,6 +371,8 @@ export function evaluateLines(routine: Routine, plan: Plan, width: number, sourc
   for (let r = 0; r < rows; r++) {
     for (let i = 0; i < na; i++) a[i] = args[r * na + i]!;
     const st = k.call(plan.exportName, a);
+    const broken = abiViolation(st, k.out, routine.outputs);
+    if (broken !== undefined) throw new ModuleError(abiViolationMessage(k.label, plan.exportName, a, broken));
     const word = statusWord(st);
     statuses[word] = (statuses[word] ?? 0) + 1;
     let line = trimmed[r] ? text.slice(starts[r], ends[r]).split(",").map((c) => c.trim()).join(",") : text.slice(starts[r], ends[r]);

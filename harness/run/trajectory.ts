@@ -7,6 +7,7 @@
  *
  * The plan's fields are documented in docs/trajectory-plan.md.
  */
+import { parseJsonText } from "../core/json.js";
 import type { Kernels } from "../module/load.js";
 import { statusWord } from "../module/status.js";
 import { shortest } from "../core/float.js";
@@ -55,11 +56,7 @@ const KNOWN_FIELDS = new Set(["mission", "spacecraft", "object_id", "epoch", "ti
 /** Parse and check a trajectory plan. Errors name the file and the field. */
 export function parsePlan(text: string, source: string): Plan {
   let raw: unknown;
-  try {
-    raw = JSON.parse(text);
-  } catch (err) {
-    throw new PlanError(`${source}: not valid JSON (${(err as Error).message})`);
-  }
+  raw = parseJsonText(text, source, (m) => new PlanError(m));
   if (typeof raw !== "object" || raw === null || Array.isArray(raw)) throw new PlanError(`${source}: expected a JSON object`);
   const o = raw as Record<string, unknown>;
   const bad = (field: string, what: string): never => {

@@ -6,8 +6,7 @@
 import { parentPort } from "node:worker_threads";
 import type { FromWorker, JobResult, KernelSource, ToWorker, WorkerInit } from "../core/pool.js";
 import type { Kernels } from "../module/load.js";
-import { loadFile } from "../module/load.js";
-import { loadNamedBuild, isBuildName } from "../module/builds.js";
+import { loadModule, loadNamedBuild, isBuildName } from "../module/builds.js";
 import { findRoutine, type Routine } from "../module/routines.js";
 import { prepareEval, evalRange } from "./evaluate.js";
 import { runSuite } from "../verify/check.js";
@@ -17,7 +16,7 @@ import { sweepRange, type Grid } from "./sweep.js";
 type Handler = (job: unknown) => { value: unknown; transfer?: ArrayBuffer[] };
 
 function load(src: KernelSource): Kernels {
-  if (src.module !== undefined) return loadFile(src.module);
+  if (src.module !== undefined) return loadModule(src.module, src.callLimit).kernels;
   const b = src.build ?? "f64";
   if (!isBuildName(b)) throw new Error(`unknown build '${b}'`);
   return loadNamedBuild(b);

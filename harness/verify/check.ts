@@ -7,7 +7,7 @@ import { findRoutine, type Routine } from "../module/routines.js";
 import type { Kernels } from "../module/load.js";
 import { limitsFor, type Limits } from "./limits.js";
 import { ulpDistance, ulpDistance32 } from "../core/float.js";
-import { isOk, statusWord } from "../module/status.js";
+import { isOk, statusWord, abiViolation, abiViolationMessage } from "../module/status.js";
 import type { VectorSpec, Comparison } from "./specs/types.js";
 import { statSync } from "node:fs";
 import { WorkerPool, type KernelSource } from "../core/pool.js";
@@ -66,11 +66,11 @@ function argIndices(routine: Routine, v: VectorSet): number[] {
 }
 
 /** Run one suite against a loaded build. `rows` limits the run to some row indices (all by default). */
-export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly number[]; vectors?: VectorSet } = {}): SuiteResult {
+export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly number[]; vectors?: VectorSet; limits?: Limits } = {}): SuiteResult {
   const routine = findRoutine(spec.routine);
   if (!routine) throw new Error(`suite ${spec.suite}: unknown routine ${spec.routine}`);
   const v = opts.vectors ?? readVectors(vectorPath(spec.suite));
-  const limits = limitsFor(spec.suite, k.label === "f32" ? "f32" : "f64");
+  const limits = opts.limits ?? limitsFor(spec.suite, k.label === "f32" ? "f32" : "f64");
   const single = k.realBytes === 4;
   const argCols = argIndices(routine, v);
   const outIndex = new Map(routine.outputs.map((o, i) => [o, i]));
@@ -90,6 +90,8 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
   let iterSum = 0;
   let iterMax = 0;
   let statusFailures = 0;
+  let abiViolations = 0;
+  let firstViolation: string | undefined;
   let skipped = 0;
   let firstFail: SuiteResult["firstStatusFailure"];
   const args: number[] = new Array(argCols.length).fill(0);
@@ -109,6 +111,13 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
       continue;
     }
     const status = k.call(routine.exportName, args);
+    // docs/abi.md's promises (a known status; finite outputs and a whole iteration count with a success).
+    const broken = abiViolation(status, k.out, routine.outputs);
+    if (broken !== undefined) {
+      abiViolations++;
+      firstViolation ??= abiViolationMessage(k.label, routine.exportName, args, broken);
+      continue;
+    }
     if (!isOk(status)) {
       statusFailures++;
       firstFail ??= { row: r, status: statusWord(status), inputs: inputsOf(r) };
@@ -150,8 +159,9 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
       }
     });
   }
-  const counted = rows.length - skipped - statusFailures;
+  const counted = rows.length - skipped - statusFailures - abiViolations;
   const reasons: string[] = [];
+  if (abiViolations > 0) reasons.push(`${abiViolations} case(s) broke the ABI (first: ${firstViolation})`);
   if (statusFailures > 0) reasons.push(`${statusFailures} case(s) returned a failure status (first: row ${firstFail!.row}, ${firstFail!.status})`);
   const metrics: MetricResult[] = cmp.map((m, j) => ({ output: m.c.output, metric: m.c.metric, ...acc[j]! }));
   for (const m of metrics) if (m.maxRatio > 1) reasons.push(`${m.output}: error ${fmt(m.max)} ${m.metric} exceeds the limit`);
@@ -224,12 +234,12 @@ export const CHECK_WORKERS_MIN_BYTES = 32 << 20;
 /**
  * Run suites on `k`, or spread over worker threads (each loading `load`) when their vector files add up to
  * `minBytes` or more: one suite per job, results in suite order, so the table and JSON are the same for any
- * number of workers.
+ * number of workers. `limitsOf` (limits other than areal's own) runs in this thread.
  */
-export async function runSuitesOn(specs: readonly VectorSpec[], k: Kernels, load: KernelSource, workers: number, minBytes = CHECK_WORKERS_MIN_BYTES): Promise<SuiteResult[]> {
+export async function runSuitesOn(specs: readonly VectorSpec[], k: Kernels, load: KernelSource, workers: number, minBytes = CHECK_WORKERS_MIN_BYTES, limitsOf?: (suite: string) => Limits): Promise<SuiteResult[]> {
   const bytes = specs.reduce((sum, s) => sum + (statSync(vectorPath(s.suite), { throwIfNoEntry: false })?.size ?? 0), 0);
-  const n = bytes < minBytes ? 1 : Math.min(workers, specs.length);
-  if (n <= 1) return specs.map((s) => runSuite(s, k));
+  const n = bytes < minBytes || limitsOf ? 1 : Math.min(workers, specs.length);
+  if (n <= 1) return specs.map((s) => runSuite(s, k, { limits: limitsOf?.(s.suite) }));
   const pool = await WorkerPool.start(n, { kind: "check", load });
   const results: SuiteResult[] = [];
   try {

@@ -21,6 +21,8 @@ import { SPECS } from "./specs/index.js";
 import type { VectorSpec } from "./specs/types.js";
 import type { Kernels } from "../module/load.js";
 import { isBuildName, loadNamedBuild, type BuildName } from "../module/builds.js";
+import { loadLibrary } from "../module/library.js";
+import { loadFile } from "../module/load.js";
 import { isOk } from "../module/status.js";
 import { ROOT } from "../core/paths.js";
 
@@ -31,10 +33,18 @@ export const TIER_FLAGS: Readonly<Record<string, readonly string[]>> = {
   optimizing: ["--no-liftoff"],
 };
 
-export type CompareBuild = BuildName | "baseline" | "optimizing";
+/** A built-in build, an engine tier, or a file: a native library (`.so`) or a WebAssembly module (`.wasm`). */
+export type CompareBuild = BuildName | "baseline" | "optimizing" | `${string}.so` | `${string}.wasm`;
 
 export function isCompareBuild(s: string): s is CompareBuild {
-  return isBuildName(s) || s in TIER_FLAGS;
+  return isBuildName(s) || s in TIER_FLAGS || /\.(so|wasm)$/.test(s);
+}
+
+/** Load a build that runs in this process: a library (in its child process), a module file, or a built-in build. */
+function loadCompareBuild(b: CompareBuild): Kernels {
+  if (b.endsWith(".so")) return loadLibrary(b).kernels;
+  if (b.endsWith(".wasm")) return loadFile(b);
+  return loadNamedBuild(b as BuildName);
 }
 
 /** Everything a build gave on one suite: per row, the status and the routine's outputs (NaN where not run). */
@@ -316,18 +326,17 @@ export interface BuildsReport {
 /** Run the comparison of builds over the given suites. The first build is the baseline. */
 export function compareBuilds(builds: readonly CompareBuild[], allSpecs: readonly VectorSpec[] = SPECS): BuildsReport {
   // A suite whose vector file is not generated yet is left out and named in the report.
-  const specs = allSpecs.filter((s) => existsSync(vectorPath(s.suite)));
+  const kernels = new Map<string, Kernels>();
+  for (const b of builds) if (!(b in TIER_FLAGS)) kernels.set(b, loadCompareBuild(b));
+  // A module or library file runs the suites whose exports it has; the rest are left out and named.
+  const has = (s: VectorSpec): boolean => [...kernels.values()].every((k) => k.has(findRoutine(s.routine)?.exportName ?? ""));
+  const specs = allSpecs.filter((s) => existsSync(vectorPath(s.suite)) && has(s));
   const missing = allSpecs.filter((s) => !specs.includes(s)).map((s) => s.suite);
   const vectors = new Map(specs.map((s) => [s.suite, readVectors(vectorPath(s.suite))]));
   const traces = new Map<string, Trace[]>();
-  const kernels = new Map<string, Kernels>();
   for (const b of builds) {
     if (b in TIER_FLAGS) traces.set(b, tracesInChild(b, specs, vectors));
-    else {
-      const k = loadNamedBuild(b as BuildName);
-      kernels.set(b, k);
-      traces.set(b, specs.map((s) => traceSuite(s, k, vectors.get(s.suite)!)));
-    }
+    else traces.set(b, specs.map((s) => traceSuite(s, kernels.get(b)!, vectors.get(s.suite)!)));
   }
   const base = builds[0]!;
   const comparisons: BuildComparison[] = [];
@@ -387,7 +396,7 @@ export function formatBuildsReport(rep: BuildsReport): string {
   for (const s of rep.states) {
     out.push("", `${s.build}: low-orbit state after one orbit (400 km, 51.6 deg; ${s.note}, routine ${s.routine}) differs from ${rep.builds[0]} by ${fig(s.positionM)} m in position and ${fig(s.velocityMmS)} mm/s in velocity`);
   }
-  if (rep.missing.length) out.push("", `left out (no vector file; run 'areal vectors --suite NAME'): ${rep.missing.join(", ")}`);
+  if (rep.missing.length) out.push("", `left out (no vector file, or an export a module or library file lacks): ${rep.missing.join(", ")}`);
   const ids = rep.comparisons.filter((c) => c.identical !== c.cases);
   out.push("", ids.length === 0 ? "every compared build is bit-identical to the baseline on every case." : `${ids.length} suite/build pair(s) differ from the baseline (expected for js and f32; not for native, baseline, optimizing).`);
   return out.join("\n") + "\n";

@@ -5,7 +5,7 @@ import { loadKernels } from "../shared.js";
 
 export const demoCommand: Command = {
   summary: "show the kernels on the built-in demo (an invented mission)",
-  options: ["build", "module"],
+  options: ["build", "module", "call-limit"],
   run(_pos, values) {
     process.stdout.write(demoLines(loadKernels(values)).join("\n") + "\n");
     return 0;

@@ -9,14 +9,15 @@ import { kernelSource, loadKernels, routineArg } from "../shared.js";
 export const evalCommand: Command = {
   summary: "run a routine over a CSV of inputs; one output row per input row, with its status",
   args: "<routine>",
-  options: ["input", "out", "build", "module", "workers"],
+  options: ["input", "out", "build", "module", "library", "call-limit", "workers"],
   required: ["input"],
   async run(pos, values) {
     const routine = routineArg("eval", pos[0]);
     const input = values.input as string | undefined;
     if (input === undefined) throw new UsageError("eval needs --input FILE");
     if (!existsSync(input)) throw new UsageError(`--input: no such file: ${input}`);
-    const workers = parseWorkers(values.workers as string | undefined);
+    // A library runs in one child process: no worker threads.
+    const workers = values.library !== undefined ? 1 : parseWorkers(values.workers as string | undefined);
     const k = loadKernels(values);
     const out = values.out as string | undefined;
     // Streamed in chunks through the workers; the output appears whole at the end, or not at all.

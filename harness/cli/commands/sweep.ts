@@ -11,7 +11,7 @@ import { kernelSource, loadKernels, routineArg } from "../shared.js";
 export const sweepCommand: Command = {
   summary: "run a routine over a grid of inputs and summarise errors, iterations and statuses (JSON)",
   args: "<routine>",
-  options: ["grid", "out", "shard", "resume", "workers", "build", "module"],
+  options: ["grid", "out", "shard", "resume", "workers", "build", "module", "call-limit"],
   required: ["grid", "out"],
   async run(pos, values) {
     const routine = sweepRoutine(routineArg("sweep", pos[0]).name);

@@ -10,7 +10,7 @@ import { dateOption, loadKernels } from "../shared.js";
 
 export const trajectoryCommand: Command = {
   summary: "fixed-step integration of a trajectory plan: a CSV with every step's state and invariants, a CCSDS OEM; exit 1 when a budget is broken",
-  options: ["plan", "csv", "oem", "date", "build", "module"],
+  options: ["plan", "csv", "oem", "date", "build", "module", "call-limit"],
   required: ["plan"],
   run(_pos, values) {
     const file = values.plan as string | undefined;

@@ -1,4 +1,5 @@
 /** Sweep grids: parsing and checking the JSON description, and the inputs of case i (docs/sweeps.md). */
+import { parseJsonText } from "../../core/json.js";
 import { createHash } from "node:crypto";
 import type { Routine } from "../../module/routines.js";
 
@@ -42,11 +43,7 @@ function wholeNumber(v: unknown, where: string, min: number, max = Number.MAX_SA
 /** Parse and check a grid description for a routine; messages name the file and the field. */
 export function parseGrid(text: string, source: string, routine: Routine): Grid {
   let raw: unknown;
-  try {
-    raw = JSON.parse(text);
-  } catch (err) {
-    throw new SweepError(`${source}: not JSON (${(err as Error).message})`);
-  }
+  raw = parseJsonText(text, source, (m) => new SweepError(m));
   return checkGrid(raw, source, routine);
 }
 

@@ -1,0 +1,141 @@
+/**
+ * Calling a module the harness did not write (`--module`) with every call bounded in time and memory. The
+ * module runs in a worker thread of its own (bounded-entry.ts); a call is handed over through shared memory
+ * and this thread waits for the answer with Atomics.wait and a time limit, so `call` stays synchronous like a
+ * direct WebAssembly call. A call (or the module's start function) that does not return within the limit has
+ * its worker terminated, which stops any WebAssembly code, and throws a ModuleError naming the module, the
+ * export and the inputs. After each call the worker copies the output slots out of the module's memory as it
+ * is then (a module may grow its memory) and refuses a module whose memory has grown past MEMORY_LIMIT_BYTES.
+ * Built-in builds do not come here: their kernels are ours, bounded by their iteration caps (load.ts).
+ */
+import { Worker, MessageChannel, receiveMessageOnPort, type MessagePort } from "node:worker_threads";
+import { existsSync, readFileSync } from "node:fs";
+import { join } from "node:path";
+import { fileURLToPath } from "node:url";
+import { ROOT } from "../core/paths.js";
+import { ModuleError, type Kernels } from "./load.js";
+
+/** Default time limit of one call into a foreign module, start function included (seconds; --call-limit). */
+export const DEFAULT_CALL_LIMIT_S = 10;
+/** A foreign module's memory may not grow past this (bytes): 256 MiB, far above what a kernel needs. */
+export const MEMORY_LIMIT_BYTES = 256 * 1024 * 1024;
+/** How long a worker thread may take to start, before the module's own time counts (ours, not the module's). */
+const WORKER_START_MS = 60_000;
+
+/** Layout of the shared buffer: control words, then the arguments, then the output slots (as f64). */
+export const SHARED = { ctrlWords: 16, maxArgs: 32, outSlots: 64, argsByte: 64, outByte: 64 + 8 * 32, bytes: 64 + 8 * 32 + 8 * 64 } as const;
+/** Control word indices. */
+export const CTRL = { state: 0, fn: 1, nargs: 2, status: 3 } as const;
+/** States of the control word `state`. */
+export const STATE = { boot: 0, started: 1, idle: 2, request: 3, done: 4, failed: 5 } as const;
+
+/** What the worker reports once the module is instantiated. */
+export interface BoundedInfo {
+  readonly realBytes: 4 | 8;
+  readonly exports: readonly (readonly [string, number])[];
+}
+
+/** What the worker is given. */
+export interface BoundedInit {
+  readonly bytes: Uint8Array;
+  readonly label: string;
+  readonly sab: SharedArrayBuffer;
+  readonly port: MessagePort;
+  readonly memoryLimit: number;
+}
+
+function entryPath(): string {
+  const here = fileURLToPath(new URL("./bounded-entry.js", import.meta.url));
+  if (existsSync(here)) return here;
+  const built = join(ROOT, "dist", "harness", "module", "bounded-entry.js");
+  if (existsSync(built)) return built;
+  throw new Error("the module worker script is not built (dist/harness/module/bounded-entry.js); run 'npm run build'");
+}
+
+/** Parse a --call-limit value (seconds, a positive number up to a day); the message names the flag. */
+export function parseCallLimit(v: string | undefined, flag = "--call-limit"): number {
+  if (v === undefined) return DEFAULT_CALL_LIMIT_S;
+  const s = Number(v);
+  if (!/^\s*[0-9.eE+-]+\s*$/.test(v) || !Number.isFinite(s) || s <= 0 || s > 86400) throw new ModuleError(`${flag}: '${v}' is not a number of seconds above 0 and up to 86400`);
+  return s;
+}
+
+/** The inputs of a call as text for messages: `name(1, 2.5)`. */
+function callText(name: string, args: readonly number[]): string {
+  return `${name}(${args.join(", ")})`;
+}
+
+/**
+ * Load a module file into a worker thread of its own and return it as Kernels whose every call is bounded by
+ * `limitS` seconds. Throws ModuleError (not WebAssembly, imports, a start function over the limit, a trap).
+ */
+export function loadBounded(path: string, limitS = DEFAULT_CALL_LIMIT_S, label = path): Kernels {
+  if (!existsSync(path)) throw new ModuleError(`${label}: no such file: ${path}`);
+  const bytes = new Uint8Array(readFileSync(path));
+  const sab = new SharedArrayBuffer(SHARED.bytes);
+  const ctrl = new Int32Array(sab, 0, SHARED.ctrlWords);
+  const argv = new Float64Array(sab, SHARED.argsByte, SHARED.maxArgs);
+  const out = new Float64Array(sab, SHARED.outByte, SHARED.outSlots);
+  const { port1, port2 } = new MessageChannel();
+  const init: BoundedInit = { bytes, label, sab, port: port2, memoryLimit: MEMORY_LIMIT_BYTES };
+  const worker = new Worker(entryPath(), { workerData: init, transferList: [port2], resourceLimits: { maxOldGenerationSizeMb: 64 } });
+  worker.unref();
+  port1.unref();
+  let dead = false;
+  const stop = (): void => {
+    dead = true;
+    void worker.terminate();
+    port1.close();
+  };
+  const failure = (): string => {
+    const m = receiveMessageOnPort(port1)?.message as { message?: string } | undefined;
+    return m?.message ?? `${label}: the module's worker stopped without a message`;
+  };
+  // The worker's own start-up is ours; the module's instantiation (its start function) has the call limit.
+  Atomics.wait(ctrl, CTRL.state, STATE.boot, WORKER_START_MS);
+  if (Atomics.load(ctrl, CTRL.state) === STATE.started) Atomics.wait(ctrl, CTRL.state, STATE.started, limitS * 1000);
+  const s0 = Atomics.load(ctrl, CTRL.state);
+  if (s0 !== STATE.idle) {
+    const msg = s0 === STATE.failed ? failure() : s0 === STATE.started
+      ? `${label}: the module's start function did not return within ${limitS} s (--call-limit); the module was stopped`
+      : `${label}: the module's worker thread did not start`;
+    stop();
+    throw new ModuleError(msg);
+  }
+  const info = receiveMessageOnPort(port1)?.message as BoundedInfo;
+  const index = new Map(info.exports.map(([n], i) => [n, i]));
+  const arity = new Map(info.exports);
+  const call = (name: string, args: readonly number[]): number => {
+    if (dead) throw new ModuleError(`${label}: the module was stopped after an earlier failure`);
+    const i = index.get(name);
+    if (i === undefined) throw new ModuleError(`${label}: no export named ${name}`);
+    if (args.length > SHARED.maxArgs) throw new ModuleError(`${label}: ${name} called with ${args.length} arguments, more than ${SHARED.maxArgs}`);
+    for (let a = 0; a < args.length; a++) argv[a] = args[a]!;
+    ctrl[CTRL.fn] = i;
+    ctrl[CTRL.nargs] = args.length;
+    Atomics.store(ctrl, CTRL.state, STATE.request);
+    Atomics.notify(ctrl, CTRL.state);
+    Atomics.wait(ctrl, CTRL.state, STATE.request, limitS * 1000);
+    const s = Atomics.load(ctrl, CTRL.state);
+    if (s === STATE.done) return ctrl[CTRL.status]!;
+    const msg = s === STATE.failed ? failure() : `${label}: ${callText(name, args)} did not return within ${limitS} s (--call-limit); the module was stopped, nothing was written`;
+    stop();
+    throw new ModuleError(msg);
+  };
+  const exportsObj: Record<string, unknown> = {};
+  for (const [n] of info.exports) exportsObj[n] = (...a: number[]): number => call(n, a);
+  return {
+    label,
+    realBytes: info.realBytes,
+    exportNames: info.exports.map(([n]) => n),
+    out,
+    memory: new WebAssembly.Memory({ initial: 0 }),
+    exports: exportsObj as WebAssembly.Exports,
+    has: (name) => index.has(name),
+    arity: (name) => arity.get(name) ?? -1,
+    call,
+    close: stop,
+  };
+}
+
+export { callText };

@@ -1,0 +1,155 @@
+/**
+ * Modules the harness did not write, each breaking docs/abi.md one way (tests/fixtures/hostile/modules.ts),
+ * through the real entry point: every call is bounded in time (--call-limit, here 0.5 s so the suite stays
+ * fast), a module that grows its memory has its outputs read from the new memory, an ok status with a
+ * non-finite output, an unknown status and a bad iteration count are ABI violations that stop the run with a
+ * non-zero exit and no output file, and a wrong signature has the same message in eval and check. Each case
+ * here hung, wrote a wrong file or passed with exit 0 before (issue 16's table).
+ */
+import { describe, it, expect, beforeAll, afterAll } from "vitest";
+import { spawnSync } from "node:child_process";
+import { mkdtempSync, writeFileSync, readFileSync, existsSync, readdirSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { BIN } from "./helpers.js";
+import { HOSTILE } from "./fixtures/hostile/modules.js";
+
+let dir: string;
+/** The short limit of the hang tests; the other tests keep the default (a loaded machine can pause a call). */
+const LIMIT = "0.5";
+
+/** `areal ARGS` in the test folder, killed after 60 s so that a hang fails the test instead of stalling it. */
+function areal(...args: string[]): { code: number; out: string; err: string; timedOut: boolean } {
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", cwd: dir, timeout: 60_000, killSignal: "SIGKILL", env: { ...process.env, NO_COLOR: "1" } });
+  return { code: r.status ?? -1, out: r.stdout, err: r.stderr, timedOut: r.signal === "SIGKILL" };
+}
+
+function mod(name: string): string {
+  const p = join(dir, `${name}.wasm`);
+  writeFileSync(p, HOSTILE[name]!.bytes());
+  return p;
+}
+
+function input(): string {
+  const p = join(dir, "cases.csv");
+  writeFileSync(p, "e,M\n0.1,1\n0.2,2\n");
+  return p;
+}
+
+function noLeftovers(): void {
+  expect(readdirSync(dir).filter((f) => f.endsWith(".tmp") || f.startsWith("out"))).toEqual([]);
+}
+
+beforeAll(() => {
+  dir = mkdtempSync(join(tmpdir(), "areal-hostile-"));
+});
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+describe("every call into a module is bounded in time", () => {
+  it("eval: a kernel that loops forever is stopped, naming the module, the export and the inputs", () => {
+    const r = areal("eval", "kepler-elliptic", "-i", input(), "-o", join(dir, "out.csv"), "--module", mod("loops-forever"), "--call-limit", LIMIT, "--workers", "1");
+    expect(r.timedOut).toBe(false);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/loops-forever\.wasm: kepler_elliptic\(0\.1, 1\) did not return within 0\.5 s \(--call-limit\)/);
+    expect(existsSync(join(dir, "out.csv"))).toBe(false);
+    noLeftovers();
+  });
+
+  it("eval with two workers: the same bound in each worker", () => {
+    const r = areal("eval", "kepler-elliptic", "-i", input(), "-o", join(dir, "out.csv"), "--module", mod("loops-forever"), "--call-limit", LIMIT, "--workers", "2");
+    expect(r.timedOut).toBe(false);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/did not return within 0\.5 s/);
+    noLeftovers();
+  });
+
+  it("check: a start function that loops forever is stopped", () => {
+    const r = areal("check", "--module", mod("start-loops-forever"), "--call-limit", LIMIT);
+    expect(r.timedOut).toBe(false);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/start-loops-forever\.wasm: the module's start function did not return within 0\.5 s/);
+  });
+
+  it("eval: a start function that loops forever is stopped", () => {
+    const r = areal("eval", "kepler-elliptic", "-i", input(), "--module", mod("start-loops-forever"), "--call-limit", LIMIT);
+    expect(r.timedOut).toBe(false);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/start function did not return within 0\.5 s/);
+  });
+
+  it("a module that grows its memory past the limit is stopped, naming the call", () => {
+    const r = areal("eval", "kepler-elliptic", "-i", input(), "--module", mod("grows-memory-a-lot"));
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/grows-memory-a-lot\.wasm: the module's memory grew to 512 MB in kepler_elliptic\(0\.1, 1\), over the limit of 256 MB/);
+  });
+
+  it("--call-limit takes seconds above 0; a bad value names the flag", () => {
+    const r = areal("eval", "kepler-elliptic", "-i", input(), "--module", mod("grows-memory"), "--call-limit", "0");
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/--call-limit: '0' is not a number of seconds/);
+  });
+});
+
+describe("a module that grows its memory", () => {
+  it("has its outputs read from the grown memory (eval)", () => {
+    const r = areal("eval", "kepler-elliptic", "-i", input(), "--module", mod("grows-memory"));
+    expect(r.err).toBe("");
+    expect(r.code).toBe(0);
+    expect(r.out).toBe("e,M,E,iterations,status\n0.1,1,0.5,2,ok\n0.2,2,0.5,2,ok\n");
+  });
+
+  it("has its outputs read from the grown memory (check: the error is the module's answer, not 'got undefined')", () => {
+    const r = areal("check", "--module", mod("grows-memory"), "--suite", "kepler-elliptic");
+    expect(r.out, r.out + r.err).not.toMatch(/undefined/);
+    expect(r.out, r.out + r.err).toMatch(/got 0\.5/);
+  });
+});
+
+describe("docs/abi.md enforced: a violation is named, stops eval and fails check", () => {
+  const cases: [string, RegExp][] = [
+    ["ok-nan", /ABI violation: kepler_elliptic\(0\.1, 1\) returned ok with output E = NaN; a success has finite outputs/],
+    ["ok-infinity", /ABI violation: kepler_elliptic\(0\.1, 1\) returned ok with output E = Infinity/],
+    ["status-99", /ABI violation: kepler_elliptic\(0\.1, 1\) returned status 99, which the ABI does not define/],
+    ["iterations-negative-fraction", /ABI violation: kepler_elliptic\(0\.1, 1\) returned ok with iterations = -3\.5, not a whole number >= 0/],
+  ];
+  for (const [name, message] of cases) {
+    it(`${name}: eval exits 2 and writes nothing`, () => {
+      const o = join(dir, "out.csv");
+      const r = areal("eval", "kepler-elliptic", "-i", input(), "-o", o, "--module", mod(name));
+      expect(r.code).toBe(2);
+      expect(r.err).toMatch(message);
+      expect(existsSync(o)).toBe(false);
+      noLeftovers();
+    });
+    it(`${name}: check fails the suite, naming the violation`, () => {
+      const r = areal("check", "--module", mod(name), "--suite", "kepler-elliptic", "-v");
+      expect(r.code).toBe(1);
+      expect(r.out + r.err).toMatch(/broke the ABI/);
+    });
+  }
+});
+
+describe("a wrong signature has the same message in every command", () => {
+  const want = /wrong-signature\.wasm: export kepler_elliptic has signature \(i64, f64\) -> i32; the ABI needs \(f64, f64\) -> i32/;
+  it("eval", () => {
+    const r = areal("eval", "kepler-elliptic", "-i", input(), "--module", mod("wrong-signature"));
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(want);
+  });
+  it("check", () => {
+    const r = areal("check", "--module", mod("wrong-signature"));
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(want);
+  });
+  it("demo", () => {
+    const r = areal("demo", "--module", mod("wrong-signature"));
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(want);
+  });
+});
+
+describe("the fixtures are what they say", () => {
+  it("every hostile module is valid WebAssembly", () => {
+    for (const [name, h] of Object.entries(HOSTILE)) expect(WebAssembly.validate(h.bytes()), name).toBe(true);
+  });
+});
