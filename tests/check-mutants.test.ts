@@ -4,7 +4,7 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, mutant } from "./helpers.js";
-import { runSuite } from "../harness/verify/check.js";
+import { runSuite, caseError } from "../harness/verify/check.js";
 import { findSpec } from "../harness/verify/specs/index.js";
 import { fromBits, toBits } from "../harness/core/float.js";
 import { findRoutine, slotsOf } from "../harness/module/routines.js";
@@ -112,7 +112,15 @@ describe("the checks catch wrong builds", () => {
     ] as const) {
       const r = runSuite(spec(suite), nanAt(routine, output));
       expect(r.verdict, suite).toBe("fail");
-      expect(r.reasons.join(), suite).toMatch(/exceeds the limit/);
+      expect(r.reasons.join(), suite).toMatch(/broke the ABI|exceeds the limit/);
+    }
+  });
+
+  it("the metric itself counts a NaN as an infinite error, whatever the metric (behind the ABI check, which sees it first)", () => {
+    for (const metric of ["ulp", "rel", "abs"] as const) {
+      expect(caseError(metric, NaN, 1, NaN, false), metric).toBe(Infinity);
+      expect(caseError(metric, NaN, -2, NaN, true), metric).toBe(Infinity);
+      expect(caseError(metric, 1, 1, 0, false), metric).toBe(0);
     }
   });
 
