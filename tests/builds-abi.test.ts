@@ -68,7 +68,7 @@ describe("planning a module's suites", () => {
     const k = instantiate(keplerOnly, "one.wasm");
     const spec = SPECS.find((s) => s.suite === "kepler-elliptic")!;
     const r = runSuite(spec, k);
-    expect(r.pass).toBe(false);
+    expect(r.verdict).toBe("fail");
     expect(r.statusFailures).toBe(r.cases);
   });
 
@@ -117,7 +117,7 @@ describe("the naive example module (examples/naive-kepler)", () => {
     expect(plan.skipped.length).toBe(SPECS.length - kepler.length);
     for (const spec of plan.run) {
       const r = runSuite(spec, kernels);
-      expect(r.pass, spec.suite).toBe(false);
+      expect(r.verdict, spec.suite).toBe("fail");
       expect(r.reasons.length, spec.suite).toBeGreaterThan(0);
     }
   });

@@ -5,6 +5,8 @@
 import { execFileSync } from "node:child_process";
 import { existsSync, statSync } from "node:fs";
 import { delimiter, join } from "node:path";
+import { ROOT } from "../harness/core/paths.js";
+import { nativeUnavailable } from "../harness/module/builds.js";
 import { fileURLToPath } from "node:url";
 
 const TYPE: Record<string, number> = { i32: 0x7f, i64: 0x7e, f32: 0x7d, f64: 0x7c };
@@ -107,4 +109,17 @@ export function node(root: string, args: readonly string[], flags: readonly stri
 
 export function exists(p: string): boolean {
   return existsSync(p);
+}
+
+/**
+ * Make the native build current when the toolchain is here (translating and compiling it, as builds-native does);
+ * otherwise the reason it cannot run. Every test that compares the native build calls this first, so whether it
+ * runs does not depend on which test file ran before.
+ */
+export function prepareNative(): string | undefined {
+  if (nativeUnavailable() === undefined) return undefined;
+  const missing = nativeToolchainMissing();
+  if (missing) return missing;
+  execFileSync(process.execPath, [join(ROOT, "scripts", "build-native.mjs"), "--require"], { cwd: ROOT, stdio: "pipe" });
+  return nativeUnavailable();
 }

@@ -5,7 +5,7 @@
  * the build is reproducible, and `eval` through the native build writes the same text as through the module.
  */
 import { describe, it, expect, beforeAll } from "vitest";
-import { execFile, execFileSync } from "node:child_process";
+import { execFile, execFileSync, spawnSync } from "node:child_process";
 import { promisify } from "node:util";
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
@@ -19,27 +19,18 @@ import { evaluateCsv, evaluateFile } from "../harness/run/evaluate.js";
 import { findRoutine } from "../harness/module/routines.js";
 import { loadBuild } from "../harness/module/load.js";
 import { formatCsv } from "../harness/core/csv.js";
-import { nativeToolchainMissing, REQUIRE_NATIVE } from "./builds-helpers.js";
+import { prepareNative, nativeToolchainMissing, REQUIRE_NATIVE } from "./builds-helpers.js";
 import { noteSkip } from "./support/skips.js";
 
 const run = promisify(execFile);
 
-/** Make the native build current when the toolchain is here; the reason it cannot run otherwise. */
-function prepareNative(): string | undefined {
-  if (nativeUnavailable() === undefined) return undefined;
-  const missing = nativeToolchainMissing();
-  if (missing) return missing;
-  execFileSync(process.execPath, [join(ROOT, "scripts", "build-native.mjs"), "--require"], { cwd: ROOT, stdio: "pipe" });
-  return nativeUnavailable();
-}
-
 let nativeWhy: string | undefined;
 beforeAll(() => {
   // The forced-tier runs load the compiled harness (dist/, made by `npm run build`) in child processes.
-  if (!existsSync(join(ROOT, "dist", "harness", "verify", "compare-builds.js"))) try {
-    execFileSync(process.execPath, [join(ROOT, "node_modules", "typescript", "bin", "tsc"), "-p", "tsconfig.json"], { cwd: ROOT, stdio: "pipe" });
-  } catch {
-    // type errors elsewhere in the tree still emit JavaScript; the runs below fail loudly if it is missing
+  // A failing type-check stops here with its messages (it used to be swallowed by an empty catch).
+  if (!existsSync(join(ROOT, "dist", "harness", "verify", "compare-builds.js"))) {
+    const tsc = spawnSync(process.execPath, [join(ROOT, "node_modules", "typescript", "bin", "tsc"), "-p", "tsconfig.json"], { cwd: ROOT, encoding: "utf8" });
+    if (tsc.status !== 0) throw new Error(`tsc -p tsconfig.json failed:\n${tsc.stdout}${tsc.stderr}`);
   }
   nativeWhy = prepareNative();
   if (nativeWhy) {

@@ -57,6 +57,13 @@ describe("float helpers", () => {
     expect(parseNumber("1.5.2")).toBeUndefined();
     expect(parseNumber("")).toBeUndefined();
     expect(parseNumber("abc")).toBeUndefined();
+    // A trailing or missing character is an input error, never a NaN row (a looser pattern let these through).
+    for (const bad of ["1x", "1;", "2.5e", "1e+", "1.0f", "x1", ".", "+", "-", "1 2", "1e5.5", "0x3ff", "1,5", "e5", "--1"]) {
+      expect(parseNumber(bad), bad).toBeUndefined();
+    }
+    for (const [good, want] of [["1", 1], ["-2.5e-3", -2.5e-3], [".5", 0.5], ["5.", 5], ["+1E2", 100], [" 7 ", 7]] as const) {
+      expect(parseNumber(good), good).toBe(want);
+    }
     expect(ulpOf(1)).toBe(2 ** -52);
     expect(ulpOf(-1.5)).toBe(2 ** -52);
     expect(ulpOf(Number.MAX_VALUE)).toBe(2 ** 971);

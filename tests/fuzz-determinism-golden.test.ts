@@ -10,7 +10,8 @@ import { SPECS } from "../harness/verify/specs/index.js";
 import { readVectors, vectorPath } from "../harness/verify/vectors.js";
 import { traceSuite, tracesInChild, type Trace } from "../harness/verify/compare-builds.js";
 import { goldenDifferences, goldenPath } from "../harness/verify/golden.js";
-import { nativeUnavailable, loadNative, closeNative } from "../harness/module/builds.js";
+import { loadNative, closeNative } from "../harness/module/builds.js";
+import { prepareNative, REQUIRE_NATIVE } from "./builds-helpers.js";
 import { release } from "./helpers.js";
 import { toBits, fromBits } from "../harness/core/float.js";
 import { noteSkip } from "./support/skips.js";
@@ -42,9 +43,10 @@ describe("determinism golden files", () => {
     check(tracesInChild("optimizing", specs, vectors));
   });
 
-  it("native build (wasm2c): the golden bits, when it is built", (ctx) => {
-    const why = nativeUnavailable();
+  it("native build (wasm2c): the golden bits, whenever the toolchain is here (built first if needed)", (ctx) => {
+    const why = prepareNative();
     if (why) {
+      if (REQUIRE_NATIVE) throw new Error(`AREAL_REQUIRE_NATIVE=1 but the native build cannot run: ${why}`);
       noteSkip("native golden bits (tests/fuzz-determinism-golden)", why, "apt-get install wabt gcc, then npm run build:native");
       ctx.skip();
       return;

@@ -10,6 +10,7 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, DEG } from "./helpers.js";
+import { statusCode } from "../harness/module/status.js";
 import { stateFromElements, METHODS, slot, type Method } from "./integrate-helpers.js";
 
 const MU = 398600.4418;
@@ -76,4 +77,15 @@ describe("energy over 10,000 orbits (64 steps an orbit)", () => {
       expect(w.last).toBeGreaterThan(3 * w.first);
     });
   }
+});
+
+describe("integrate_step's step count is bounded", () => {
+  it("more steps than the cap (1e9) is a domain error, before any step is taken (not a billion steps)", () => {
+    const k = release();
+    const domain = statusCode("out-of-domain")!;
+    expect(k.call("integrate_begin", [MU, ...R0, ...V0, PERIOD / 64, METHODS.verlet, 0, 0, 1, 0, 0, 0, 0])).toBe(0);
+    expect(k.call("integrate_step", [1_000_000_001])).toBe(domain);
+    expect(k.call("integrate_step", [-1])).toBe(domain);
+    expect(k.call("integrate_step", [1])).toBe(0);
+  });
 });

@@ -13,6 +13,7 @@ import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { release, single, run, DEG } from "./helpers.js";
 import { instantiate, type Kernels } from "../harness/module/load.js";
+import { ABI_TABLE } from "../harness/module/abi-table.js";
 import { stateFromElements, METHODS, S, slot, read, STATE, FIRSTS, type Vec } from "./integrate-helpers.js";
 
 const MU = 398600.4418;
@@ -203,4 +204,40 @@ describe("integrate statuses", () => {
       expect(k().call("integrate_step", [1])).toBe(21);
     });
   }
+});
+
+describe("the monitor under a zonal field (J2): h_z is the conserved quantity, e is not", () => {
+  // J2 of EGM96 from C20 = -0.484165371736e-3 (J2 = -sqrt(5) C20 = 1.0826266836e-3), R = 6378.137 km (WGS 84).
+  const J2 = 1.0826266836e-3;
+  const RE = 6378.137;
+  const A = 7000;
+  const [r0, v0] = stateFromElements(MU, A, 0.01, 51.6 * DEG, 30 * DEG, 60 * DEG, 0);
+  const T = 2 * Math.PI * Math.sqrt(A ** 3 / MU);
+  const call = (eccBudget: number) => {
+    const k = release();
+    // 10 orbits, 200 steps an orbit, Yoshida 4: energy_budget, h_budget, ecc_budget, areal_budget.
+    expect(k.call("integrate", [MU, ...r0, ...v0, T / 200, 2000, METHODS.yoshida4, J2, 0, RE, 0, 0, eccBudget, 0])).toBe(0);
+    return k;
+  };
+
+  it("the areal-velocity deviation follows h_z (round-off), not |h| (which J2 moves at about 1e-6)", () => {
+    const k = call(0);
+    expect(k.out[slot("areal_dev")]!).toBeLessThan(1e-11);
+  });
+
+  it("the areal velocity reported by integrate_step is h_z / 2 (the component J2 conserves), not |h| / 2", () => {
+    const k = release();
+    expect(k.call("integrate_begin", [MU, ...r0, ...v0, T / 200, METHODS.yoshida4, J2, 0, RE, 0, 0, 0, 0])).toBe(0);
+    expect(k.call("integrate_step", [100])).toBe(0);
+    const at = (name: string) => ABI_TABLE.exports.find((x) => x.name === "integrate_step")!.outputs.findIndex((o) => o.name === name);
+    const [hx, hy, hz, areal] = ["hx", "hy", "hz", "areal_velocity"].map((n) => k.out[at(n)]!);
+    expect(areal).toBe(0.5 * hz!);
+    expect(Math.abs(areal! - 0.5 * Math.hypot(hx!, hy!, hz!))).toBeGreaterThan(1); // inclined 51.6 deg: far apart
+  });
+
+  it("an eccentricity budget is not applied (e oscillates under J2): its first-step slot says never", () => {
+    const k = call(1e-15);
+    expect(k.out[slot("ecc_dev")]!).toBeGreaterThan(1e-6); // e does move: the budget would be exceeded at once
+    expect(k.out[slot("ecc_step")]!).toBe(-1);
+  });
 });

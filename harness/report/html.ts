@@ -156,7 +156,7 @@ export async function writeReport(dir: string, results: readonly SuiteResult[], 
       svg: await renderSvg(ulpHistogramSpec("output values per ULP difference", hb.bars)) });
   }
 
-  const pass = results.every((r) => r.pass);
+  const pass = results.every((r) => r.verdict !== "fail");
   const prov = provenanceOf(k.label);
   const generated = prov.generated;
   const body = sections.map((s) => `<section id="${s.id}"><h2>${esc(s.title)}</h2>${s.svg ? `<p>${s.intro}</p><figure class="plot" data-plot="${s.id}">${s.svg}</figure>` : `<p class="absent">Not shown: ${esc(s.absent ?? "")}.</p>`}</section>`).join("\n");

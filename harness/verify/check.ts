@@ -32,6 +32,8 @@ export interface MetricResult {
   readonly worst?: Worst;
 }
 
+export type Verdict = "pass" | "fail" | "not-applicable";
+
 export interface SuiteResult {
   readonly suite: string;
   readonly routine: string;
@@ -50,6 +52,9 @@ export interface SuiteResult {
   readonly limits: Limits;
   /** False when no case could be given to this build exactly (every case skipped): not counted as pass or fail. */
   readonly applicable: boolean;
+  /** `pass`, `fail`, or `not-applicable` (every case skipped): a suite that did not run is neither pass nor fail. */
+  readonly verdict: Verdict;
+  /** verdict === "pass" (a suite that did not run has not passed). */
   readonly pass: boolean;
   /** Plain reasons for a failure. */
   readonly reasons: readonly string[];
@@ -143,20 +148,8 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
         want = Math.sqrt(w2);
         got = want + absErr;
       }
-      let err: number;
-      let lim: number;
-      if (m.c.metric === "ulp") {
-        err = single ? ulpDistance32(got, Math.fround(want)) : ulpDistance(got, want);
-        lim = Math.max(limits.max_ulp ?? 0, m.cond >= 0 ? (limits.cond_factor ?? 0) * row[m.cond]! : 0);
-      } else if (m.c.metric === "rel") {
-        err = want === 0 ? absErr : absErr / Math.abs(want);
-        const revs = m.revs >= 0 ? Math.abs(row[m.revs]!) : 0;
-        lim = Math.max((limits.max_rel ?? 0) * (1 + revs), m.cond >= 0 ? (limits.cond_factor ?? 0) * row[m.cond]! : 0);
-      } else {
-        err = absErr;
-        lim = Math.max(limits.max_abs ?? 0, m.cond >= 0 ? (limits.cond_factor ?? 0) * row[m.cond]! : 0);
-      }
-      if (Number.isNaN(got)) err = Infinity;
+      const err = caseError(m.c.metric, got, want, absErr, single);
+      const lim = caseLimit(m.c, limits, m.cond >= 0 ? row[m.cond]! : undefined, m.revs >= 0 ? row[m.revs]! : 0, want);
       const ratio = lim > 0 ? err / lim : err > 0 ? Infinity : 0;
       if (absErr > a.maxAbs) a.maxAbs = absErr;
       if (err > a.max) a.max = err;
@@ -190,9 +183,36 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
     iterationHistogram: iterSlot !== undefined ? hist : undefined,
     limits,
     applicable,
-    pass: reasons.length === 0,
+    verdict: reasons.length > 0 ? "fail" : applicable ? "pass" : "not-applicable",
+    pass: reasons.length === 0 && applicable,
     reasons,
   };
+}
+
+/**
+ * The error of one output on one case in the comparison's metric. A NaN output counts as an infinite error
+ * whatever the metric (a NaN would otherwise compare as no error at all: NaN > limit is false).
+ */
+export function caseError(metric: Comparison["metric"], got: number, want: number, absErr: number, single: boolean): number {
+  if (Number.isNaN(got) || Number.isNaN(absErr)) return Infinity;
+  if (metric === "ulp") return single ? ulpDistance32(got, Math.fround(want)) : ulpDistance(got, want);
+  if (metric === "rel") return want === 0 ? absErr : absErr / Math.abs(want);
+  return absErr;
+}
+
+/**
+ * The limit of one output on one case: the suite's limit for the metric, widened to cond_factor * cond where the
+ * comparison names a conditioning column (`cond`, the value of that column on this case), and for `rel` scaled by
+ * (1 + revs). A `condRelative` column holds a relative figure: on an `abs` comparison it widens by
+ * cond_factor * cond * |want| (an output near zero, such as e of a nearly circular orbit, is compared absolutely).
+ * The widening stops at the limits' `cond_cap` (in the metric's units) where one is set.
+ */
+export function caseLimit(c: Comparison, limits: Limits, cond: number | undefined, revs: number, want: number): number {
+  const scaled = cond === undefined ? 0 : (limits.cond_factor ?? 0) * cond * (c.condRelative && c.metric === "abs" ? Math.abs(want) : 1);
+  const widen = Math.min(scaled, limits.cond_cap ?? Infinity);
+  if (c.metric === "ulp") return Math.max(limits.max_ulp ?? 0, widen);
+  if (c.metric === "rel") return Math.max((limits.max_rel ?? 0) * (1 + Math.abs(revs)), widen);
+  return Math.max(limits.max_abs ?? 0, widen);
 }
 
 function fmt(x: number): string {

@@ -9,6 +9,17 @@ export interface Limits {
   readonly max_abs?: number;
   /** Relative limit widened to cond_factor * cond where a suite stores conditioning. */
   readonly cond_factor?: number;
+  /**
+   * The most the conditioning may widen a limit, in the metric's units (ulps, relative or absolute): where the
+   * conditioning says the problem is so ill-conditioned that the widened limit would accept anything (100%
+   * relative or more) while the build is measured far more accurate there.
+   */
+  readonly cond_cap?: number;
+  /**
+   * Rows (0-based, of the vector file) whose limit on an output is 100% relative or more on purpose, per output,
+   * with the reason (README.md, "Tests", names them too). tests/limits-meaning.test.ts fails on any other such row.
+   */
+  readonly beyond_full_scale?: Readonly<Record<string, { readonly rows: readonly number[]; readonly why: string }>>;
   readonly max_iterations?: number;
   /** Why the limit is what it is (shown by `areal check --verbose`). */
   readonly why?: string;

@@ -60,6 +60,6 @@ export const checkCommand: Command = {
     process.stdout.write(formatCheckTable(results, k, Boolean(values.verbose)));
     if (values.json !== undefined) writeAtomic(values.json as string, JSON.stringify(checkJson(results, k), null, 2) + "\n");
     if (values.report !== undefined) process.stderr.write(`report: ${(await writeReport(values.report as string, results, k)).html}\n`);
-    return results.every((r) => r.pass) ? 0 : 1;
+    return results.every((r) => r.verdict !== "fail") ? 0 : 1;
   },
 };

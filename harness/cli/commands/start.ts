@@ -15,6 +15,6 @@ export const startCommand: Command = {
     process.stdout.write(demoLines(k).join("\n") + "\n");
     const rep = await writeReport((values.report as string | undefined) ?? "out/report", results, k);
     process.stdout.write(`\nreport: ${rep.html} (open it in a browser; machine-readable: ${rep.json})\n`);
-    return results.every((r) => r.pass) ? 0 : 1;
+    return results.every((r) => r.verdict !== "fail") ? 0 : 1;
   },
 };

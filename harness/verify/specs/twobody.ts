@@ -230,7 +230,14 @@ export const elementsSpec: VectorSpec = {
   routine: "elements",
   inputs: ["mu", "rx", "ry", "rz", "vx", "vy", "vz"],
   refs: [...ELEMENT_NAMES.map((n) => `${n}_ref`), "status_ref", ...ELEMENT_NAMES.map((n) => `cond_${n}`)],
-  compare: [...["a", "e", "p"].map((n) => against(n, "rel")), ...["i", "raan", "argp", "nu"].map((n) => against(n, "abs"))],
+  // e is absolute (its cond column stays relative, scaled by |e_ref|): e of a nearly circular orbit is about 1e-16,
+  // where a relative limit widened by the conditioning accepted 100% error or more on 203 of the 1200 rows.
+  compare: [
+    against("a", "rel"),
+    { ...against("e", "abs"), condRelative: true },
+    against("p", "rel"),
+    ...["i", "raan", "argp", "nu"].map((n) => against(n, "abs")),
+  ],
   generator: CONVERSION_GENERATOR,
   precision: "50 significant digits (more near e = 1), rounded to nearest double",
   notes: [

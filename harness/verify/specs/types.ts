@@ -23,6 +23,12 @@ export interface Comparison {
    * and max(max_ulp, cond_factor * cond) for `ulp` (cond then in ulps), max(max_abs, cond_factor * cond) for `abs`.
    */
   readonly cond?: string;
+  /**
+   * The `cond` column is relative (a change of the output over its size): on an `abs` comparison the limit then
+   * widens by cond_factor * cond * |want|. For outputs that are relative by nature but reach zero (e of a nearly
+   * circular orbit), where a relative limit would accept anything.
+   */
+  readonly condRelative?: boolean;
   /** Vector column with a revolution count; the relative limit scales by (1 + revs). */
   readonly revs?: string;
   /** For vector comparisons: several output/ref columns taken together as one vector (norm of the difference). */
