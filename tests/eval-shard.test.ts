@@ -50,7 +50,7 @@ describe("eval --shard", () => {
 
   it("the byte ranges tile the data exactly", () => {
     for (const [first, size, n] of [[10, 1000, 3], [4, 5, 9], [0, 2 ** 40 + 7, 1000]] as const) {
-      let at = first;
+      let at: number = first;
       for (let k = 1; k <= n; k++) {
         const { lo, hi } = shardBytes(first, size, k, n);
         expect(lo).toBe(at);
