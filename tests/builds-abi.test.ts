@@ -124,15 +124,17 @@ describe("the naive example module (examples/naive-kepler)", () => {
 
   it("`areal check --module` prints the skipped suites and the failures, and exits 1", () => {
     let out = "";
+    let err = "";
     let code = 0;
     try {
       out = execFileSync(process.execPath, [join(ROOT, "bin", "areal.mjs"), "check", "--module", path], { encoding: "utf8", stdio: ["ignore", "pipe", "pipe"] });
-    } catch (err) {
-      const e = err as { status: number; stdout: string };
+    } catch (caught) {
+      const e = caught as { status: number; stdout: string; stderr: string };
       code = e.status;
       out = e.stdout;
+      err = e.stderr;
     }
-    expect(code).toBe(1);
+    expect(code, err).toBe(1);
     expect(out).toMatch(/^skipped true-to-anomaly: the module has no true_to_anomaly/m);
     expect(out).toMatch(/FAIL kepler-elliptic: .*not-converged/);
     expect(out).toMatch(/^ {2}kepler-elliptic: e=[^]*? got [^]*?want /m);
