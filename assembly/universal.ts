@@ -90,9 +90,27 @@
 
 import { OK, ERR_NOT_CONVERGED, ERR_NONFINITE, ERR_OVERFLOW, FIRST_ERROR } from "./status";
 import { put, got } from "./io";
-import { IS_F32 } from "./real";
-import { MIN_NORMAL, checkState, sR, sV2, sRV, sH } from "./invariants";
-import { stumpff, C0, C1, C2, C3 } from "./stumpff";
+import { IS_F32, MIN_NORMAL, MAX_REAL, TWO_PI, THIRD } from "./real";
+import { checkState, twoBodyGet, TB_R, TB_V2, TB_RV, TB_H } from "./invariants";
+import { stumpff as stumpffOf, stumpffGet, SC0, SC1, SC2, SC3 } from "./stumpff";
+import { diffProd } from "./exact";
+
+// File-private copies of checkState's and stumpff's results (an interim step; the next commit passes them).
+let sR: real = 0;
+let sV2: real = 0;
+let sRV: real = 0;
+let sH: real = 0;
+let C0: real = 1;
+let C1: real = 1;
+let C2: real = 0.5;
+let C3: real = 0.16666666666666666;
+function stumpff(psi: real): void {
+  stumpffOf(psi);
+  C0 = stumpffGet(SC0);
+  C1 = stumpffGet(SC1);
+  C2 = stumpffGet(SC2);
+  C3 = stumpffGet(SC3);
+}
 import { kepler_elliptic } from "./kepler_elliptic";
 import { kepler_hyperbolic } from "./kepler_hyperbolic";
 import { kepler_parabolic } from "./kepler_parabolic";
@@ -118,11 +136,8 @@ const PARABOLIC_BAND: real = 0.01;
 const CHI_TURN: real = 5.25;
 /** The periapsis distance in the bracket is taken this much smaller (covers the rounding of e and p). */
 const RP_SAFETY: real = 0.99;
-const TWO_PI: real = IS_F32 ? <real>6.2831854820251465 : <real>6.283185307179586;
-const THIRD: real = <real>0.3333333333333333;
 /** Largest relative residual of the universal Kepler equation accepted at the final chi (2^-20). */
 const RESIDUAL_REL: real = <real>9.5367431640625e-7;
-const MAX_REAL: real = IS_F32 ? <real>3.4028234663852886e38 : <real>1.7976931348623157e308;
 
 /** Propagate (r0, v0) by dt under mu. Slots 0..5 = r, v; slot 6 = iterations. */
 export function propagate(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real): i32 {
@@ -130,6 +145,10 @@ export function propagate(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, 
   if (!isFinite(dt)) return ERR_NONFINITE;
   const st = checkState(mu, r0x, r0y, r0z, v0x, v0y, v0z);
   if (st != OK) return st;
+  sR = twoBodyGet(TB_R);
+  sV2 = twoBodyGet(TB_V2);
+  sRV = twoBodyGet(TB_RV);
+  sH = twoBodyGet(TB_H);
   // A subnormal mu has lost its relative precision (sqrt(mu) and mu alpha follow it): refused, not guessed.
   if (mu < MIN_NORMAL) return ERR_OVERFLOW;
   const sqmu = RMath.sqrt(mu);
@@ -280,30 +299,6 @@ function periapsisAnchor(mu: real, sqmu: real, alpha: real, rx: real, ry: real, 
   pRP = rp;
   pP = p;
   return isFinite(pTau) && isFinite(vp) && isFinite(qx + qy + qz) && rp > 0;
-}
-
-/** Veltkamp's splitting constant 2^s + 1 (s = 27 for f64, 12 for f32): splits a real into two halves. */
-const SPLIT: real = IS_F32 ? <real>4097.0 : <real>134217729.0;
-
-// The rounding error of ab = fl(a b), exactly (Dekker 1971, two-product by Veltkamp's splitting; needs
-// |a|, |b| below the largest real / SPLIT, else the result is not finite and the caller drops it).
-function twoProductError(a: real, b: real, ab: real): real {
-  const ta = SPLIT * a;
-  const ah = ta - (ta - a);
-  const al = a - ah;
-  const tb = SPLIT * b;
-  const bh = tb - (tb - b);
-  const bl = b - bh;
-  return ah * bh - ab + ah * bl + al * bh + al * bl;
-}
-
-// a b - c d to within a few ulps of the result, whatever the cancellation; the plain difference when the
-// splitting overflows.
-function diffProd(a: real, b: real, c: real, d: real): real {
-  const ab = a * b;
-  const cd = c * d;
-  const s = ab - cd + (twoProductError(a, b, ab) - twoProductError(c, d, cd));
-  return isFinite(s) ? s : ab - cd;
 }
 
 // Steps taken by the last solveChi; -1 when the cap was reached, -2 when sqrt(mu) dt overflows, HAIRPIN when
