@@ -53,9 +53,9 @@ import { checkScaled, scaleState, TB_R, TB_V2, TB_RV, TB_HX, TB_HY, TB_HZ, TB_H,
 import { putStateInFrame, scale2, exponent2, maxAbs3, norm3, speedScale, speedExp } from "./invariants";
 
 /** At or below this |e| the orbit is treated as circular: 2^-36 (f64), 2^-17 (f32). */
-export const CIRCULAR_E: real = IS_F32 ? <real>7.62939453125e-6 : <real>1.4551915228366852e-11;
+export const CIRCULAR_E: real = IS_F32 ? <real>7.62939453125e-6 : <real>1.4551915228366852e-11; // f64 0x3DB0000000000000, f32 0x37000000
 /** At or below this sin i the orbit is treated as equatorial: 2^-36 (f64), 2^-17 (f32). */
-export const EQUATORIAL_SIN_I: real = IS_F32 ? <real>7.62939453125e-6 : <real>1.4551915228366852e-11;
+export const EQUATORIAL_SIN_I: real = IS_F32 ? <real>7.62939453125e-6 : <real>1.4551915228366852e-11; // f64 0x3DB0000000000000, f32 0x37000000
 // Angle in [0, 2 pi) from atan2's (-pi, pi].
 function wrap(x: real): real {
   let y = x < 0 ? x + TWO_PI : x;
@@ -67,8 +67,8 @@ function wrap(x: real): real {
  * planeAngle's plain range for the largest |component| of each of h, d and x: 2^-300 .. 2^300 (f64),
  * 2^-36 .. 2^36 (f32), where the triple products h . (d x x) and |h| (d . x) stay normal.
  */
-const PA_LO: real = IS_F32 ? <real>1.4551915228366852e-11 : <real>4.909093465297727e-91;
-const PA_HI: real = IS_F32 ? <real>68719476736.0 : <real>2.037035976334486e90;
+const PA_LO: real = IS_F32 ? <real>1.4551915228366852e-11 : <real>4.909093465297727e-91; // f64 0x2D30000000000000, f32 0x2D800000
+const PA_HI: real = IS_F32 ? <real>68719476736.0 : <real>2.037035976334486e90; // f64 0x52B0000000000000, f32 0x51800000
 
 // Angle of (x, y, z) from direction (dx, dy, dz), in the plane with normal (hx, hy, hz) of length h, in the
 // direction of motion.

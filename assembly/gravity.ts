@@ -54,10 +54,10 @@ export function accelZ(): real {
 // the normal range come out with gradual underflow (absolute error below a few 2^-1074, or 2^-149 in f32).
 // (Before 2026-12 x^2 overflowed: gravity_zonal(398600.4418, 0, 0, 1, 1.797e308, 0, 0) gave potential 0,
 // true -2.2e-303.)
-const G_R2_LO: real = IS_F32 ? <real>8.673617379884035e-19 : <real>3.8725919148493183e-121; // 2^-60, 2^-400
-const G_R2_HI: real = IS_F32 ? <real>1152921504606846976.0 : <real>2.5822498780869086e120; // 2^60, 2^400
-const G_MU_LO: real = IS_F32 ? <real>9.313225746154785e-10 : <real>6.223015277861142e-61; // 2^-30, 2^-200
-const G_MU_HI: real = IS_F32 ? <real>1073741824.0 : <real>1.6069380442589903e60; // 2^30, 2^200
+const G_R2_LO: real = IS_F32 ? <real>8.673617379884035e-19 : <real>3.8725919148493183e-121; // 2^-60, 2^-400; f64 0x26F0000000000000, f32 0x21800000
+const G_R2_HI: real = IS_F32 ? <real>1152921504606846976.0 : <real>2.5822498780869086e120; // 2^60, 2^400; f64 0x58F0000000000000, f32 0x5D800000
+const G_MU_LO: real = IS_F32 ? <real>9.313225746154785e-10 : <real>6.223015277861142e-61; // 2^-30, 2^-200; f64 0x3370000000000000, f32 0x30800000
+const G_MU_HI: real = IS_F32 ? <real>1073741824.0 : <real>1.6069380442589903e60; // 2^30, 2^200; f64 0x4C70000000000000, f32 0x4E800000
 
 // Outside the window: x' = x 2^lengthExp(..), mu' = mu 2^muExp(mu) (finite x, y, z not all 0; mu > 0).
 function lengthExp(x: real, y: real, z: real): i32 {

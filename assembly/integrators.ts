@@ -53,7 +53,7 @@ export const INTEGRATE_MAX_STEPS: i32 = 1000000000;
 
 // Yoshida (1990), 4th order: w1 = 1/(2 - 2^(1/3)) = 1.3512071919596578 (correctly rounded; 2^(1/3) =
 // 1.2599210498948732); w0 = 1 - 2 w1 computed exactly, so the three sub-steps add up to exactly one step.
-const YOSHIDA_W1: real = <real>1.3512071919596578;
+const YOSHIDA_W1: real = <real>1.3512071919596578; // f64 0x3FF59E8B6EB96339, f32 0x3FACF45B
 const YOSHIDA_W0: real = <real>1.0 - <real>2.0 * YOSHIDA_W1;
 
 // The run: model, method, state and the acceleration at the current position (kept by Verlet/Yoshida).

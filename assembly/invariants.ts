@@ -53,7 +53,7 @@ const POW2_BITS: i32 = IS_F32 ? 7 : 10;
 /** Multiplications in scale2: |k| up to SCALE_STEPS * POW2_STEP (600 or 5000, beyond any exponent difference). */
 const SCALE_STEPS: i32 = 5;
 /** Top rung of exponent2's ladder, 2^(2^(EXP_RUNGS - 1)): 2^512 (f64), 2^64 (f32). */
-const EXP_TOP: real = IS_F32 ? <real>18446744073709551616.0 : <real>1.3407807929942597e154;
+const EXP_TOP: real = IS_F32 ? <real>18446744073709551616.0 : <real>1.3407807929942597e154; // f64 0x5FF0000000000000, f32 0x5F800000
 const EXP_RUNGS: i32 = IS_F32 ? 7 : 10;
 
 /** 2^k for |k| <= POW2_STEP, by repeated squaring (every factor is a power of two: exact). */
@@ -154,14 +154,14 @@ export function speedScale(mu: real, p: real): real {
 }
 
 /** norm3's plain range: 2^-500 .. 2^500 (f64), 2^-60 .. 2^60 (f32). */
-export const NORM_LO: real = IS_F32 ? <real>8.673617379884035e-19 : <real>3.054936363499605e-151;
-export const NORM_HI: real = IS_F32 ? <real>1152921504606846976.0 : <real>3.273390607896142e150;
+export const NORM_LO: real = IS_F32 ? <real>8.673617379884035e-19 : <real>3.054936363499605e-151; // f64 0x20B0000000000000, f32 0x21800000
+export const NORM_HI: real = IS_F32 ? <real>1152921504606846976.0 : <real>3.273390607896142e150; // f64 0x5F30000000000000, f32 0x5D800000
 
 /**
  * A state whose |r x v| is at most this fraction of |r| |v| is rectilinear (the sine of the angle between r
  * and v). 4 ulp of 1: the cross product of two parallel vectors rounded to the format is about that large.
  */
-export const RECTILINEAR_REL: real = IS_F32 ? <real>4.76837158203125e-7 : <real>8.881784197001252e-16; // 2^-21, 2^-50
+export const RECTILINEAR_REL: real = IS_F32 ? <real>4.76837158203125e-7 : <real>8.881784197001252e-16; // 2^-21, 2^-50; f64 0x3CD0000000000000, f32 0x35000000
 
 // ---- the two-body scratch (file-private: read only through twoBodyGet, scaledExpR, scaledExpV) ------------------------------------------------------------------------------
 // checkState and scaleState keep their results in this file's scratch (wasm globals, no linear memory); the
@@ -270,10 +270,10 @@ export function checkScaled(): i32 {
 // c1 r and (r . v) v are below 2^602 and the e vector below 2^902 (its norm: norm3). In general the bounds
 // need 4 w + m <= 900 for windows 2^+-w, 2^+-m. f32 (w = m = 16, RECTILINEAR_REL = 2^-21): |h|^2 >= 2^-106,
 // p in [2^-122, 2^84], 1 / a is 0 or above 2^-71.
-const WIN_RV_LO: real = IS_F32 ? <real>0.0000152587890625 : <real>7.006492321624085e-46; // 2^-16, 2^-150
-const WIN_RV_HI: real = IS_F32 ? <real>65536.0 : <real>1.42724769270596e45; // 2^16, 2^150
-const WIN_MU_LO: real = IS_F32 ? <real>0.0000152587890625 : <real>4.909093465297727e-91; // 2^-16, 2^-300
-const WIN_MU_HI: real = IS_F32 ? <real>65536.0 : <real>2.037035976334486e90; // 2^16, 2^300
+const WIN_RV_LO: real = IS_F32 ? <real>0.0000152587890625 : <real>7.006492321624085e-46; // 2^-16, 2^-150; f64 0x3690000000000000, f32 0x37800000
+const WIN_RV_HI: real = IS_F32 ? <real>65536.0 : <real>1.42724769270596e45; // 2^16, 2^150; f64 0x4950000000000000, f32 0x47800000
+const WIN_MU_LO: real = IS_F32 ? <real>0.0000152587890625 : <real>4.909093465297727e-91; // 2^-16, 2^-300; f64 0x2D30000000000000, f32 0x37800000
+const WIN_MU_HI: real = IS_F32 ? <real>65536.0 : <real>2.037035976334486e90; // 2^16, 2^300; f64 0x52B0000000000000, f32 0x47800000
 /** Largest exponent scaleState gives the largest |component| of v' (it lies in [2^-x, 2^(x+1))). */
 const WIN_V_EXP: i32 = IS_F32 ? 15 : 149;
 

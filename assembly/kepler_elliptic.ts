@@ -12,8 +12,8 @@
 //     method of order five; J. M. A. Danby and T. M. Burkardt, "The solution of Kepler's equation, I",
 //     Celest. Mech. 31 (1983) 95-107, give the same order as nested denominators; the reversion needs one
 //     division instead of four): d = -u (1 + A u + (2A^2 - B) u^2 + (5A^3 - 5AB + C) u^3), A = f''/2f',
-//     B = f'''/6f', C = f''''/24f'. Repeated until the step is below STOP_REL * E (in practice once: see
-//     STOP_REL); at most ELLIPTIC_MAX_ITER steps, else ERR_NOT_CONVERGED. sin E and cos E come from one
+//     B = f'''/6f', C = f''''/24f'. Repeated until the step is below ELLIPTIC_STOP_REL * E (in practice once: see
+//     ELLIPTIC_STOP_REL); at most ELLIPTIC_MAX_ITER steps, else ERR_NOT_CONVERGED. sin E and cos E come from one
 //     sincos call (one argument reduction).
 //     The residual is written f = (1 - e) E + e (E - sin E) - m, with 1 - e exact for e >= 1/2 (Sterbenz),
 //     E - sin E from its series for E <= 1 (series.ts), and f' = (1 - e) + e (1 - cos E) with
@@ -43,11 +43,11 @@ export const ELLIPTIC_MAX_ITER: i32 = 6;
  * within 2^-11 of the root on every case measured (3e6 random cases, every vector case), so one step is the rule
  * and a second step happens only for a starter worse than any seen.
  */
-const STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>0.00048828125; // 2^-11, 2^-9: 0x3F40000000000000, 0x3B000000
+const ELLIPTIC_STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>0.00048828125; // 2^-9, 2^-11; f64 0x3F40000000000000, f32 0x3B000000
 // Markley's constants: 3 pi^2, 1.6 pi, pi^2 - 6.
-const THREE_PI_SQ: real = <real>29.608813203268074;
-const PI_1_6: real = <real>5.026548245743669;
-const PI_SQ_MINUS_6: real = <real>3.869604401089358;
+const THREE_PI_SQ: real = <real>29.608813203268074; // f64 0x403D9BDB2E9D68CD, f32 0x41ECDED9
+const PI_1_6: real = <real>5.026548245743669; // f64 0x40141B2F769CF0E0, f32 0x40A0D97C
+const PI_SQ_MINUS_6: real = <real>3.869604401089358; // f64 0x400EF4F326F91778, f32 0x4077A799
 
 /** Solve E - e sin E = M. Writes E to slot 0 and the step count to slot 1. */
 export function kepler_elliptic(e: real, M: real): i32 {
@@ -127,7 +127,7 @@ function solveReduced(e: real, mh: real, ml: real): i32 {
     const C = -TWENTYFOURTH * f2 * r1; // f'''' = -e sin E
     const d4 = -u * (<real>1.0 + u * (A + u * ((<real>2.0 * A * A - B) + u * (A * (<real>5.0 * A * A - <real>5.0 * B) + C))));
     E += d4;
-    if (abs(d4) <= STOP_REL * E) {
+    if (abs(d4) <= ELLIPTIC_STOP_REL * E) {
       put(0, E);
       put(1, <real>it);
       return OK;

@@ -18,24 +18,23 @@
 //     any finite M and e (M up to 1.8e308 gives H about 710); ln e - ln(M + H) is taken as ln(e / (M + H))
 //     while that ratio is normal, so huge e and M do not leave an ulp of ln e (~600) in H.
 //     e > HUGE_E: the small-H residual and its derivatives are divided through by e (no e cosh H overflow).
-//  4. Stop when the step is below STOP_REL * H; at most HYPERBOLIC_MAX_ITER steps, else ERR_NOT_CONVERGED.
+//  4. Stop when the step is below HYPERBOLIC_STOP_REL * H; at most HYPERBOLIC_MAX_ITER steps, else ERR_NOT_CONVERGED.
 //
 // Output slots: 0 = H, 1 = iterations.
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED } from "./status";
 import { put, got } from "./io";
-import { IS_F32, MIN_NORMAL, SIXTH, KEPLER_LINEAR_MAX } from "./real";
+import { IS_F32, MIN_NORMAL, SIXTH, LN2, KEPLER_LINEAR_MAX } from "./real";
 import { ODD_SERIES_MAX, sinhMinusXSeries } from "./series";
 
 export const HYPERBOLIC_MAX_ITER: i32 = 8;
-const STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>3.814697265625e-6; // 2^-9, 2^-18
+const HYPERBOLIC_STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>3.814697265625e-6; // 2^-9, 2^-18; f64 0x3ED0000000000000, f32 0x3B000000
 /** Newton on the logarithmic form beyond this H (there exp(-2H) < 1e-17 and sinh H > 2e8). */
 const LOG_FORM_H: real = 20.0;
 /** The cubic starter is used below this H (there it is within 9% of the root; beyond, the asinh bound is closer). */
-const CUBIC_MAX: real = 2.2;
-const LN2: real = <real>0.6931471805599453;
+const CUBIC_MAX: real = 2.2; // f64 0x400199999999999A, f32 0x400CCCCD
 /** Above this e the small-H residual is evaluated divided through by e (2^1000, 2^120). */
-const HUGE_E: real = IS_F32 ? <real>1.329227995784916e36 : <real>1.0715086071862673e301;
+const HUGE_E: real = IS_F32 ? <real>1.329227995784916e36 : <real>1.0715086071862673e301; // f64 0x7E70000000000000, f32 0x7B800000
 
 /** Solve e sinh H - H = M. Writes H to slot 0 and the step count to slot 1. */
 export function kepler_hyperbolic(e: real, M: real): i32 {
@@ -117,7 +116,7 @@ function solvePositive(e: real, m: real): i32 {
     if (!(Hn > 0)) Hn = H * <real>0.25; // stay on the positive branch (the root is positive)
     const moved = abs(Hn - H);
     H = Hn;
-    if (moved <= STOP_REL * H) {
+    if (moved <= HYPERBOLIC_STOP_REL * H) {
       put(0, H);
       put(1, <real>it);
       return OK;

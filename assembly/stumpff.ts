@@ -27,7 +27,7 @@ import { F2, F3, F4, F5, F6, F7, F8, F9, F10, F11, F12, F13, F14, F15, F16, F17,
 /** Largest |psi| for the series (step 1). */
 const STUMPFF_SERIES_MAX: real = 4.0;
 /** Beyond this x = sqrt(-psi) the exponential form (step 4) is used: e^-x is below the format's rounding. */
-const EXP_FORM_X: real = IS_F32 ? <real>20.0 : <real>40.0;
+const EXP_FORM_X: real = IS_F32 ? <real>20.0 : <real>40.0; // f64 0x4044000000000000, f32 0x41A00000
 const EXP_FORM_PSI: real = EXP_FORM_X * EXP_FORM_X;
 
 

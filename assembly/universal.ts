@@ -32,7 +32,7 @@
 //     chi -= 5 F / (F' + sqrt|16 F'^2 - 20 F F''|) (evaluated divided through by F' = r0 U0 + sigma0 U1 + U2
 //     = r > 0, so no square overflows),
 //     F'' = sigma0 U0 + (1 - alpha r0) U1. Every F narrows the bracket; a step that leaves it is replaced by
-//     bisection. Stop when a step is below STOP_REL |chi| (the method is cubic: the next step would be below
+//     bisection. Stop when a step is below UNIVERSAL_STOP_REL |chi| (the method is cubic: the next step would be below
 //     2^-78 |chi|); at most UNIVERSAL_MAX_ITER steps, else ERR_NOT_CONVERGED.
 //  7. Hairpin (alpha <= 0 only): on an arc that swings past periapsis from far out, the expansion about r0
 //     cancels: the terms of F grow like e^|delta H| while sqrt(mu) dt and r grow like e^|H0| + e^|H1|, and
@@ -112,15 +112,15 @@ const U3_DIFF_PSI: real = 4.0;
 /** Iteration cap (Laguerre steps plus bisection fallbacks). */
 export const UNIVERSAL_MAX_ITER: i32 = 40;
 /** Stop once a step is below this fraction of chi: 2^-26 (f64), 2^-12 (f32); cubic convergence does the rest. */
-const STOP_REL: real = IS_F32 ? <real>0.000244140625 : <real>1.4901161193847656e-8; // 0x3E50000000000000, 0x39800000
+const UNIVERSAL_STOP_REL: real = IS_F32 ? <real>0.000244140625 : <real>1.4901161193847656e-8; // f64 0x3E50000000000000, f32 0x39800000
 /** Below this |1 - e| the starter comes from Barker's equation, where E- and H-based forms lose digits. */
-const PARABOLIC_BAND: real = 0.01;
+const PARABOLIC_BAND: real = 0.01; // f64 0x3F847AE147AE147B, f32 0x3C23D70A
 /** |delta E| bound after the reduction of whole revolutions: pi + 2 = 5.14, rounded up. */
 const CHI_TURN: real = 5.25;
 /** The periapsis distance in the bracket is taken this much smaller (covers the rounding of e and p). */
-const RP_SAFETY: real = 0.99;
+const RP_SAFETY: real = 0.99; // f64 0x3FEFAE147AE147AE, f32 0x3F7D70A4
 /** Largest relative residual of the universal Kepler equation accepted at the final chi (2^-20). */
-const RESIDUAL_REL: real = <real>9.5367431640625e-7; // 0x3EB0000000000000, 0x35800000
+const RESIDUAL_REL: real = <real>9.5367431640625e-7; // f64 0x3EB0000000000000, f32 0x35800000
 
 
 // ---- the universal-variable solution, for propagate and for other kernels ------------------------------
@@ -475,7 +475,7 @@ function laguerreConway(sqmu: real, r0: real, sigma0: real, alpha: real, sdt: re
     if (!(next >= lo && next <= hi)) next = <real>0.5 * (lo + hi); // closed: chi itself may be an end
     const step = abs(next - chi);
     chi = next;
-    if (step <= STOP_REL * abs(chi)) return putChi(chi, it);
+    if (step <= UNIVERSAL_STOP_REL * abs(chi)) return putChi(chi, it);
   }
   uvChi = chi;
   uvIter = <real>UNIVERSAL_MAX_ITER;
