@@ -38,15 +38,12 @@
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE, ERR_OVERFLOW } from "./status";
 import { put } from "./io";
+import { METHOD_RK4, METHOD_VERLET, METHOD_YOSHIDA4, METHOD_BUTCHER6 } from "./abi";
 import { SIXTH, THIRD, TWO_THIRDS } from "./real";
 import { accel, accelX, accelY, accelZ, potential } from "./gravity";
 import { monitorBegin, monitorUpdate, monitorFinite, monitorPut } from "./monitor";
 
-export const METHOD_RK4: i32 = 0;
-export const METHOD_VERLET: i32 = 1;
-export const METHOD_YOSHIDA4: i32 = 2;
-export const METHOD_BUTCHER6: i32 = 3;
-const METHOD_LAST: i32 = 3;
+const METHOD_LAST: i32 = METHOD_BUTCHER6;
 
 /** Most steps one call may take. */
 export const INTEGRATE_MAX_STEPS: i32 = 1000000000;

@@ -15,8 +15,8 @@
 import { describe, it, expect } from "vitest";
 import { readFileSync, readdirSync } from "node:fs";
 import { join } from "node:path";
-import { ROOT } from "../harness/paths.js";
-import { decimalAt, exact, toDouble, piOf, type Dec } from "../harness/reference/decimal.js";
+import { ROOT } from "../harness/core/paths.js";
+import { decimalAt, exact, toDouble, piOf, type Dec } from "../harness/verify/reference/decimal.js";
 
 const ASSEMBLY = join(ROOT, "assembly");
 const FILES = readdirSync(ASSEMBLY).filter((f) => f.endsWith(".ts"));

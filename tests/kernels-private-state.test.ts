@@ -13,14 +13,14 @@
 import { describe, it, expect } from "vitest";
 import { readFileSync, readdirSync, existsSync } from "node:fs";
 import { join } from "node:path";
-import { ROOT } from "../harness/paths.js";
-import { loadBuild, type Kernels } from "../harness/load.js";
-import { loadJsBuild, loadJsModule } from "../harness/jsbuild.js";
-import { SPECS } from "../harness/specs/index.js";
-import { readVectors, vectorPath } from "../harness/vectors.js";
-import { ROUTINES, findRoutine } from "../harness/routines.js";
-import { Rng } from "../harness/rng.js";
-import { toBits } from "../harness/float.js";
+import { ROOT } from "../harness/core/paths.js";
+import { loadBuild, type Kernels } from "../harness/module/load.js";
+import { loadJsBuild, loadJsModule } from "../harness/module/jsbuild.js";
+import { SPECS } from "../harness/verify/specs/index.js";
+import { readVectors, vectorPath } from "../harness/verify/vectors.js";
+import { ROUTINES, findRoutine } from "../harness/module/routines.js";
+import { Rng } from "../harness/core/rng.js";
+import { toBits } from "../harness/core/float.js";
 
 const ASSEMBLY = join(ROOT, "assembly");
 
