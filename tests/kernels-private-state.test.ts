@@ -1,7 +1,10 @@
 /**
  * Kernels with private state only (issue 14, item 2):
  *  1. no `export let` / `export var` anywhere in assembly/ (read from the sources): what one kernel needs from
- *     another goes through arguments, return values or a file's own documented scratch read by accessors;
+ *     another goes through arguments, return values or a file's own documented scratch read by accessors. One
+ *     named exception: the bench-only counting build's CountingMath.sincos_sin / sincos_cos (counting_math.ts),
+ *     which mirror the standard library's NativeMath interface that RMath must offer (the reason is beside them);
+ *     the counting build is never part of a shipped module;
  *  2. no hidden coupling between kernels: every probe call gives the same status and the same bits in its
  *     documented output slots whether its routine runs first in a fresh module, after every other routine, before
  *     every other routine, or interleaved with them in a seeded random order (release, single-precision and
@@ -34,12 +37,20 @@ function exportedMutables(file: string, src: string): string[] {
   return stripComments(src).split("\n").flatMap((line, i) => (/^\s*export\s+(declare\s+)?(let|var)\b/.test(line) ? [`${file}:${i + 1}: ${line.trim()}`] : []));
 }
 
+/** The one allowed pair (see the file header), exactly as declared. */
+const ALLOWED = new Set([
+  "counting_math.ts: export let sincos_sin: f64 = 0;",
+  "counting_math.ts: export let sincos_cos: f64 = 0;",
+]);
+
 describe("no exported mutable variable in assembly/", () => {
-  it("every assembly/*.ts source declares none", () => {
+  it("every assembly/*.ts source declares none (but the named mirror of NativeMath's sincos results)", () => {
     const files = readdirSync(ASSEMBLY).filter((f) => f.endsWith(".ts"));
     expect(files.length).toBeGreaterThan(15);
     const found = files.flatMap((f) => exportedMutables(f, readFileSync(join(ASSEMBLY, f), "utf8")));
-    expect(found, found.join("\n")).toEqual([]);
+    const other = found.filter((l) => !ALLOWED.has(l.replace(/:\d+:/, ":")));
+    expect(other, other.join("\n")).toEqual([]);
+    expect(found.length).toBe(ALLOWED.size); // the exception is still there, once each (else drop it from ALLOWED)
   });
 
   it("the scan can fail: it finds the forms it looks for and skips comments", () => {
