@@ -160,3 +160,36 @@ export const INTEGRATION_ENERGY_DEV_NOW: i32 = 24; // 1
 export const INTEGRATION_H_DEV_NOW: i32 = 25; // 1
 export const INTEGRATION_ECC_DEV_NOW: i32 = 26; // 1
 export const INTEGRATION_AREAL_DEV_NOW: i32 = 27; // 1
+
+// to_relative
+export const TO_RELATIVE_X: i32 = 0; // length
+export const TO_RELATIVE_Y: i32 = 1; // length
+export const TO_RELATIVE_Z: i32 = 2; // length
+export const TO_RELATIVE_VX: i32 = 3; // length/time
+export const TO_RELATIVE_VY: i32 = 4; // length/time
+export const TO_RELATIVE_VZ: i32 = 5; // length/time
+
+// from_relative
+export const FROM_RELATIVE_RDX: i32 = 0; // length
+export const FROM_RELATIVE_RDY: i32 = 1; // length
+export const FROM_RELATIVE_RDZ: i32 = 2; // length
+export const FROM_RELATIVE_VDX: i32 = 3; // length/time
+export const FROM_RELATIVE_VDY: i32 = 4; // length/time
+export const FROM_RELATIVE_VDZ: i32 = 5; // length/time
+
+// relative_motion
+export const RELATIVE_MOTION_X: i32 = 0; // length
+export const RELATIVE_MOTION_Y: i32 = 1; // length
+export const RELATIVE_MOTION_Z: i32 = 2; // length
+export const RELATIVE_MOTION_VX: i32 = 3; // length/time
+export const RELATIVE_MOTION_VY: i32 = 4; // length/time
+export const RELATIVE_MOTION_VZ: i32 = 5; // length/time
+
+// rendezvous_linear
+export const RENDEZVOUS_LINEAR_DV1X: i32 = 0; // length/time
+export const RENDEZVOUS_LINEAR_DV1Y: i32 = 1; // length/time
+export const RENDEZVOUS_LINEAR_DV1Z: i32 = 2; // length/time
+export const RENDEZVOUS_LINEAR_DV2X: i32 = 3; // length/time
+export const RENDEZVOUS_LINEAR_DV2Y: i32 = 4; // length/time
+export const RENDEZVOUS_LINEAR_DV2Z: i32 = 5; // length/time
+export const RENDEZVOUS_LINEAR_COND: i32 = 6; // 1

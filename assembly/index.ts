@@ -11,3 +11,5 @@ export { equinoctial, from_equinoctial } from "./equinoctial";
 export { invariants } from "./invariants";
 export { gravity_zonal } from "./gravity";
 export { integrate, integrate_begin, integrate_step } from "./integrators";
+export { to_relative, from_relative, relative_motion } from "./relative";
+export { rendezvous_linear } from "./rendezvous";

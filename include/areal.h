@@ -154,6 +154,31 @@ typedef double areal_real;
 #define AREAL_SLOT_INTEGRATION_H_DEV_NOW 25 /* 1 */
 #define AREAL_SLOT_INTEGRATION_ECC_DEV_NOW 26 /* 1 */
 #define AREAL_SLOT_INTEGRATION_AREAL_DEV_NOW 27 /* 1 */
+#define AREAL_SLOT_TO_RELATIVE_X 0 /* length */
+#define AREAL_SLOT_TO_RELATIVE_Y 1 /* length */
+#define AREAL_SLOT_TO_RELATIVE_Z 2 /* length */
+#define AREAL_SLOT_TO_RELATIVE_VX 3 /* length/time */
+#define AREAL_SLOT_TO_RELATIVE_VY 4 /* length/time */
+#define AREAL_SLOT_TO_RELATIVE_VZ 5 /* length/time */
+#define AREAL_SLOT_FROM_RELATIVE_RDX 0 /* length */
+#define AREAL_SLOT_FROM_RELATIVE_RDY 1 /* length */
+#define AREAL_SLOT_FROM_RELATIVE_RDZ 2 /* length */
+#define AREAL_SLOT_FROM_RELATIVE_VDX 3 /* length/time */
+#define AREAL_SLOT_FROM_RELATIVE_VDY 4 /* length/time */
+#define AREAL_SLOT_FROM_RELATIVE_VDZ 5 /* length/time */
+#define AREAL_SLOT_RELATIVE_MOTION_X 0 /* length */
+#define AREAL_SLOT_RELATIVE_MOTION_Y 1 /* length */
+#define AREAL_SLOT_RELATIVE_MOTION_Z 2 /* length */
+#define AREAL_SLOT_RELATIVE_MOTION_VX 3 /* length/time */
+#define AREAL_SLOT_RELATIVE_MOTION_VY 4 /* length/time */
+#define AREAL_SLOT_RELATIVE_MOTION_VZ 5 /* length/time */
+#define AREAL_SLOT_RENDEZVOUS_LINEAR_DV1X 0 /* length/time */
+#define AREAL_SLOT_RENDEZVOUS_LINEAR_DV1Y 1 /* length/time */
+#define AREAL_SLOT_RENDEZVOUS_LINEAR_DV1Z 2 /* length/time */
+#define AREAL_SLOT_RENDEZVOUS_LINEAR_DV2X 3 /* length/time */
+#define AREAL_SLOT_RENDEZVOUS_LINEAR_DV2Y 4 /* length/time */
+#define AREAL_SLOT_RENDEZVOUS_LINEAR_DV2Z 5 /* length/time */
+#define AREAL_SLOT_RENDEZVOUS_LINEAR_COND 6 /* 1 */
 
 #ifdef __cplusplus
 extern "C" {
@@ -206,6 +231,14 @@ AREAL_API(integrate) int32_t integrate(areal_real mu, areal_real r0x, areal_real
 AREAL_API(integrate_begin) int32_t integrate_begin(areal_real mu, areal_real r0x, areal_real r0y, areal_real r0z, areal_real v0x, areal_real v0y, areal_real v0z, areal_real step, int32_t method, areal_real j2, areal_real j3, areal_real radius, areal_real energy_budget, areal_real h_budget, areal_real ecc_budget, areal_real areal_budget);
 /* advances the run started by integrate_begin by n steps. Slots: rx, ry, rz, vx, vy, vz, energy_dev, h_dev, ecc_dev, areal_dev, energy_step, h_step, ecc_step, areal_step, k, t, energy, hx, hy, hz, ex, ey, ez, areal_velocity, energy_dev_now, h_dev_now, ecc_dev_now, areal_dev_now. Returns a status. */
 AREAL_API(integrate_step) int32_t integrate_step(int32_t n);
+/* deputy inertial state -> relative state in the chief's rotating frame (x radial, z along h, y = z x x). Slots: x, y, z, vx, vy, vz. Returns a status. */
+AREAL_API(to_relative) int32_t to_relative(areal_real rcx, areal_real rcy, areal_real rcz, areal_real vcx, areal_real vcy, areal_real vcz, areal_real rdx, areal_real rdy, areal_real rdz, areal_real vdx, areal_real vdy, areal_real vdz);
+/* relative state in the chief's rotating frame -> deputy inertial state. Slots: rdx, rdy, rdz, vdx, vdy, vdz. Returns a status. */
+AREAL_API(from_relative) int32_t from_relative(areal_real rcx, areal_real rcy, areal_real rcz, areal_real vcx, areal_real vcy, areal_real vcz, areal_real x, areal_real y, areal_real z, areal_real vx, areal_real vy, areal_real vz);
+/* first-order relative state after dt about an elliptic chief (Yamanaka & Ankersen 2002), rotating frame. Slots: x, y, z, vx, vy, vz. Returns a status. */
+AREAL_API(relative_motion) int32_t relative_motion(areal_real mu, areal_real rcx, areal_real rcy, areal_real rcz, areal_real vcx, areal_real vcy, areal_real vcz, areal_real x0, areal_real y0, areal_real z0, areal_real vx0, areal_real vy0, areal_real vz0, areal_real dt);
+/* two-impulse rendezvous in the linear model: dv1 at t0, dv2 at t0 + dt reaching (xf, yf, zf) at rest; conditioning. Slots: dv1x, dv1y, dv1z, dv2x, dv2y, dv2z, cond. Returns a status. */
+AREAL_API(rendezvous_linear) int32_t rendezvous_linear(areal_real mu, areal_real rcx, areal_real rcy, areal_real rcz, areal_real vcx, areal_real vcy, areal_real vcz, areal_real x0, areal_real y0, areal_real z0, areal_real vx0, areal_real vy0, areal_real vz0, areal_real xf, areal_real yf, areal_real zf, areal_real dt);
 
 #ifdef __cplusplus
 }

@@ -4,7 +4,8 @@
  * kernel `propagate` over the time of flight, lands on r2.
  */
 import { describe, it, expect } from "vitest";
-import { release, mutant } from "./helpers.js";
+import { release, mutant, outs, R, V } from "./helpers.js";
+import { slotsOf } from "../harness/module/routines.js";
 import { runSuite } from "../harness/verify/check.js";
 import { lambertSpec } from "../harness/verify/specs/lambert.js";
 import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
@@ -23,12 +24,15 @@ const nearPi = (tag: string): boolean => tag.startsWith("near-180") || tag.start
 const TARGET = 1e-11;
 const CLOSURE = 1e-10;
 
+/** Output slots of lambert (ABI table). */
+const L = slotsOf("lambert", "v1x", "v1y", "v1z");
 const norm = (a: readonly number[]): number => Math.hypot(a[0]!, a[1]!, a[2]!);
 const diff = (a: readonly number[], b: readonly number[]): number[] => [a[0]! - b[0]!, a[1]! - b[1]!, a[2]! - b[2]!];
 
 function solve(k: Kernels, row: readonly number[]): { status: number; v1: number[]; v2: number[]; iterations: number } {
   const status = k.call("lambert", INPUTS.map((j) => row[j]!));
-  return { status, v1: Array.from(k.out.slice(0, 3)), v2: Array.from(k.out.slice(3, 6)), iterations: k.out[6]! };
+  const [v1x, v1y, v1z, v2x, v2y, v2z, iterations] = outs(k, "lambert", "v1x", "v1y", "v1z", "v2x", "v2y", "v2z", "iterations") as number[];
+  return { status, v1: [v1x!, v1y!, v1z!], v2: [v2x!, v2y!, v2z!], iterations: iterations! };
 }
 
 describe("lambert: accuracy against the references", () => {
@@ -75,7 +79,7 @@ describe("lambert: accuracy against the references", () => {
   it("a mutant 1e-10 off in v1 on the multi-revolution cases only fails the suite", () => {
     const k = release();
     const m = mutant(k, (name, args, out, st) => {
-      if (name === "lambert" && args[8]! >= 1) out[0] = out[0]! + 1e-10 * norm(Array.from(out.slice(0, 3)));
+      if (name === "lambert" && args[8]! >= 1) out[L.v1x] = out[L.v1x]! + 1e-10 * norm([out[L.v1x]!, out[L.v1y]!, out[L.v1z]!]);
       return st;
     });
     const r = runSuite(lambertSpec, m);
@@ -97,8 +101,8 @@ describe("lambert: closure with the universal-variable propagator", () => {
       const st = k.call("propagate", [mu!, r1x!, r1y!, r1z!, s.v1[0]!, s.v1[1]!, s.v1[2]!, tof!]);
       expect(st).toBe(0);
       const r2 = [r2x!, r2y!, r2z!];
-      const eR = norm(diff(Array.from(k.out.slice(0, 3)), r2)) / norm(r2);
-      const eV = norm(diff(Array.from(k.out.slice(3, 6)), s.v2)) / norm(s.v2);
+      const eR = norm(diff(outs(k, "propagate", ...R), r2)) / norm(r2);
+      const eV = norm(diff(outs(k, "propagate", ...V), s.v2)) / norm(s.v2);
       worstR = Math.max(worstR, eR);
       if (!nearPi(v.tags[r]!)) worstV = Math.max(worstV, eV);
       worstCond = Math.max(worstCond, row[COND1]!);

@@ -7,9 +7,14 @@
 import { describe, it, expect } from "vitest";
 import { release, single } from "./helpers.js";
 import { loadBuild, type Kernels } from "../harness/module/load.js";
+import { slotsOf } from "../harness/module/routines.js";
 import { runSuite } from "../harness/verify/check.js";
 import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
 import { TWOBODY_SPECS, elementsSpec, propagateSpec } from "../harness/verify/specs/twobody.js";
+
+/** The slots the mutants below tamper with, by their ABI names. */
+const P = slotsOf("propagate", "rx", "ry", "rz", "vx", "vy", "iterations");
+const EL = slotsOf("elements", "argp");
 
 function mutant(k: Kernels, tamper: (name: string, out: Float64Array | Float32Array, status: number) => number): Kernels {
   return { ...k, label: "mutant", has: (n) => k.has(n), arity: (n) => k.arity(n), call: (name, args) => tamper(name, k.out, k.call(name, args)) };
@@ -64,7 +69,7 @@ describe("two-body suites against the decimal.js references", () => {
 describe("mutants are rejected", () => {
   it("r off by 2e-13 relative on well-conditioned cases: propagate fails", () => {
     const m = mutant(release(), (name, out, st) => {
-      if (name === "propagate") for (let j = 0; j < 3; j++) out[j] = out[j]! * (1 + 2e-13);
+      if (name === "propagate") for (const j of [P.rx, P.ry, P.rz]) out[j] = out[j]! * (1 + 2e-13);
       return st;
     });
     const r = runSuite(propagateSpec, m);
@@ -75,9 +80,9 @@ describe("mutants are rejected", () => {
   it("v rotated by 1e-12 rad: propagate fails on v", () => {
     const m = mutant(release(), (name, out, st) => {
       if (name === "propagate") {
-        const [x, y] = [out[3]!, out[4]!];
-        out[3] = x - 1e-12 * y;
-        out[4] = y + 1e-12 * x;
+        const [x, y] = [out[P.vx]!, out[P.vy]!];
+        out[P.vx] = x - 1e-12 * y;
+        out[P.vy] = y + 1e-12 * x;
       }
       return st;
     });
@@ -89,7 +94,7 @@ describe("mutants are rejected", () => {
   it("one iteration too many on one case: the iteration limit fails", () => {
     let n = 0;
     const m = mutant(release(), (name, out, st) => {
-      if (name === "propagate" && n++ === 100) out[6] = 5;
+      if (name === "propagate" && n++ === 100) out[P.iterations] = 5;
       return st;
     });
     expect(runSuite(propagateSpec, m).reasons.join()).toMatch(/iterations 5 > 4/);
@@ -97,7 +102,7 @@ describe("mutants are rejected", () => {
 
   it("argp swapped for its supplement on eccentric orbits: elements fails", () => {
     const m = mutant(release(), (name, out, st) => {
-      if (name === "elements" && st === 0) out[4] = (2 * Math.PI - out[4]!) % (2 * Math.PI);
+      if (name === "elements" && st === 0) out[EL.argp] = (2 * Math.PI - out[EL.argp]!) % (2 * Math.PI);
       return st;
     });
     expect(runSuite(elementsSpec, m).pass).toBe(false);

@@ -8,7 +8,7 @@
  * then a, p by L, energy by L^2 / T^2, h by L^2 / T, leaving e and every angle unchanged).
  */
 import { describe, it, expect } from "vitest";
-import { release, single } from "./helpers.js";
+import { release, single, run, outs, R, V } from "./helpers.js";
 import { statusCode, isOk } from "../harness/module/status.js";
 import { limitsFor } from "../harness/verify/limits.js";
 import { Dec, exact, toDouble } from "../harness/verify/reference/decimal.js";
@@ -56,13 +56,14 @@ describe("the shrunk fuzz cases (release f64)", () => {
   it("invariants(1, 0, 0, 1.57e-162, 1, 0, 0): energy -6.36e161 (was -4.50e161 from a subnormal |r|^2)", () => {
     const k = release();
     const x = [1, 0, 0, 1.5717277847026288e-162, 1, 0, 0];
-    expect(k.call("invariants", x)).toBe(0);
+    const [st, ...got] = run(k, "invariants", x);
+    expect(st).toBe(0);
     const ref = referenceInvariants(x);
     // Closed form beside the reference: energy = 1/2 - 1 / r_z.
     const P = Dec;
     const closed = toDouble(new P(0.5).minus(new P(1).div(exact(P, x[3]!))));
     expect(ref[0]).toBe(closed);
-    for (let j = 0; j < 11; j++) expect(Math.abs(k.out[j]! - ref[j]!), `slot ${j}`).toBeLessThanOrEqual(2 * ulp(ref[j]!));
+    got.forEach((g, j) => expect(Math.abs(g - ref[j]!), `slot ${j}`).toBeLessThanOrEqual(2 * ulp(ref[j]!)));
   });
 
   it("elements and equinoctial(2^53, 1, 0, 0, 0, 0, 1.57e-162): p = |h|^2 / mu is below the smallest subnormal, so ERR_OVERFLOW (was ok with p = 0)", () => {
@@ -78,19 +79,20 @@ describe("the shrunk fuzz cases (release f64)", () => {
   it("gravity_zonal(398600.4418, 0, 0, 1, 1.797e308, 0, 0): potential -mu / x = -2.2e-303 (was 0: x^2 overflowed)", () => {
     const k = release();
     const x = [WGS84_MU, 0, 0, 1, 1.7976931348623157e308, 0, 0];
-    expect(k.call("gravity_zonal", x)).toBe(0);
+    const [st, ax, ay, az, potential] = run(k, "gravity_zonal", x);
+    expect(st).toBe(0);
     // Closed form (point mass on the x axis): V = -mu / x; |a| = mu / x^2 = 1.2e-611 rounds to 0.
-    const V = toDouble(exact(Dec, x[0]!).div(exact(Dec, x[4]!)).neg());
-    expect(Math.abs(k.out[3]! - V)).toBeLessThanOrEqual(ulp(V));
+    const Vx = toDouble(exact(Dec, x[0]!).div(exact(Dec, x[4]!)).neg());
+    expect(Math.abs(potential! - Vx)).toBeLessThanOrEqual(ulp(Vx));
     expect(exact(Dec, x[0]!).div(exact(Dec, x[4]!).pow(2)).lt(new Dec(2).pow(-1075))).toBe(true);
-    expect([k.out[0], k.out[1], k.out[2]].map((x) => Math.abs(x!))).toEqual([0, 0, 0]);
+    expect([ax, ay, az].map((x) => Math.abs(x!))).toEqual([0, 0, 0]);
   });
 
   it("elements(3.644e87, 0, 0, 5.477e-42, 0, 2.987e141, 1.497e95): argp = pi/2 (was atan2(inf, inf) = pi/4)", () => {
     const k = release();
     const x = [3.6441290401938015e87, 0, 0, 5.476838825121511e-42, 0, 2.9868319155013313e141, 1.4965356800959194e95];
-    expect(isOk(k.call("elements", x))).toBe(true);
-    const got = Array.from(k.out.slice(0, 7));
+    const [st, ...got] = run(k, "elements", x);
+    expect(isOk(st)).toBe(true);
     const ref = referenceElements(x);
     expect(ref[4]).toBe(Math.PI / 2);
     expectElements(got, ref, "elements");
@@ -115,31 +117,30 @@ describe("an orbit in extreme units: right answer or ERR_OVERFLOW, never a wrong
     let refused = 0;
     for (const { a, b, x } of scaled) {
       const what = `lengths x 2^${a}, times x 2^${b}`;
-      const se = k.call("elements", x);
+      const [se, ...got] = run(k, "elements", x);
       if (isOk(se)) {
         ok++;
-        const got = Array.from(k.out.slice(0, 7));
         const want = refEl.slice(0, 7).map((v, j) => (j === 0 || j === 6 ? v * 2 ** a : v));
         expectElements(got, [...want, ...refEl.slice(7)], `elements, ${what}`);
       } else {
         refused++;
         expect(se, what).toBe(OVERFLOW);
       }
-      const sq = k.call("equinoctial", x);
+      const [sq, ...eq] = run(k, "equinoctial", x);
       expect(isOk(sq) ? "ok" : sq, what).toBe(isOk(se) ? "ok" : OVERFLOW);
       if (isOk(sq)) {
-        expect(Math.abs(k.out[0]! / 2 ** a - refEq[0]!)).toBeLessThanOrEqual(1e-14 * refEq[0]!);
-        for (let j = 1; j < 5; j++) expect(Math.abs(k.out[j]! - refEq[j]!), `${what}: slot ${j}`).toBeLessThanOrEqual(1e-14);
-        expect(angleDiff(k.out[5]!, refEq[5]!)).toBeLessThanOrEqual(1e-14);
+        expect(Math.abs(eq[0]! / 2 ** a - refEq[0]!)).toBeLessThanOrEqual(1e-14 * refEq[0]!);
+        for (let j = 1; j < 5; j++) expect(Math.abs(eq[j]! - refEq[j]!), `${what}: slot ${j}`).toBeLessThanOrEqual(1e-14);
+        expect(angleDiff(eq[5]!, refEq[5]!)).toBeLessThanOrEqual(1e-14);
       }
-      const si = k.call("invariants", x);
+      const [si, ...inv] = run(k, "invariants", x);
       if (isOk(si)) {
         const scale = [2 * (a - b), 2 * a - b, 2 * a - b, 2 * a - b, 2 * a - b, 0, 0, 0, 0, 2 * a - b, 0];
         for (let j = 0; j < 11; j++) {
           const want = refInv[j]! * 2 ** scale[j]!;
           // e vector components are absolute (their scale is 1); the rest relative.
           const tol = j >= 5 && j <= 8 ? 1e-14 : 1e-14 * Math.abs(want);
-          expect(Math.abs(k.out[j]! - want), `invariants, ${what}: slot ${j}`).toBeLessThanOrEqual(tol);
+          expect(Math.abs(inv[j]! - want), `invariants, ${what}: slot ${j}`).toBeLessThanOrEqual(tol);
         }
       } else {
         expect(si, what).toBe(OVERFLOW);
@@ -160,8 +161,9 @@ describe("an orbit in extreme units: right answer or ERR_OVERFLOW, never a wrong
     // |r| ~ 2^-517: |r|^2 ~ 2^-1034 is subnormal (lengths and times x 2^-530).
     const tiny = [BASE[0] * 2 ** -530, ...BASE.slice(1, 4).map((v) => v * 2 ** -530), ...BASE.slice(4)];
     expect(tiny[1]! ** 2 < 2 ** -1022).toBe(true);
-    expect(isOk(k.call("elements", tiny))).toBe(true);
-    expectElements(Array.from(k.out.slice(0, 7)), referenceElements(tiny), "tiny units");
+    const [st, ...got] = run(k, "elements", tiny);
+    expect(isOk(st)).toBe(true);
+    expectElements(got, referenceElements(tiny), "tiny units");
     // |r| ~ 2^613, |v| ~ 2^603: both squares overflow (lengths x 2^600, times x 1 ... mu x 2^600 after times x 2^600).
     const huge = [BASE[0] * 2 ** 600, ...BASE.slice(1, 4).map((v) => v * 2 ** 600), ...BASE.slice(4).map((v) => v * 2 ** 600)];
     huge[0] = BASE[0] * 2 ** 1000 * 2 ** 800; // mu x L^3 / T^2 with L = 2^600, T = 1
@@ -170,8 +172,9 @@ describe("an orbit in extreme units: right answer or ERR_OVERFLOW, never a wrong
     } else {
       // mu itself is beyond the doubles: the same orbit with times x 2^600 (v unscaled, mu x 2^600).
       const h2 = [BASE[0] * 2 ** 600, ...BASE.slice(1, 4).map((v) => v * 2 ** 600), ...BASE.slice(4)];
-      expect(isOk(k.call("elements", h2))).toBe(true);
-      expectElements(Array.from(k.out.slice(0, 7)), referenceElements(h2), "huge units");
+      const [st2, ...got2] = run(k, "elements", h2);
+      expect(isOk(st2)).toBe(true);
+      expectElements(got2, referenceElements(h2), "huge units");
     }
   });
 });
@@ -183,8 +186,8 @@ describe("elements -> state with mu / p or p out of the normal range", () => {
     const x = [1.2345e-301, 1.5e18, 0.3, 0.5, 1, 2, 0.7];
     expect(k.call("state_p", x)).toBe(0);
     const ref = referenceStateP(x);
-    expect(relVec(Array.from(k.out.slice(0, 3)), ref.slice(0, 3))).toBeLessThanOrEqual(Math.max(lim.max_rel!, lim.cond_factor! * ref[6]!));
-    expect(relVec(Array.from(k.out.slice(3, 6)), ref.slice(3, 6))).toBeLessThanOrEqual(Math.max(lim.max_rel!, lim.cond_factor! * ref[7]!));
+    expect(relVec(outs(k, "state_p", ...R), ref.slice(0, 3))).toBeLessThanOrEqual(Math.max(lim.max_rel!, lim.cond_factor! * ref[6]!));
+    expect(relVec(outs(k, "state_p", ...V), ref.slice(3, 6))).toBeLessThanOrEqual(Math.max(lim.max_rel!, lim.cond_factor! * ref[7]!));
   });
 
   it("from_equinoctial with the same mu / p agrees with state_p of the same orbit (e = 0.3, i = 0.5, O = 1, w = 2, nu = 0.7)", () => {
@@ -193,8 +196,8 @@ describe("elements -> state with mu / p or p out of the normal range", () => {
     expect(k.call("from_equinoctial", eq)).toBe(0);
     const ref = referenceStateP([mu, p, e, i, O, w, nu]);
     // The equinoctial inputs carry their own rounding (a few ulp of the angles): 1e-13.
-    expect(relVec(Array.from(k.out.slice(0, 3)), ref.slice(0, 3))).toBeLessThanOrEqual(1e-13);
-    expect(relVec(Array.from(k.out.slice(3, 6)), ref.slice(3, 6))).toBeLessThanOrEqual(1e-13);
+    expect(relVec(outs(k, "from_equinoctial", ...R), ref.slice(0, 3))).toBeLessThanOrEqual(1e-13);
+    expect(relVec(outs(k, "from_equinoctial", ...V), ref.slice(3, 6))).toBeLessThanOrEqual(1e-13);
   });
 
   // The shrunk fuzz case (elements round trip, mu = 2^-1074 on a hyperbola of e = 5.5e90): sqrt(mu / p) =
@@ -206,8 +209,8 @@ describe("elements -> state with mu / p or p out of the normal range", () => {
     const ref = referenceStateP(x);
     // The stored conditioning counts one ulp of each input, and one ulp of mu = 2^-1074 is mu itself (v's cond is
     // 0.41): the input is exact, so the suite's plain relative limit is the one that applies here.
-    expect(relVec(Array.from(k.out.slice(0, 3)), ref.slice(0, 3))).toBeLessThanOrEqual(lim.max_rel!);
-    expect(relVec(Array.from(k.out.slice(3, 6)), ref.slice(3, 6))).toBeLessThanOrEqual(lim.max_rel!);
+    expect(relVec(outs(k, "state_p", ...R), ref.slice(0, 3))).toBeLessThanOrEqual(lim.max_rel!);
+    expect(relVec(outs(k, "state_p", ...V), ref.slice(3, 6))).toBeLessThanOrEqual(lim.max_rel!);
   });
 
   it("from_equinoctial with a subnormal speed scale agrees with state_p of the same orbit", () => {
@@ -216,16 +219,16 @@ describe("elements -> state with mu / p or p out of the normal range", () => {
     expect(k.call("from_equinoctial", eq)).toBe(0);
     const ref = referenceStateP([mu, p, e, i, O, w, nu]);
     // The equinoctial inputs carry their own rounding (a few ulp of the angles, times e in f and g): 1e-13.
-    expect(relVec(Array.from(k.out.slice(0, 3)), ref.slice(0, 3))).toBeLessThanOrEqual(1e-13);
-    expect(relVec(Array.from(k.out.slice(3, 6)), ref.slice(3, 6))).toBeLessThanOrEqual(1e-13);
+    expect(relVec(outs(k, "from_equinoctial", ...R), ref.slice(0, 3))).toBeLessThanOrEqual(1e-13);
+    expect(relVec(outs(k, "from_equinoctial", ...V), ref.slice(3, 6))).toBeLessThanOrEqual(1e-13);
   });
 
   it("state(1, 2^-1000, 1 - 2^-40, ..., nu = pi): p = a (1 - e^2) is subnormal, r at apoapsis is not", () => {
     const x = [1, 2 ** -1000, 1 - 2 ** -40, 0.5, 1, 2, Math.PI];
     expect(k.call("state", x)).toBe(0);
     const ref = referenceState(x);
-    expect(relVec(Array.from(k.out.slice(0, 3)), ref.slice(0, 3))).toBeLessThanOrEqual(Math.max(lim.max_rel!, lim.cond_factor! * ref[6]!));
-    expect(relVec(Array.from(k.out.slice(3, 6)), ref.slice(3, 6))).toBeLessThanOrEqual(Math.max(lim.max_rel!, lim.cond_factor! * ref[7]!));
+    expect(relVec(outs(k, "state", ...R), ref.slice(0, 3))).toBeLessThanOrEqual(Math.max(lim.max_rel!, lim.cond_factor! * ref[6]!));
+    expect(relVec(outs(k, "state", ...V), ref.slice(3, 6))).toBeLessThanOrEqual(Math.max(lim.max_rel!, lim.cond_factor! * ref[7]!));
   });
 
   it("a state whose r would be subnormal is refused (ERR_OVERFLOW), not returned with lost digits", () => {
@@ -239,19 +242,19 @@ describe("equinoctial within 2^-600 of the retrograde equator", () => {
   it("r = (1, 0, 0), v = (0, -1, 2^-600), mu = 1: h = tan(i/2) = 2^601, k = 0, p = 1 (was ERR_DEGENERATE: h_x^2 + h_y^2 underflowed)", () => {
     const k = release();
     const x = [1, 1, 0, 0, 0, -1, 2 ** -600];
-    expect(k.call("equinoctial", x)).toBe(0);
-    const out = Array.from(k.out.slice(0, 6));
+    const [st, p, f, g, h, kk, L] = run(k, "equinoctial", x);
+    expect(st).toBe(0);
     // Closed form: h = r x v = (0, -2^-600, -1); tan(i/2) = (|h| - h_z) / sqrt(h_x^2 + h_y^2), the node along +x (O = 0).
     const P = Dec;
     const hn = new P(1).plus(new P(2).pow(-1200)).sqrt();
     const t = toDouble(hn.plus(1).div(new P(2).pow(-600)));
-    expect(Math.abs(out[3]! - t)).toBeLessThanOrEqual(ulp(t));
-    expect(Math.abs(out[4]!)).toBeLessThanOrEqual(1e-300 * t);
-    expect(out[0]).toBe(toDouble(hn.pow(2)));
+    expect(Math.abs(h! - t)).toBeLessThanOrEqual(ulp(t));
+    expect(Math.abs(kk!)).toBeLessThanOrEqual(1e-300 * t);
+    expect(p).toBe(toDouble(hn.pow(2)));
     // And back: the state again (the frame is built from h and k whose squares overflow).
-    expect(k.call("from_equinoctial", [1, ...out])).toBe(0);
-    expect(relVec(Array.from(k.out.slice(0, 3)), x.slice(1, 4))).toBeLessThanOrEqual(1e-15);
-    expect(relVec(Array.from(k.out.slice(3, 6)), x.slice(4, 7))).toBeLessThanOrEqual(1e-15);
+    expect(k.call("from_equinoctial", [1, p!, f!, g!, h!, kk!, L!])).toBe(0);
+    expect(relVec(outs(k, "from_equinoctial", ...R), x.slice(1, 4))).toBeLessThanOrEqual(1e-15);
+    expect(relVec(outs(k, "from_equinoctial", ...V), x.slice(4, 7))).toBeLessThanOrEqual(1e-15);
   });
 });
 
@@ -279,11 +282,12 @@ describe("gravity_zonal beyond the plain formulas' window", () => {
   ];
   for (const [name, mu, j2, R, r] of cases) {
     it(name, () => {
-      expect(k.call("gravity_zonal", [mu, j2, 0, R, ...r])).toBe(0);
+      const [st, ax, ay, az, potential] = run(k, "gravity_zonal", [mu, j2, 0, R, ...r]);
+      expect(st).toBe(0);
       const want = grav(mu, j2, R, r);
       const an = Math.hypot(want[0]!, want[1]!, want[2]!);
-      for (let j = 0; j < 3; j++) expect(Math.abs(k.out[j]! - want[j]!), `a[${j}]`).toBeLessThanOrEqual(16 * 2 ** -52 * an);
-      expect(Math.abs(k.out[3]! - want[3]!)).toBeLessThanOrEqual(16 * 2 ** -52 * Math.abs(want[3]!));
+      [ax, ay, az].forEach((a, j) => expect(Math.abs(a! - want[j]!), `a[${j}]`).toBeLessThanOrEqual(16 * 2 ** -52 * an));
+      expect(Math.abs(potential! - want[3]!)).toBeLessThanOrEqual(16 * 2 ** -52 * Math.abs(want[3]!));
     });
   }
 });
@@ -292,12 +296,13 @@ describe("single-precision build: the scaled path", () => {
   it("a LEO in SI units (mu = 3.986e14 m^3/s^2 is outside the f32 window) gives the f64 reference's elements", () => {
     const k = single();
     const x = [WGS84_MU * 1e9, 7000e3, 100e3, 1300e3, -1.1e3, 7.4e3, 1.0e3].map(Math.fround);
-    expect(isOk(k.call("elements", x))).toBe(true);
+    const [st, ...got] = run(k, "elements", x);
+    expect(isOk(st)).toBe(true);
     const ref = referenceElements(x);
     const lim = limitsFor("elements", "f32");
     for (let j = 0; j < 7; j++) {
       const isAngle = j >= 2 && j <= 5;
-      const err = isAngle ? angleDiff(k.out[j]!, ref[j]!) : Math.abs(k.out[j]! - ref[j]!) / Math.abs(ref[j]!);
+      const err = isAngle ? angleDiff(got[j]!, ref[j]!) : Math.abs(got[j]! - ref[j]!) / Math.abs(ref[j]!);
       expect(err, `slot ${j}`).toBeLessThanOrEqual(lim.max_rel!);
     }
   });
@@ -305,11 +310,12 @@ describe("single-precision build: the scaled path", () => {
   it("gravity_zonal with mu / r^3 below the f32 normal range (was 1.3% off)", () => {
     const k = single();
     const x = [1.0077949838361414e-9, 0, 0, 6378.137, 201685869563.57874, -182957545214.75443, 10041651405.1119].map(Math.fround);
-    expect(k.call("gravity_zonal", x)).toBe(0);
+    const [st, axGot] = run(k, "gravity_zonal", x);
+    expect(st).toBe(0);
     const P = Dec;
     const [X, Y, Z] = x.slice(4).map((v) => exact(P, v)) as [Dec, Dec, Dec];
     const r = X.pow(2).plus(Y.pow(2)).plus(Z.pow(2)).sqrt();
     const ax = toDouble(exact(P, x[0]!).times(X).div(r.pow(3)).neg());
-    expect(Math.abs(k.out[0]! - ax)).toBeLessThanOrEqual(4 * 2 ** -23 * Math.abs(ax));
+    expect(Math.abs(axGot! - ax)).toBeLessThanOrEqual(4 * 2 ** -23 * Math.abs(ax));
   });
 });

@@ -4,6 +4,9 @@
  * parser accepts.
  */
 import { BUILDS } from "../module/builds.js";
+import { hang, wrap } from "../core/text.js";
+
+export { hang, wrap } from "../core/text.js";
 
 type OptionType = "string" | "boolean";
 export interface OptionDef {
@@ -75,25 +78,6 @@ export function usageLines(name: string, c: Command): string[] {
   const lines = [form(c.args, c.options, c.required)];
   if (c.alternative) lines.push(form(c.alternative.args, c.alternative.options, c.alternative.required));
   return lines;
-}
-
-/** `head` then `text` wrapped to `width` columns, continuation lines indented to the head's width. */
-export function hang(head: string, text: string, width = 100): string[] {
-  return wrap(text, width - head.length, "").map((l, i) => (i === 0 ? head : " ".repeat(head.length)) + l);
-}
-
-/** Wrap words to a width (the terminal output stays within 100 columns). */
-export function wrap(text: string, width: number, indent: string): string[] {
-  const out: string[] = [];
-  let line = "";
-  for (const w of text.split(/\s+/).filter(Boolean)) {
-    if (line && line.length + 1 + w.length > width) {
-      out.push(line);
-      line = indent + w;
-    } else line = line ? `${line} ${w}` : w;
-  }
-  if (line) out.push(line);
-  return out;
 }
 
 /** Help for one command: usage, summary, every option it takes with its help. */

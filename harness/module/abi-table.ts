@@ -137,6 +137,10 @@ export const ABI_TABLE: AbiTable = {
   {
    "name": "force",
    "title": "Force model and integration"
+  },
+  {
+   "name": "relative",
+   "title": "Relative motion"
   }
  ],
  "exports": [
@@ -1625,6 +1629,396 @@ export const ABI_TABLE: AbiTable = {
     }
    ],
    "layout": "integration"
+  },
+  {
+   "name": "to_relative",
+   "group": "relative",
+   "routine": "to-relative",
+   "summary": "deputy inertial state -> relative state in the chief's rotating frame (x radial, z along h, y = z x x)",
+   "params": [
+    {
+     "name": "rcx",
+     "unit": "length",
+     "doc": "chief position"
+    },
+    {
+     "name": "rcy",
+     "unit": "length"
+    },
+    {
+     "name": "rcz",
+     "unit": "length"
+    },
+    {
+     "name": "vcx",
+     "unit": "length/time",
+     "doc": "chief velocity"
+    },
+    {
+     "name": "vcy",
+     "unit": "length/time"
+    },
+    {
+     "name": "vcz",
+     "unit": "length/time"
+    },
+    {
+     "name": "rdx",
+     "unit": "length",
+     "doc": "deputy position"
+    },
+    {
+     "name": "rdy",
+     "unit": "length"
+    },
+    {
+     "name": "rdz",
+     "unit": "length"
+    },
+    {
+     "name": "vdx",
+     "unit": "length/time",
+     "doc": "deputy velocity"
+    },
+    {
+     "name": "vdy",
+     "unit": "length/time"
+    },
+    {
+     "name": "vdz",
+     "unit": "length/time"
+    }
+   ],
+   "outputs": [
+    {
+     "name": "x",
+     "unit": "length",
+     "doc": "relative position in the chief's rotating frame (x radial, z along h, y = z x x)"
+    },
+    {
+     "name": "y",
+     "unit": "length"
+    },
+    {
+     "name": "z",
+     "unit": "length"
+    },
+    {
+     "name": "vx",
+     "unit": "length/time",
+     "doc": "relative velocity seen in the rotating frame (omega = h / r^2)"
+    },
+    {
+     "name": "vy",
+     "unit": "length/time"
+    },
+    {
+     "name": "vz",
+     "unit": "length/time"
+    }
+   ]
+  },
+  {
+   "name": "from_relative",
+   "group": "relative",
+   "routine": "from-relative",
+   "summary": "relative state in the chief's rotating frame -> deputy inertial state",
+   "params": [
+    {
+     "name": "rcx",
+     "unit": "length",
+     "doc": "chief position"
+    },
+    {
+     "name": "rcy",
+     "unit": "length"
+    },
+    {
+     "name": "rcz",
+     "unit": "length"
+    },
+    {
+     "name": "vcx",
+     "unit": "length/time",
+     "doc": "chief velocity"
+    },
+    {
+     "name": "vcy",
+     "unit": "length/time"
+    },
+    {
+     "name": "vcz",
+     "unit": "length/time"
+    },
+    {
+     "name": "x",
+     "unit": "length",
+     "doc": "relative position in the chief's rotating frame (x radial, z along h, y = z x x)"
+    },
+    {
+     "name": "y",
+     "unit": "length"
+    },
+    {
+     "name": "z",
+     "unit": "length"
+    },
+    {
+     "name": "vx",
+     "unit": "length/time",
+     "doc": "relative velocity seen in the rotating frame (omega = h / r^2)"
+    },
+    {
+     "name": "vy",
+     "unit": "length/time"
+    },
+    {
+     "name": "vz",
+     "unit": "length/time"
+    }
+   ],
+   "outputs": [
+    {
+     "name": "rdx",
+     "unit": "length",
+     "doc": "deputy position"
+    },
+    {
+     "name": "rdy",
+     "unit": "length"
+    },
+    {
+     "name": "rdz",
+     "unit": "length"
+    },
+    {
+     "name": "vdx",
+     "unit": "length/time",
+     "doc": "deputy velocity"
+    },
+    {
+     "name": "vdy",
+     "unit": "length/time"
+    },
+    {
+     "name": "vdz",
+     "unit": "length/time"
+    }
+   ]
+  },
+  {
+   "name": "relative_motion",
+   "group": "relative",
+   "routine": "relative-motion",
+   "summary": "first-order relative state after dt about an elliptic chief (Yamanaka & Ankersen 2002), rotating frame",
+   "params": [
+    {
+     "name": "mu",
+     "unit": "length^3/time^2",
+     "doc": "gravitational parameter"
+    },
+    {
+     "name": "rcx",
+     "unit": "length",
+     "doc": "chief position"
+    },
+    {
+     "name": "rcy",
+     "unit": "length"
+    },
+    {
+     "name": "rcz",
+     "unit": "length"
+    },
+    {
+     "name": "vcx",
+     "unit": "length/time",
+     "doc": "chief velocity"
+    },
+    {
+     "name": "vcy",
+     "unit": "length/time"
+    },
+    {
+     "name": "vcz",
+     "unit": "length/time"
+    },
+    {
+     "name": "x0",
+     "unit": "length",
+     "doc": "relative position at t0 (rotating frame)"
+    },
+    {
+     "name": "y0",
+     "unit": "length"
+    },
+    {
+     "name": "z0",
+     "unit": "length"
+    },
+    {
+     "name": "vx0",
+     "unit": "length/time",
+     "doc": "relative velocity at t0 (seen in the rotating frame)"
+    },
+    {
+     "name": "vy0",
+     "unit": "length/time"
+    },
+    {
+     "name": "vz0",
+     "unit": "length/time"
+    },
+    {
+     "name": "dt",
+     "unit": "time",
+     "doc": "time step, either sign"
+    }
+   ],
+   "outputs": [
+    {
+     "name": "x",
+     "unit": "length",
+     "doc": "relative position at t0 + dt"
+    },
+    {
+     "name": "y",
+     "unit": "length"
+    },
+    {
+     "name": "z",
+     "unit": "length"
+    },
+    {
+     "name": "vx",
+     "unit": "length/time",
+     "doc": "relative velocity at t0 + dt"
+    },
+    {
+     "name": "vy",
+     "unit": "length/time"
+    },
+    {
+     "name": "vz",
+     "unit": "length/time"
+    }
+   ]
+  },
+  {
+   "name": "rendezvous_linear",
+   "group": "relative",
+   "routine": "rendezvous-linear",
+   "summary": "two-impulse rendezvous in the linear model: dv1 at t0, dv2 at t0 + dt reaching (xf, yf, zf) at rest; conditioning",
+   "params": [
+    {
+     "name": "mu",
+     "unit": "length^3/time^2",
+     "doc": "gravitational parameter"
+    },
+    {
+     "name": "rcx",
+     "unit": "length",
+     "doc": "chief position"
+    },
+    {
+     "name": "rcy",
+     "unit": "length"
+    },
+    {
+     "name": "rcz",
+     "unit": "length"
+    },
+    {
+     "name": "vcx",
+     "unit": "length/time",
+     "doc": "chief velocity"
+    },
+    {
+     "name": "vcy",
+     "unit": "length/time"
+    },
+    {
+     "name": "vcz",
+     "unit": "length/time"
+    },
+    {
+     "name": "x0",
+     "unit": "length",
+     "doc": "relative position at t0 (rotating frame)"
+    },
+    {
+     "name": "y0",
+     "unit": "length"
+    },
+    {
+     "name": "z0",
+     "unit": "length"
+    },
+    {
+     "name": "vx0",
+     "unit": "length/time",
+     "doc": "relative velocity at t0 (seen in the rotating frame)"
+    },
+    {
+     "name": "vy0",
+     "unit": "length/time"
+    },
+    {
+     "name": "vz0",
+     "unit": "length/time"
+    },
+    {
+     "name": "xf",
+     "unit": "length",
+     "doc": "target relative position at t0 + dt"
+    },
+    {
+     "name": "yf",
+     "unit": "length"
+    },
+    {
+     "name": "zf",
+     "unit": "length"
+    },
+    {
+     "name": "dt",
+     "unit": "time",
+     "doc": "transfer time"
+    }
+   ],
+   "outputs": [
+    {
+     "name": "dv1x",
+     "unit": "length/time",
+     "doc": "impulse at t0, frame at t0"
+    },
+    {
+     "name": "dv1y",
+     "unit": "length/time"
+    },
+    {
+     "name": "dv1z",
+     "unit": "length/time"
+    },
+    {
+     "name": "dv2x",
+     "unit": "length/time",
+     "doc": "impulse at t0 + dt, frame at t0 + dt"
+    },
+    {
+     "name": "dv2y",
+     "unit": "length/time"
+    },
+    {
+     "name": "dv2z",
+     "unit": "length/time"
+    },
+    {
+     "name": "cond",
+     "unit": "1",
+     "doc": "min(2 |det B| / |B|_F^2, |sin(th - th0)|); no-solution below 2^-26 (f64), 2^-12 (f32)"
+    }
+   ]
   }
  ]
 };

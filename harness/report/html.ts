@@ -70,8 +70,9 @@ function suiteRows(r: SuiteResult): string[] {
   const verdict = !r.applicable ? "n/a" : r.pass ? "pass" : "FAIL";
   const cls = verdict === "FAIL" ? ` class="fail"` : "";
   const it = r.maxIterations !== undefined ? `${r.maxIterations} (mean ${r.meanIterations?.toFixed(2)}; limit ${r.limits.max_iterations ?? "none"})` : "-";
-  const head = `<td rowspan="${Math.max(1, r.metrics.length)}">${esc(r.suite)}</td><td rowspan="${Math.max(1, r.metrics.length)}">${r.cases - r.skipped}${r.skipped ? ` (${r.skipped} not exact in this precision)` : ""}</td>`;
-  const tail = (n: number): string => `<td rowspan="${n}">${it}</td><td rowspan="${n}">${esc(r.limits.why ?? "")}${r.reasons.length ? `<br><strong>${esc(r.reasons.join("; "))}</strong>` : ""}</td><td rowspan="${n}">${verdict}</td>`;
+  const span = (n: number): string => (n > 1 ? ` rowspan="${n}"` : "");
+  const head = `<td${span(r.metrics.length)}>${esc(r.suite)}</td><td${span(r.metrics.length)}>${r.cases - r.skipped}${r.skipped ? ` (${r.skipped} not exact in this precision)` : ""}</td>`;
+  const tail = (n: number): string => `<td${span(n)}>${it}</td><td${span(n)}>${esc(r.limits.why ?? "")}${r.reasons.length ? `<br><strong>${esc(r.reasons.join("; "))}</strong>` : ""}</td><td${span(n)}>${verdict}</td>`;
   if (r.metrics.length === 0) return [`<tr${cls}>${head}<td colspan="5">no value compared</td>${tail(1)}</tr>`];
   return r.metrics.map((m, i) => {
     const unit = unitOf(r.routine, m.output);
@@ -135,7 +136,7 @@ export async function writeReport(dir: string, results: readonly SuiteResult[], 
     data.iteration_map = { x: "log10 M", y: "-log10(1 - e)", value: "largest iteration count in the cell", mean: im.mean, worst: im.worst, cells: im.cells };
     sections.push({ id: "iteration-map", title: "Iteration counts of the elliptic solver",
       intro: `Correction steps after the starter, on a 64 x 64 grid (e up to 1 - 1e-15, M from 1e-12 to pi); mean ${im.mean.toFixed(2)}, worst ${im.worst}${im.failures ? `, ${im.failures} not converged (shown as -1)` : ""}. 'areal bench' gives the histogram on a finer grid and the Newton baseline's counts.`,
-      svg: await renderSvg(heatmapSpec("iterations per grid point", im.cells, "log10 M", "-log10(1 - e)", "iterations", "oranges", false)) });
+      svg: await renderSvg(heatmapSpec("iterations per grid point", im.cells, "log10 M", "-log10(1 - e)", "iterations", "oranges", false, true)) });
   }
   const orbits = opts.orbits ?? 100;
   const dr = drift(k, orbits);

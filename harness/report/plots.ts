@@ -23,8 +23,14 @@ export interface Cell {
   readonly cases: number;
 }
 
-/** A binned map: one rectangle per cell, colour = value. */
-export function heatmapSpec(title: string, cells: readonly Cell[], xTitle: string, yTitle: string, valueTitle: string, scheme: string, log: boolean): TopLevelSpec {
+/**
+ * A binned map: one rectangle per cell, colour = value. `log`: a continuous log colour scale (errors in ulp);
+ * `discrete`: integer values (iteration counts) as an ordinal scale with one legend entry per value.
+ */
+export function heatmapSpec(title: string, cells: readonly Cell[], xTitle: string, yTitle: string, valueTitle: string, scheme: string, log: boolean, discrete = false): TopLevelSpec {
+  const color = discrete
+    ? { field: "value", type: "ordinal", title: valueTitle, scale: { scheme }, legend: { symbolType: "square" } }
+    : { field: "shown", type: "quantitative", title: valueTitle, scale: { scheme, ...(log ? { type: "log" } : {}) }, ...(log ? { legend: { format: "~s" } } : {}) };
   return {
     $schema: "https://vega.github.io/schema/vega-lite/v6.json",
     title,
@@ -38,7 +44,7 @@ export function heatmapSpec(title: string, cells: readonly Cell[], xTitle: strin
       x2: { field: "x1" },
       y: { field: "y0", type: "quantitative", title: yTitle, scale: { zero: false, nice: false } },
       y2: { field: "y1" },
-      color: { field: "shown", type: "quantitative", title: valueTitle, scale: { scheme, ...(log ? { type: "log" } : {}) } },
+      color,
       tooltip: [{ field: "value", title: valueTitle }, { field: "cases" }],
     },
   } as TopLevelSpec;
@@ -58,14 +64,14 @@ export function driftSpec(title: string, points: readonly DriftPoint[]): TopLeve
     title,
     config: FONT,
     data: { values: points.map((p) => ({ ...p, deviation: Math.max(p.deviation, 1e-17) })) },
-    facet: { column: { field: "invariant", type: "nominal", title: null } },
+    facet: { column: { field: "invariant", type: "nominal", title: null, header: { labelExpr: "datum.value == 'energy' ? 'energy E' : 'angular momentum h'", labelFontSize: 12 } } },
     spec: {
       width: 300,
       height: 220,
       mark: { type: "line", strokeWidth: 1.2 },
       encoding: {
-        x: { field: "orbits", type: "quantitative", title: "time (orbits)" },
-        y: { field: "deviation", type: "quantitative", title: "relative deviation from step 0 (floor 1e-17)", scale: { type: "log" } },
+        x: { field: "orbits", type: "quantitative", title: "time (orbits)", axis: { format: "~s" } },
+        y: { field: "deviation", type: "quantitative", title: "|X - X0| / |X0| (largest in each time block; floor 1e-17)", scale: { type: "log" }, axis: { format: ".0e" } },
         color: { field: "method", type: "nominal" },
       },
     },
@@ -79,22 +85,36 @@ export interface HistBar {
   readonly cases: number;
 }
 
-/** ULP-difference histogram of builds against the release build. */
+/**
+ * ULP-difference histogram of builds against the release build: a log axis (bars from 0.5, so a bin with one
+ * value shows beside one with a million) with the count written on each bar.
+ */
 export function ulpHistogramSpec(title: string, bars: readonly HistBar[]): TopLevelSpec {
   return {
     $schema: "https://vega.github.io/schema/vega-lite/v6.json",
     title,
     width: 520,
-    height: 240,
+    height: 260,
     config: FONT,
-    data: { values: bars },
-    mark: { type: "bar" },
+    data: { values: bars.map((b) => ({ ...b, shown: Math.max(b.cases, 0.5) })) },
     encoding: {
-      x: { field: "bucket", type: "ordinal", title: "difference from the release build (ulp)", sort: { field: "order" } },
+      x: { field: "bucket", type: "ordinal", title: "difference from the release build (ulp)", sort: { field: "order" }, axis: { labelAngle: 0 } },
       xOffset: { field: "build", type: "nominal" },
-      y: { field: "cases", type: "quantitative", title: "output values", scale: { type: "symlog" } },
-      color: { field: "build", type: "nominal" },
-      tooltip: [{ field: "build" }, { field: "bucket" }, { field: "cases" }],
+      color: { field: "build", type: "nominal", title: "build" },
     },
+    layer: [
+      {
+        mark: { type: "bar" },
+        encoding: {
+          y: { field: "shown", type: "quantitative", title: "output values (log scale)", scale: { type: "log", domainMin: 0.5 }, axis: { format: "~s" } },
+          y2: { datum: 0.5 },
+          tooltip: [{ field: "build" }, { field: "bucket" }, { field: "cases" }],
+        },
+      },
+      {
+        mark: { type: "text", dy: -6, fontSize: 9 },
+        encoding: { y: { field: "shown", type: "quantitative" }, text: { field: "cases", type: "quantitative", format: "~s" } },
+      },
+    ],
   } as TopLevelSpec;
 }

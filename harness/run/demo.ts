@@ -7,6 +7,7 @@
  */
 import type { Kernels } from "../module/load.js";
 import { statusWord, isOk } from "../module/status.js";
+import { slotsOf } from "../module/routines.js";
 
 export const SCENARIO = {
   mission: "Brackenfold Relay",
@@ -16,10 +17,12 @@ export const SCENARIO = {
   apoapsis: 46000,
 } as const;
 
-function call(k: Kernels, name: string, args: number[]): number[] {
+/** Call an export and return its named outputs, in the order asked (slots by their ABI names). */
+function call(k: Kernels, name: string, args: number[], ...outputs: string[]): number[] {
+  const s = slotsOf(name, ...outputs);
   const st = k.call(name, args);
   if (!isOk(st)) throw new Error(`${name}(${args.join(", ")}) returned ${statusWord(st)}`);
-  return Array.from(k.out.slice(0, 4));
+  return outputs.map((o) => k.out[s[o]!]!);
 }
 
 /** Lines of the demo: the orbit, then equal time steps from periapsis with the area swept in each. */
@@ -41,10 +44,10 @@ export function demoLines(k: Kernels): string[] {
   for (let i = 1; i <= steps; i++) {
     const t = (period * i) / steps;
     const M = n * t;
-    const [E, iters] = call(k, "kepler_elliptic", [e, M]);
-    const [nu] = call(k, "anomaly_to_true", [e, E!]);
+    const [E, iters] = call(k, "kepler_elliptic", [e, M], "E", "iterations");
+    const [nu] = call(k, "anomaly_to_true", [e, E!], "nu");
     const r = a * (1 - e * Math.cos(E!));
-    const [, area] = call(k, "time_of_flight", [mu, p, e, prevNu, nu!]);
+    const [area] = call(k, "time_of_flight", [mu, p, e, prevNu, nu!], "area");
     prevNu = nu!;
     lines.push(
       `  ${String(i).padStart(4)} ${(t / 3600).toFixed(4).padStart(8)} ${M.toFixed(6).padStart(11)} ${E!.toFixed(6).padStart(11)} ${String(iters).padStart(6)} ${((nu! * 180) / Math.PI).toFixed(3).padStart(10)} ${r.toFixed(1).padStart(10)} ${area!.toExponential(9).padStart(18)}`,

@@ -2,6 +2,7 @@
 import type { SuiteResult } from "./check.js";
 import { formatFigure } from "./check.js";
 import type { Kernels } from "../module/load.js";
+import { hang, wrap } from "../core/text.js";
 
 export const CAUTION = "areal is an engineering tool, not flight software: flight use needs qualified verification and validation under your own process.";
 
@@ -27,35 +28,46 @@ function limitText(r: SuiteResult): string {
   return parts.join(", ");
 }
 
-/** The check table, one row per suite, then the worst cases and the verdict. */
+/** The metric of a suite nearest its limit (largest worst/limit). */
+function worstMetric(r: SuiteResult): SuiteResult["metrics"][number] | undefined {
+  return [...r.metrics].sort((a, b) => b.maxRatio - a.maxRatio)[0];
+}
+
+/**
+ * The check table, one row per suite within 100 columns (the output nearest its limit, its worst error, and
+ * worst/limit, the figure that decides), then the worst cases and the verdict. -v adds every output's figures,
+ * the limits with their reasons and the iteration histograms.
+ */
 export function formatCheckTable(results: readonly SuiteResult[], k: Kernels, verbose: boolean): string {
-  const head = ["suite", "cases", "max error", "max abs", "iters max/mean", "limit", "result"];
-  const rows = results.map((r) => [
-    r.suite,
-    String(r.cases - r.skipped) + (r.skipped ? ` (+${r.skipped} skipped)` : ""),
-    metricText(r),
-    r.metrics.map((m) => formatFigure(m.maxAbs)).join("; "),
-    r.maxIterations !== undefined ? `${r.maxIterations} / ${r.meanIterations?.toFixed(2)}` : "-",
-    limitText(r),
-    !r.applicable ? "n/a" : r.pass ? "pass" : "FAIL",
-  ]);
+  const head = ["suite", "cases", "output nearest its limit", "worst/limit", "iters max/mean", "result"];
+  const rows = results.map((r) => {
+    const m = worstMetric(r);
+    return [
+      r.suite,
+      String(r.cases - r.skipped),
+      m ? `${m.output} ${formatFigure(m.max)} ${m.metric}` : "-",
+      m ? formatFigure(m.maxRatio) : "-",
+      r.maxIterations !== undefined ? `${r.maxIterations} / ${r.meanIterations?.toFixed(2)}` : "-",
+      !r.applicable ? "n/a" : r.pass ? "pass" : "FAIL",
+    ];
+  });
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((row) => row[i]!.length)));
   const line = (cells: string[]): string => cells.map((c, i) => c.padEnd(widths[i]!)).join("  ").trimEnd();
   const out: string[] = [`areal check: build ${k.label} (${k.realBytes === 8 ? "f64" : "f32"} reals)`, line(head), line(widths.map((w) => "-".repeat(w)))];
   for (const row of rows) out.push(line(row));
+  out.push(...wrap("worst/limit: the largest error divided by its case's limit (a case passes at <= 1); n/a: no case has inputs exact in this build's precision. -v shows every output, the limits and their reasons.", 100, ""));
   out.push("", "worst case per suite (inputs, tag, got, want):");
-  for (const r of results) if (r.applicable) out.push(`  ${r.suite}: ${worstText(r)}`);
+  for (const r of results) if (r.applicable) out.push(...hang(`  ${r.suite}: `, worstText(r)));
   for (const r of results) {
-    if (!r.pass) out.push(`  FAIL ${r.suite}: ${r.reasons.join("; ")}`);
-    if (verbose && r.iterationHistogram) {
-      const h = Object.entries(r.iterationHistogram).map(([it, n]) => `${it}:${n}`).join(" ");
-      out.push(`  ${r.suite} iterations histogram (iterations:cases): ${h}`);
-    }
-    if (verbose && r.limits.why) out.push(`  ${r.suite} limit: ${r.limits.why}`);
+    if (!r.pass && r.applicable) out.push(...hang(`  FAIL ${r.suite}: `, r.reasons.join("; ")));
+    if (!verbose) continue;
+    out.push(...hang(`  ${r.suite} errors: `, `${metricText(r)}; max abs ${r.metrics.map((m) => `${m.output} ${formatFigure(m.maxAbs)}`).join(", ")}`));
+    out.push(...hang(`  ${r.suite} limit: `, `${limitText(r)}${r.limits.why ? ` (${r.limits.why})` : ""}`));
+    if (r.iterationHistogram) out.push(...hang(`  ${r.suite} iterations (count:cases): `, Object.entries(r.iterationHistogram).map(([it, n]) => `${it}:${n}`).join(" ")));
   }
-  const failed = results.filter((r) => !r.pass).length;
+  const failed = results.filter((r) => !r.pass && r.applicable).length;
   const na = results.filter((r) => !r.applicable).length;
-  out.push("", `${results.length - failed - na} suite(s) passed, ${failed} failed${na ? `, ${na} not applicable to this build (inputs not exact in its precision)` : ""}.`, CAUTION);
+  out.push("", `${results.length - failed - na} suite(s) passed, ${failed} failed${na ? `, ${na} not applicable to this build (inputs not exact in its precision)` : ""}.`, ...wrap(CAUTION, 100, ""));
   return out.join("\n") + "\n";
 }
 

@@ -36,7 +36,7 @@ import * as fc from "fast-check";
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { Decimal } from "decimal.js";
-import { ROUTINES, type Routine } from "../../harness/module/routines.js";
+import { ROUTINES, abiExport, slotsOf, type Routine } from "../../harness/module/routines.js";
 import { readSignatures, kernelExports, CORE_EXPORTS, type ExportInfo } from "../../harness/module/signatures.js";
 import { STATUS_WORDS, isOk, FIRST_ERROR } from "../../harness/module/status.js";
 import type { Kernels } from "../../harness/module/load.js";
@@ -281,6 +281,17 @@ export interface Outcome {
   /** Slot indices written by the call. */
   readonly written: readonly number[];
 }
+
+/**
+ * Named outputs of a checked call of `exportName` (from the Outcome's copy of the region), in the order asked:
+ * slots by their ABI table names (slotsOf throws on a name the table does not list), never by bare numbers.
+ */
+export function outsOf(res: Outcome, exportName: string, ...names: readonly string[]): number[] {
+  const s = slotsOf(exportName, ...names);
+  return names.map((n) => res.out[s[n]!]!);
+}
+const POS = ["rx", "ry", "rz"] as const;
+const VEL = ["vx", "vy", "vz"] as const;
 
 function fmtArgs(t: FuzzTarget, args: readonly number[]): string {
   return t.params.map((p, i) => `${p.name}=${Object.is(args[i], -0) ? "-0" : String(args[i])}`).join(", ");
@@ -604,49 +615,49 @@ export type Hook = (c: Ctx) => void;
 /** Per-export mathematical properties, run on the release module when the status is a success. */
 export const PROPERTIES: Readonly<Record<string, Hook>> = {
   kepler_elliptic(c) {
-    keplerElliptic(c, c.a("e"), c.a("M"), c.res.out[0]!);
+    keplerElliptic(c, c.a("e"), c.a("M"), c.o("E"));
   },
   kepler_hyperbolic(c) {
-    keplerHyperbolic(c, c.a("e"), c.a("M"), c.res.out[0]!);
+    keplerHyperbolic(c, c.a("e"), c.a("M"), c.o("H"));
   },
   kepler_parabolic(c) {
-    keplerParabolic(c, c.a("M"), c.res.out[0]!, c.res.out[2]);
+    keplerParabolic(c, c.a("M"), c.o("D"), c.o("nu"));
   },
   true_to_anomaly(c) {
     const e = c.a("e");
     const nu = c.a("nu");
-    const x = c.res.out[0]!;
+    const x = c.o("anomaly");
     if (nearAsymptote(e, nu)) return;
     const back = c.other("anomaly_to_true", [e, x]);
     if (!back) return;
     if (!isOk(back.status)) c.fail(`anomaly_to_true(${e}, ${x}) failed (${STATUS_WORDS[back.status]}) on the anomaly true_to_anomaly gave`);
     // nu -> x -> nu': error of x (K ulp(x)) moves nu' by dnu/dx ulp(x); the inverse adds K ulp(nu).
-    closeAngle(c, "true -> anomaly -> true", back.out[0]!, nu, ulp(x) / dAnomalyDnu(e, nu));
+    closeAngle(c, "true -> anomaly -> true", outsOf(back, "anomaly_to_true", "nu")[0]!, nu, ulp(x) / dAnomalyDnu(e, nu));
   },
   anomaly_to_true(c) {
     const e = c.a("e");
     const x = c.a("anomaly");
-    const nu = c.res.out[0]!;
+    const nu = c.o("nu");
     if (nearAsymptote(e, nu) || (e === 1 && Math.abs(nu) >= Math.PI * (1 - 1e-9))) return;
     const back = c.other("true_to_anomaly", [e, nu]);
     if (!back) return;
     if (!isOk(back.status)) c.fail(`true_to_anomaly(${e}, ${nu}) failed (${STATUS_WORDS[back.status]}) on the true anomaly anomaly_to_true gave`);
-    closeAngle(c, "anomaly -> true -> anomaly", back.out[0]!, x, dAnomalyDnu(e, nu) * ulp(nu));
+    closeAngle(c, "anomaly -> true -> anomaly", outsOf(back, "true_to_anomaly", "anomaly")[0]!, x, dAnomalyDnu(e, nu) * ulp(nu));
   },
   true_to_mean(c) {
     const e = c.a("e");
     const nu = c.a("nu");
-    const M = c.res.out[0]!;
+    const M = c.o("M");
     if (nearAsymptote(e, nu)) return;
     const back = c.other("mean_to_true", [e, M]);
     if (!back) return;
     if (!isOk(back.status)) c.fail(`mean_to_true(${e}, ${M}) failed (${STATUS_WORDS[back.status]}) on the mean anomaly true_to_mean gave`);
-    closeAngle(c, "true -> mean -> true", back.out[0]!, nu, ulp(M) / dMeanDnu(e, nu));
+    closeAngle(c, "true -> mean -> true", outsOf(back, "mean_to_true", "nu")[0]!, nu, ulp(M) / dMeanDnu(e, nu));
   },
   mean_to_true(c) {
     const e = c.a("e");
     const M = c.a("M");
-    const nu = c.res.out[0]!;
+    const nu = c.o("nu");
     if ((e < 1 && Math.abs(M) >= 2 ** 53) || nearAsymptote(e, nu)) return;
     const back = c.other("true_to_mean", [e, nu]);
     if (!back) return;
@@ -654,7 +665,7 @@ export const PROPERTIES: Readonly<Record<string, Hook>> = {
       if (nearAsymptote(e, nu) || (e === 1 && Math.abs(nu) >= Math.PI * (1 - 1e-9)) || back.status === 21) return;
       c.fail(`true_to_mean(${e}, ${nu}) failed (${STATUS_WORDS[back.status]}) on the true anomaly mean_to_true gave`);
     }
-    closeAngle(c, "mean -> true -> mean", back.out[0]!, M, dMeanDnu(e, nu) * ulp(nu));
+    closeAngle(c, "mean -> true -> mean", outsOf(back, "true_to_mean", "M")[0]!, M, dMeanDnu(e, nu) * ulp(nu));
   },
   time_of_flight(c) {
     const [mu, p, e, nu1, nu2] = c.args as [number, number, number, number, number];
@@ -667,32 +678,37 @@ export const PROPERTIES: Readonly<Record<string, Hook>> = {
     const rev = c.other("time_of_flight", [mu, p, e, nu2, nu1]);
     if (!rev) return;
     if (rev.status !== c.res.status) c.fail(`swapping nu1 and nu2 changes the status to ${STATUS_WORDS[rev.status]}`);
-    if (!Object.is(rev.out[0], -tof) && !(tof === 0 && rev.out[0] === 0)) c.fail(`swapping nu1 and nu2 gives ${rev.out[0]}, not -(${tof})`);
+    const [back] = outsOf(rev, "time_of_flight", "tof");
+    if (!Object.is(back, -tof) && !(tof === 0 && back === 0)) c.fail(`swapping nu1 and nu2 gives ${back}, not -(${tof})`);
   },
   invariants(c) {
     const mu = c.a("mu");
     const r = [c.a("rx"), c.a("ry"), c.a("rz")];
     const v = [c.a("vx"), c.a("vy"), c.a("vz")];
-    const o = c.res.out;
+    const [energy, hn, areal, fpa] = outsOf(c.res, "invariants", "energy", "h", "areal_velocity", "fpa") as [number, number, number, number];
+    const h = outsOf(c.res, "invariants", "hx", "hy", "hz");
+    const ecc = outsOf(c.res, "invariants", "ex", "ey", "ez");
     const tb = twoBodySafe(mu, r, v);
     const K = 16;
-    if (!(Math.abs(o[0]! - tb.energy) <= K * EPS * tb.scaleE)) c.fail(`energy ${o[0]} against v^2/2 - mu/r = ${tb.energy}`);
+    if (!(Math.abs(energy - tb.energy) <= K * EPS * tb.scaleE)) c.fail(`energy ${energy} against v^2/2 - mu/r = ${tb.energy}`);
     for (let j = 0; j < 3; j++) {
-      if (!(Math.abs(o[1 + j]! - tb.h[j]!) <= K * EPS * tb.scaleH)) c.fail(`h[${j}] ${o[1 + j]} against ${tb.h[j]}`);
-      if (!(Math.abs(o[5 + j]! - tb.ecc[j]!) <= K * EPS * tb.scaleEcc)) c.fail(`e[${j}] ${o[5 + j]} against ${tb.ecc[j]}`);
+      if (!(Math.abs(h[j]! - tb.h[j]!) <= K * EPS * tb.scaleH)) c.fail(`h[${j}] ${h[j]} against ${tb.h[j]}`);
+      if (!(Math.abs(ecc[j]! - tb.ecc[j]!) <= K * EPS * tb.scaleEcc)) c.fail(`e[${j}] ${ecc[j]} against ${tb.ecc[j]}`);
     }
-    if (o[9] !== o[4]! / 2) c.fail(`areal velocity ${o[9]} is not |h| / 2 = ${o[4]! / 2}`);
-    if (!(Math.abs(o[10]!) <= Math.PI / 2)) c.fail(`flight-path angle ${o[10]} outside [-pi/2, pi/2]`);
+    if (areal !== hn / 2) c.fail(`areal velocity ${areal} is not |h| / 2 = ${hn / 2}`);
+    if (!(Math.abs(fpa) <= Math.PI / 2)) c.fail(`flight-path angle ${fpa} outside [-pi/2, pi/2]`);
   },
   gravity_zonal(c) {
     const [mu, j2, j3, R, x, y, z] = c.args as [number, number, number, number, number, number, number];
-    const o = c.res.out;
+    const ACC = ["ax", "ay", "az", "potential"];
+    const [gx, gy, gz, gp] = outsOf(c.res, "gravity_zonal", ...ACC) as [number, number, number, number];
     // Rotating the position by 180 degrees about the symmetry axis rotates the acceleration (exact negation).
     const m = c.other("gravity_zonal", [mu, j2, j3, R, -x, -y, z]);
     if (m && isOk(m.status)) {
       // Equal values (the sign of a zero component is not part of the symmetry).
-      if (m.out[0] !== -o[0]! || m.out[1] !== -o[1]! || m.out[2] !== o[2] || m.out[3] !== o[3]) {
-        c.fail(`(x, y) -> (-x, -y) gives (${m.out[0]}, ${m.out[1]}, ${m.out[2]}, ${m.out[3]}), not (${-o[0]!}, ${-o[1]!}, ${o[2]}, ${o[3]})`);
+      const [ax, ay, az, pot] = outsOf(m, "gravity_zonal", ...ACC);
+      if (ax !== -gx || ay !== -gy || az !== gz || pot !== gp) {
+        c.fail(`(x, y) -> (-x, -y) gives (${ax}, ${ay}, ${az}, ${pot}), not (${-gx}, ${-gy}, ${gz}, ${gp})`);
       }
     }
     if (j2 === 0 && j3 === 0) {
@@ -702,15 +718,20 @@ export const PROPERTIES: Readonly<Record<string, Hook>> = {
       const an = Math.hypot(...want);
       // Relative accuracy down to the normal range; below it (subnormal results) an absolute 2^-1022.
       const floor = 2 ** -1022;
-      for (let j = 0; j < 3; j++) if (!(Math.abs(o[j]! - want[j]!) <= 16 * EPS * an + floor || !Number.isFinite(an))) c.fail(`point mass a[${j}] = ${o[j]}, -mu x / r^3 = ${want[j]}`);
-      if (!(Math.abs(o[3]! + mu / rn) <= 8 * EPS * (mu / rn) + floor) && Number.isFinite(rn)) c.fail(`point mass potential ${o[3]}, -mu / r = ${-mu / rn}`);
+      [gx, gy, gz].forEach((g, j) => {
+        if (!(Math.abs(g - want[j]!) <= 16 * EPS * an + floor || !Number.isFinite(an))) c.fail(`point mass a[${j}] = ${g}, -mu x / r^3 = ${want[j]}`);
+      });
+      if (!(Math.abs(gp + mu / rn) <= 8 * EPS * (mu / rn) + floor) && Number.isFinite(rn)) c.fail(`point mass potential ${gp}, -mu / r = ${-mu / rn}`);
     }
   },
   integrate(c) {
     const args = c.args;
     const steps = c.a("steps");
     if (steps === 0) {
-      for (let j = 0; j < 6; j++) if (!Object.is(c.res.out[j], args[1 + j])) c.fail(`steps = 0 moved slot ${j}: ${c.res.out[j]} from ${args[1 + j]}`);
+      const got = outsOf(c.res, "integrate", ...POS, ...VEL);
+      ["r0x", "r0y", "r0z", "v0x", "v0y", "v0z"].forEach((n, j) => {
+        if (!Object.is(got[j], c.a(n))) c.fail(`steps = 0 moved ${n}: ${got[j]} from ${c.a(n)}`);
+      });
     }
     // integrate == integrate_begin + integrate_step(n1) + integrate_step(steps - n1), to the bit.
     const beginArgs = [...args.slice(0, 8), ...args.slice(9)];
@@ -721,16 +742,20 @@ export const PROPERTIES: Readonly<Record<string, Hook>> = {
     const s1 = c.other("integrate_step", [n1]);
     const s2 = c.other("integrate_step", [steps - n1]);
     if (!s1 || !s2 || !isOk(s1.status) || !isOk(s2.status)) c.fail(`integrate_step failed where integrate succeeded`);
-    for (let j = 0; j < 28; j++) {
-      if (!Object.is(s2!.out[j], c.res.out[j])) c.fail(`slot ${j}: integrate ${c.res.out[j]}, begin + step(${n1}) + step(${steps - n1}) ${s2!.out[j]}`);
-    }
+    // Every slot of the integration layout, by name.
+    const layout = abiExport("integrate_step").outputs.map((o) => o.name);
+    const whole = outsOf(c.res, "integrate", ...layout);
+    const split = outsOf(s2!, "integrate_step", ...layout);
+    layout.forEach((n, j) => {
+      if (!Object.is(split[j], whole[j])) c.fail(`${n}: integrate ${whole[j]}, begin + step(${n1}) + step(${steps - n1}) ${split[j]}`);
+    });
   },
   propagate(c) {
     const mu = c.a("mu");
     const r0 = [c.a("r0x"), c.a("r0y"), c.a("r0z")];
     const v0 = [c.a("v0x"), c.a("v0y"), c.a("v0z")];
-    const r = Array.from(c.res.out.slice(0, 3));
-    const v = Array.from(c.res.out.slice(3, 6));
+    const r = outsOf(c.res, "propagate", ...POS);
+    const v = outsOf(c.res, "propagate", ...VEL);
     const a = twoBody(mu, r0, v0);
     const b = twoBody(mu, r, v);
     if (![a.scaleE, a.scaleH, a.scaleEcc, b.scaleE, b.scaleH, b.scaleEcc].every(Number.isFinite)) return; // beyond the double range
@@ -757,8 +782,7 @@ export const PROPERTIES: Readonly<Record<string, Hook>> = {
     const mu = c.a("mu");
     const r0 = [c.a("rx"), c.a("ry"), c.a("rz")];
     const v0 = [c.a("vx"), c.a("vy"), c.a("vz")];
-    const o = c.res.out;
-    const [a, e, inc, raan, argp, nu, p] = [o[0]!, o[1]!, o[2]!, o[3]!, o[4]!, o[5]!, o[6]!];
+    const [a, e, inc, raan, argp, nu, p] = outsOf(c.res, "elements", "a", "e", "i", "raan", "argp", "nu", "p") as [number, number, number, number, number, number, number];
     if (!(e >= 0) || !(inc >= 0 && inc <= Math.PI) || !(p > 0)) c.fail(`elements out of range: e ${e}, i ${inc}, p ${p}`);
     for (const [n, x] of [["raan", raan], ["argp", argp], ["nu", nu]] as const) if (!(x >= 0 && x < TWO_PI)) c.fail(`${n} = ${x} outside [0, 2 pi)`);
     // Near e = 1 the rounding of e (a few ulp of the e vector's terms) can put it on the other side of 1 than a.
@@ -781,43 +805,43 @@ export const PROPERTIES: Readonly<Record<string, Hook>> = {
     const flat = c.res.status === 2 || c.res.status === 3 ? 4 * Math.sin(inc) : 0;
     const rn = angleVec(r0);
     const vn = angleVec(v0);
-    closeState(c, "state -> elements -> state", mu, r0, v0, Array.from(back.out.slice(0, 3)), Array.from(back.out.slice(3, 6)), (circ + flat) * rn, circ * Math.sqrt(mu / p) + flat * vn);
+    closeState(c, "state -> elements -> state", mu, r0, v0, outsOf(back, "state_p", ...POS), outsOf(back, "state_p", ...VEL), (circ + flat) * rn, circ * Math.sqrt(mu / p) + flat * vn);
   },
   equinoctial(c) {
     const mu = c.a("mu");
     const r0 = [c.a("rx"), c.a("ry"), c.a("rz")];
     const v0 = [c.a("vx"), c.a("vy"), c.a("vz")];
-    const o = c.res.out;
-    if (!(o[0]! > 0)) c.fail(`p = ${o[0]} is not positive`);
-    if (!(o[5]! >= 0 && o[5]! < TWO_PI)) c.fail(`L = ${o[5]} outside [0, 2 pi)`);
-    if (roundingUnreachable(o[0]! / angleVec(r0), Math.hypot(o[1]!, o[2]!), o[5]!, twoBodySafe(mu, r0, v0).scaleEcc)) return;
-    const back = c.other("from_equinoctial", [mu, o[0]!, o[1]!, o[2]!, o[3]!, o[4]!, o[5]!]);
+    const [p, f, g, h, k, L] = outsOf(c.res, "equinoctial", "p", "f", "g", "h", "k", "L") as [number, number, number, number, number, number];
+    if (!(p > 0)) c.fail(`p = ${p} is not positive`);
+    if (!(L >= 0 && L < TWO_PI)) c.fail(`L = ${L} outside [0, 2 pi)`);
+    if (roundingUnreachable(p / angleVec(r0), Math.hypot(f, g), L, twoBodySafe(mu, r0, v0).scaleEcc)) return;
+    const back = c.other("from_equinoctial", [mu, p, f, g, h, k, L]);
     if (!back) return;
     if (!isOk(back.status)) {
-      if (back.status === 22 && roundingUnreachable(o[0]! / angleVec(r0), Math.hypot(o[1]!, o[2]!), o[5]!, twoBodySafe(mu, r0, v0).scaleEcc)) return;
-      if (back.status === 21 && !Number.isFinite(mu / o[0]!)) return; // sqrt(mu / p) overflows on the way (an honest status)
+      if (back.status === 22 && roundingUnreachable(p / angleVec(r0), Math.hypot(f, g), L, twoBodySafe(mu, r0, v0).scaleEcc)) return;
+      if (back.status === 21 && !Number.isFinite(mu / p)) return; // sqrt(mu / p) overflows on the way (an honest status)
       if (back.status === 21 && beyondNormal(r0, v0)) return; // the state itself is beyond what state_p / from_equinoctial return
       c.fail(`from_equinoctial failed (${STATUS_WORDS[back.status]}) on the elements of a state`);
     }
     // Near i = pi, h and k grow as 1 / cos(i/2): the frame's rounding grows with h^2 + k^2.
-    const s2 = 1 + o[3]! ** 2 + o[4]! ** 2;
+    const s2 = 1 + h ** 2 + k ** 2;
     const rn = angleVec(r0);
     const vn = angleVec(v0);
-    closeState(c, "state -> equinoctial -> state", mu, r0, v0, Array.from(back.out.slice(0, 3)), Array.from(back.out.slice(3, 6)), 64 * EPS * s2 * rn, 64 * EPS * s2 * vn);
+    closeState(c, "state -> equinoctial -> state", mu, r0, v0, outsOf(back, "from_equinoctial", ...POS), outsOf(back, "from_equinoctial", ...VEL), 64 * EPS * s2 * rn, 64 * EPS * s2 * vn);
   },
   lambert(c) {
     const mu = c.a("mu");
     const r1 = [c.a("r1x"), c.a("r1y"), c.a("r1z")];
     const r2 = [c.a("r2x"), c.a("r2y"), c.a("r2z")];
     const tof = c.a("tof");
-    const v1 = Array.from(c.res.out.slice(0, 3));
-    const v2 = Array.from(c.res.out.slice(3, 6));
+    const v1 = outsOf(c.res, "lambert", "v1x", "v1y", "v1z");
+    const v2 = outsOf(c.res, "lambert", "v2x", "v2y", "v2z");
     const pargs = [mu, ...r1, ...v1, tof];
     if (KNOWN_DEFECTS.some((d) => d.exportName === "propagate" && d.matches(pargs))) return; // the check would test propagate's defect
     const prop = c.other("propagate", pargs);
     if (!prop || !isOk(prop.status)) return; // propagate's own properties are checked on its own cases
-    const r = Array.from(prop.out.slice(0, 3));
-    const v = Array.from(prop.out.slice(3, 6));
+    const r = outsOf(prop, "propagate", ...POS);
+    const v = outsOf(prop, "propagate", ...VEL);
     // A well-posed transfer: the propagated end point matches r2 to a small relative error. The tolerance is
     // loose (1e-8 relative, times the revolutions + 1, the distance travelled in radii, and r / r_periapsis): near 180 degrees and
     // near a multi-revolution minimum time the problem is ill-conditioned, and this check is about gross failures.

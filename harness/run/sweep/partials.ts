@@ -1,6 +1,6 @@
 /** Summaries of ranges of sweep cases, and merging them (any split of the range gives the same summary). */
 import type { Kernels } from "../../module/load.js";
-import type { Routine } from "../../module/routines.js";
+import { slotsOf, type Routine } from "../../module/routines.js";
 import { isOk, statusWord, statusCode } from "../../module/status.js";
 import { ExactSum, addExact, canonicalSum } from "../../core/exact-sum.js";
 import { SweepError, totalCases, gridCases, gridValue, axisValue, unitHash, type Grid } from "./grid.js";
@@ -76,6 +76,9 @@ export function sweepRange(routine: Routine, g: Grid, k: Kernels, first: number,
   const call = caller(routine, k);
   const model = ERROR_MODELS[routine.name];
   const iterSlot = routine.outputs.indexOf("iterations");
+  // The value a sweep reports and judges is the routine's primary result, its first output (E of kepler-elliptic).
+  const gotName = routine.outputs[0]!;
+  const gotSlot = slotsOf(routine.exportName, gotName)[gotName]!;
   const out = k.out;
   const G = gridCases(g);
   const step = sampleStep(g);
@@ -98,7 +101,7 @@ export function sweepRange(routine: Routine, g: Grid, k: Kernels, first: number,
     index: i,
     inputs: Object.fromEntries(names.map((n, j) => [n, args[j]!])),
     status: statusWord(st),
-    got: isOk(st) ? out[0]! : null,
+    got: isOk(st) ? out[gotSlot]! : null,
     ...(iterSlot >= 0 && isOk(st) ? { iterations: out[iterSlot]! } : {}),
     ...(err !== undefined && Number.isFinite(err) ? { error: err } : {}),
   });
@@ -142,7 +145,7 @@ export function sweepRange(routine: Routine, g: Grid, k: Kernels, first: number,
         else iterCounts.set(it, (iterCounts.get(it) ?? 0) + 1);
       }
       if (model) {
-        err = model.estimate(args, out[0]!);
+        err = model.estimate(args, out[gotSlot]!);
         if (Number.isFinite(err)) {
           checked++;
           sum.add(err);

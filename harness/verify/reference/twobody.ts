@@ -103,7 +103,7 @@ function frameOf(P: D, mu: Dec, r: V3, v: V3, withNu = true): Frame {
   return { mu, p, e, alpha, P: Pv, Q: Qv, W, h, hmag, evec, nu };
 }
 
-interface PropagationResult {
+export interface PropagationResult {
   r: V3;
   v: V3;
   /** Revolutions |dt| / T for the ellipse, 0 otherwise. */
@@ -113,7 +113,7 @@ interface PropagationResult {
 }
 
 /** Kepler propagation of (r0, v0) by dt at the precision of P. */
-function propagateDec(P: D, inputs: readonly Dec[], guess?: Dec): PropagationResult {
+export function propagateDec(P: D, inputs: readonly Dec[], guess?: Dec): PropagationResult {
   const [mu, rx, ry, rz, vx, vy, vz, dt] = inputs as [Dec, Dec, Dec, Dec, Dec, Dec, Dec, Dec];
   const r0: V3 = [rx, ry, rz];
   const fr = frameOf(P, mu, r0, [vx, vy, vz], false);

@@ -148,9 +148,9 @@ export function stateOf(o: Orbit): number[] {
   const cn = Math.cos(o.nu), sn = Math.sin(o.nu);
   const r = o.p / (1 + o.e * cn);
   const k = Math.sqrt(o.mu / o.p);
-  const out = [0, 1, 2].map((j) => r * cn * P[j]! + r * sn * Q[j]!).concat([0, 1, 2].map((j) => -k * sn * P[j]! + k * (o.e + cn) * Q[j]!));
-  if (o.planar) out[2] = out[5] = 0;
-  return out;
+  const state = [0, 1, 2].map((j) => r * cn * P[j]! + r * sn * Q[j]!).concat([0, 1, 2].map((j) => -k * sn * P[j]! + k * (o.e + cn) * Q[j]!));
+  if (o.planar) state[2] = state[5] = 0; // z and vz
+  return state;
 }
 
 /** A time step for the orbit: |dt| log-uniform from 1 s (1e-4 time units for mu = 1) to 100 periods. */
