@@ -21,7 +21,7 @@ import { loadBuild, type Kernels } from "../harness/module/load.js";
 import { loadJsBuild, loadJsModule } from "../harness/module/jsbuild.js";
 import { SPECS } from "../harness/verify/specs/index.js";
 import { readVectors, vectorPath } from "../harness/verify/vectors.js";
-import { ROUTINES, findRoutine } from "../harness/module/routines.js";
+import { ROUTINES, findRoutine, slotsOf } from "../harness/module/routines.js";
 import { Rng } from "../harness/core/rng.js";
 import { toBits } from "../harness/core/float.js";
 
@@ -187,7 +187,8 @@ describe("no hidden coupling between kernels: call order does not change any out
   }
 
   it("the comparison can fail: a kernel whose output depends on the previous call is caught (mutant)", () => {
-    // Wrap the release module so that propagate's slot 0 carries a trace of the previous call's slot 0.
+    // Wrap the release module so that propagate's rx carries the previous call's first output slot.
+    const RX = slotsOf("propagate", "rx").rx;
     const leaky = (): Kernels => {
       const k = loadBuild("f64");
       let last = 0;
@@ -195,8 +196,8 @@ describe("no hidden coupling between kernels: call order does not change any out
         ...k,
         call(name: string, args: readonly number[]): number {
           const st = k.call(name, args);
-          if (name === "propagate" && st < 16) k.out[0] = k.out[0]! + last;
-          last = k.out[0]!;
+          if (name === "propagate" && st < 16) k.out[RX] = k.out[RX]! + last;
+          last = k.out[RX]!;
           return st;
         },
       };
