@@ -13,15 +13,20 @@
 //  3. One Newton step on D^3 + 3 D - 3 M polishes the last bits (iterations = 1).
 //  4. nu = 2 atan(D).
 //
+// Source: Barker's equation and its cubic solution in closed form are textbook material (e.g. R. H. Battin,
+// "An Introduction to the Mathematics and Methods of Astrodynamics", AIAA 1987, 4.3; recalled from memory).
 // Output slots: 0 = D, 1 = iterations, 2 = nu (radians, in (-pi, pi)).
+// Iteration cap: none, a closed form plus exactly one Newton polish (none above HUGE_M).
+// Accuracy (release f64 build, vectors/kepler-parabolic.csv: 1,000 cases, 70-digit references; `areal check -v`,
+// 2026-12): at most 1 ulp (worst seen: M = 3.022314549036573e+23, got 96787730.26781829, want 96787730.2678183).
 
 import { OK, ERR_NONFINITE } from "./status";
 import { put } from "./io";
 import { IS_F32 } from "./real";
 
 /** Above this |M| the closed form switches to cbrt(3 M) (f64: 1e300; f32: 1e36). */
-const HUGE_M: real = IS_F32 ? <real>1e36 : <real>1e300;
-const CBRT_3: real = <real>1.4422495703074083;
+const HUGE_M: real = IS_F32 ? <real>1e36 : <real>1e300; // f64 0x7E37E43C8800759C, f32 0x7B4097CE
+const CBRT_3: real = <real>1.4422495703074083; // f64 0x3FF7137449123EF6, f32 0x3FB89BA2
 
 /** Solve D + D^3 / 3 = M. */
 export function kepler_parabolic(M: real): i32 {

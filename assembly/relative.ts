@@ -66,7 +66,7 @@ import {
   RELATIVE_MOTION_X, RELATIVE_MOTION_Y, RELATIVE_MOTION_Z, RELATIVE_MOTION_VX, RELATIVE_MOTION_VY, RELATIVE_MOTION_VZ,
   TRUE_TO_MEAN_M, MEAN_TO_TRUE_NU,
 } from "./abi";
-import { checkState, sR, sH, sHX, sHY, sHZ, sRV } from "./invariants";
+import { checkState, twoBodyGet, TB_R, TB_RV, TB_HX, TB_HY, TB_HZ, TB_H } from "./invariants";
 import { true_to_mean, mean_to_true } from "./anomaly";
 
 // ---- file-private scratch state: the frame (set by chiefFrame) ---------------------------------------
@@ -79,6 +79,9 @@ let fW: real = 0; // |h| / |rc|^2
 function chiefFrame(rx: real, ry: real, rz: real, vx: real, vy: real, vz: real): i32 {
   const s = checkState(<real>1.0, rx, ry, rz, vx, vy, vz);
   if (s != OK) return s;
+  const sR = twoBodyGet(TB_R);
+  const sH = twoBodyGet(TB_H);
+  const sHX = twoBodyGet(TB_HX), sHY = twoBodyGet(TB_HY), sHZ = twoBodyGet(TB_HZ);
   fXx = rx / sR; fXy = ry / sR; fXz = rz / sR;
   fZx = sHX / sH; fZy = sHY / sH; fZz = sHZ / sH;
   fYx = fZy * fXz - fZz * fXy;
@@ -146,6 +149,9 @@ let oX: real = 0, oY: real = 0, oZ: real = 0, oVx: real = 0, oVy: real = 0, oVz:
 export function chiefAnomalies(mu: real, rx: real, ry: real, rz: real, vx: real, vy: real, vz: real, dt: real): i32 {
   const s = checkState(mu, rx, ry, rz, vx, vy, vz);
   if (s != OK) return s;
+  const sR = twoBodyGet(TB_R);
+  const sH = twoBodyGet(TB_H);
+  const sRV = twoBodyGet(TB_RV);
   const p = sH / mu * sH;
   const rho0 = p / sR;
   const ec = rho0 - <real>1.0;

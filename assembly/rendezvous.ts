@@ -49,7 +49,7 @@ import { chiefAnomalies, yaMap, anomalyGapSin } from "./relative";
  * error of the model or the inputs (the linearisation's is 1e-6 to 1e-3 relative, docs/relative-motion.md)
  * by more than 1 / sqrt(eps) = 6.7e7 (f64) times. An impulse that large is no plan: the caller moves dt.
  */
-export const NO_SOLUTION_COND: real = IS_F32 ? <real>0.000244140625 : <real>1.4901161193847656e-8;
+export const NO_SOLUTION_COND: real = IS_F32 ? <real>0.000244140625 : <real>1.4901161193847656e-8; // f64 0x3E50000000000000, f32 0x39800000
 
 /** Two impulses of the linear rendezvous (see the header). Slots 0..2 = dv1, 3..5 = dv2, 6 = conditioning. */
 export function rendezvous_linear(mu: real, rcx: real, rcy: real, rcz: real, vcx: real, vcy: real, vcz: real,
