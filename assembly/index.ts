@@ -5,6 +5,7 @@ export { kepler_hyperbolic } from "./kepler_hyperbolic";
 export { kepler_parabolic } from "./kepler_parabolic";
 export { true_to_anomaly, anomaly_to_true, true_to_mean, mean_to_true, time_of_flight } from "./anomaly";
 export { propagate } from "./universal";
+export { transition } from "./transition";
 export { lambert } from "./lambert";
 export { elements, state, state_p } from "./elements";
 export { equinoctial, from_equinoctial } from "./equinoctial";

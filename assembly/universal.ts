@@ -126,6 +126,36 @@ const MAX_REAL: real = IS_F32 ? <real>3.4028234663852886e38 : <real>1.7976931348
 
 /** Propagate (r0, v0) by dt under mu. Slots 0..5 = r, v; slot 6 = iterations. */
 export function propagate(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real): i32 {
+  return solve(mu, r0x, r0y, r0z, v0x, v0y, v0z, dt, false);
+}
+
+/**
+ * Where propagateSolved leaves the solution (past every kernel's outputs), and its fields: the anchor state
+ * (A, B) the solution is expanded about ((r0, v0), or periapsis after step 7), its radius r0 and sigma0 = A . B /
+ * sqrt(mu), alpha, the final chi, the whole revolutions removed in step 3 (k, as a real), and after step 7 the
+ * universal anomaly chi_a from periapsis to r0 and ANCHORED = 1 (else both 0).
+ */
+export const SOL_SLOT: i32 = 48;
+export const SOL_AX: i32 = 0;
+export const SOL_AY: i32 = 1;
+export const SOL_AZ: i32 = 2;
+export const SOL_BX: i32 = 3;
+export const SOL_BY: i32 = 4;
+export const SOL_BZ: i32 = 5;
+export const SOL_R0: i32 = 6;
+export const SOL_SIGMA0: i32 = 7;
+export const SOL_ALPHA: i32 = 8;
+export const SOL_CHI: i32 = 9;
+export const SOL_REVS: i32 = 10;
+export const SOL_CHI_ANCHOR: i32 = 11;
+export const SOL_ANCHORED: i32 = 12;
+
+/** propagate, and on success its solution in slots SOL_SLOT + SOL_* as well (same bits in slots 0..6). */
+export function propagateSolved(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real): i32 {
+  return solve(mu, r0x, r0y, r0z, v0x, v0y, v0z, dt, true);
+}
+
+function solve(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real, withSolution: bool): i32 {
   put(6, 0);
   if (!isFinite(dt)) return ERR_NONFINITE;
   const st = checkState(mu, r0x, r0y, r0z, v0x, v0y, v0z);
@@ -138,9 +168,14 @@ export function propagate(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, 
 
   // Step 3: whole revolutions of the ellipse.
   let dtr = dt;
+  let revs: real = 0;
+  let anchored = false;
   if (alpha > 0) {
     const T = TWO_PI / (sqmu * alpha * RMath.sqrt(alpha));
-    if (isFinite(T) && abs(dt) > <real>0.5 * T) dtr = dt - nearest(dt / T) * T;
+    if (isFinite(T) && abs(dt) > <real>0.5 * T) {
+      revs = nearest(dt / T);
+      dtr = dt - revs * T;
+    }
   }
   // The anchor state (a, b) the solution is expanded about: (r0, v0), or periapsis after step 7.
   let ax = r0x, ay = r0y, az = r0z, bx = v0x, by = v0y, bz = v0z;
@@ -161,6 +196,7 @@ export function propagate(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, 
       bz = pBZ;
       r0 = pRP;
       sigma0 = 0;
+      anchored = true;
       dtr = pTau + dtr;
       chi = 0;
       lastIterations = 0;
@@ -204,6 +240,22 @@ export function propagate(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, 
   const vy = fd * ay + gd * by;
   const vz = fd * az + gd * bz;
   if (!(r > 0) || !isFinite(rx) || !isFinite(ry) || !isFinite(rz) || !isFinite(vx) || !isFinite(vy) || !isFinite(vz)) return ERR_OVERFLOW;
+  if (withSolution) {
+    // The solution itself, for kernels that differentiate it (transition.ts): slots SOL_SLOT + SOL_*.
+    put(SOL_SLOT + SOL_AX, ax);
+    put(SOL_SLOT + SOL_AY, ay);
+    put(SOL_SLOT + SOL_AZ, az);
+    put(SOL_SLOT + SOL_BX, bx);
+    put(SOL_SLOT + SOL_BY, by);
+    put(SOL_SLOT + SOL_BZ, bz);
+    put(SOL_SLOT + SOL_R0, r0);
+    put(SOL_SLOT + SOL_SIGMA0, sigma0);
+    put(SOL_SLOT + SOL_ALPHA, alpha);
+    put(SOL_SLOT + SOL_CHI, chi);
+    put(SOL_SLOT + SOL_REVS, revs);
+    put(SOL_SLOT + SOL_CHI_ANCHOR, anchored ? pChiA : <real>0);
+    put(SOL_SLOT + SOL_ANCHORED, anchored ? <real>1 : <real>0);
+  }
   put(0, rx);
   put(1, ry);
   put(2, rz);
@@ -225,6 +277,7 @@ let pBZ: real = 0;
 let pRP: real = 0;
 let pP: real = 0;
 let pTau: real = 0;
+let pChiA: real = 0;
 
 // Step 7 for alpha <= 0 (hyperbola or parabola, e >= 1): the periapsis state and the time since periapsis.
 // False when an intermediate is not finite.
@@ -271,6 +324,7 @@ function periapsisAnchor(mu: real, sqmu: real, alpha: real, rx: real, ry: real, 
     u3 = chi * chi * chi * C3;
   }
   pTau = (rp * u1 + u3) / sqmu;
+  pChiA = chi;
   pAX = rp * px;
   pAY = rp * py;
   pAZ = rp * pz;

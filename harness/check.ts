@@ -77,7 +77,7 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
     const slots = c.group?.map((o) => outIndex.get(o) ?? -1);
     if (slots?.includes(-1)) throw new Error(`suite ${spec.suite}: routine ${routine.name} lacks an output of group ${c.group!.join(",")}`);
     const refs = c.refGroup?.map((o) => col(v, o));
-    return { c, slot, ref: col(v, c.ref), cond: c.cond ? col(v, c.cond) : -1, revs: c.revs ? col(v, c.revs) : -1, slots, refs };
+    return { c, slot, ref: col(v, c.ref), cond: c.cond ? col(v, c.cond) : -1, revs: c.revs ? col(v, c.revs) : -1, scale: c.scale ? col(v, c.scale) : -1, slots, refs };
   });
   const acc = cmp.map(() => ({ max: 0, maxRatio: 0, maxAbs: 0, worst: undefined as Worst | undefined }));
   const rows = opts.rows ?? v.values.map((_, i) => i);
@@ -144,7 +144,7 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
         const revs = m.revs >= 0 ? Math.abs(row[m.revs]!) : 0;
         lim = Math.max((limits.max_rel ?? 0) * (1 + revs), m.cond >= 0 ? (limits.cond_factor ?? 0) * row[m.cond]! : 0);
       } else {
-        err = absErr;
+        err = m.scale >= 0 ? absErr / Math.abs(row[m.scale]!) : absErr;
         lim = Math.max(limits.max_abs ?? 0, m.cond >= 0 ? (limits.cond_factor ?? 0) * row[m.cond]! : 0);
       }
       if (Number.isNaN(got)) err = Infinity;

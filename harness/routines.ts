@@ -99,6 +99,13 @@ export const ROUTINES: readonly Routine[] = [
     outputs: ["rx", "ry", "rz", "vx", "vy", "vz", "iterations"],
   },
   {
+    name: "transition",
+    exportName: "transition",
+    summary: "propagation with the 6x6 state transition matrix d(r, v) / d(r0, v0), any conic, dt of either sign",
+    inputs: [r("mu"), r("r0x"), r("r0y"), r("r0z"), r("v0x"), r("v0y"), r("v0z"), r("dt")],
+    outputs: ["rx", "ry", "rz", "vx", "vy", "vz", ...Array.from({ length: 36 }, (_, k) => `phi_${Math.floor(k / 6) + 1}${(k % 6) + 1}`), "iterations"],
+  },
+  {
     name: "lambert",
     exportName: "lambert",
     summary: "Lambert's problem (Izzo 2015): v1, v2 from r1, r2, time of flight, complete revolutions, direction, branch",
