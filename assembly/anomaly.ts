@@ -22,18 +22,17 @@
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_UNREACHABLE, ERR_OVERFLOW, FIRST_ERROR } from "./status";
 import { put, got } from "./io";
-import { INTEGER_LIMIT, PI } from "./real";
-import { reduceTurns, reducedLo, turns } from "./reduce";
-
-const TWO_PI: real = <real>2.0 * PI;
-import { SERIES_MAX, xMinusSinSeries, sinhMinusXSeries } from "./series";
+import { INTEGER_LIMIT, PI, TWO_PI } from "./real";
+import { reduceTurns, reducedLo, reducedTurns } from "./reduce";
+import { ODD_SERIES_MAX, xMinusSinSeries, sinhMinusXSeries } from "./series";
 import { kepler_elliptic } from "./kepler_elliptic";
 import { kepler_hyperbolic } from "./kepler_hyperbolic";
 import { kepler_parabolic } from "./kepler_parabolic";
 
-// Results of the helpers below (kept out of linear memory so kernels can chain them): `res` is the value;
-// for the ellipse `resReduced` is the same quantity within one revolution and `resTurns` the whole turns
-// removed, so that a difference of two anomalies on different revolutions keeps its small part.
+// File-private scratch: the results of the helpers below, read only by this file's kernels (which chain the
+// helpers): `res` is the value; for the ellipse `resReduced` is the same quantity within one revolution and
+// `resTurns` the whole turns removed, so that a difference of two anomalies on different revolutions keeps its
+// small part; redHi + redLo is the remainder of the last `split`.
 let res: real = 0;
 let resReduced: real = 0;
 let resTurns: real = 0;
@@ -59,7 +58,7 @@ function trueFromEcc(e: real, E: real): real {
 
 // Mean anomaly from an eccentric anomaly within one revolution (|E| <= pi), without cancellation.
 function meanFromEccReduced(e: real, E: real): real {
-  if (abs(E) <= SERIES_MAX) return (<real>1.0 - e) * E + e * xMinusSinSeries(E);
+  if (abs(E) <= ODD_SERIES_MAX) return (<real>1.0 - e) * E + e * xMinusSinSeries(E);
   return E - e * RMath.sin(E);
 }
 
@@ -73,8 +72,8 @@ function split(x: real): void {
     return;
   }
   redHi = reduceTurns(x);
-  redLo = reducedLo;
-  resTurns = turns;
+  redLo = reducedLo();
+  resTurns = reducedTurns();
 }
 
 // y_r (the image of the remainder) carried back to x's revolution: x + (y_r - x_r).
@@ -131,7 +130,7 @@ function meanAfterTrue(e: real, nu: real): i32 {
   const x = res;
   if (e == 1) {
     res = x + x * x * x / <real>3.0;
-  } else if (abs(x) <= SERIES_MAX) {
+  } else if (abs(x) <= ODD_SERIES_MAX) {
     res = (e - <real>1.0) * x + e * sinhMinusXSeries(x);
   } else {
     res = e * RMath.sinh(x) - x;

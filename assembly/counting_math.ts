@@ -5,24 +5,28 @@
 // library function runs, `mathDepth` is above zero: the arithmetic counters that scripts/build-bench.mjs inserts
 // into the module (every f64 div, mul, add/sub, sqrt instruction) ignore operations inside the library, so a sin
 // counts as one sin, not as the thirty multiply-adds it is made of.
-// Counters are module-level scalars (no allocation); count_get(i) reads them in the order of MATH_COUNTERS in
-// harness/opcount.ts.
+// Counters are file-private module-level scalars (no allocation, nothing exported but the functions below):
+// count_get(i) reads them in the order of MATH_COUNTERS in harness/opcount.ts, count_reset clears them.
+// scripts/instrument-wat.mjs finds the depth global by its internal name ($assembly/counting_math/mathDepth).
 
 /** Nesting depth of library math calls; the inserted arithmetic counters count only at depth 0. */
-export let mathDepth: i32 = 0;
+let mathDepth: i32 = 0;
 
-export let nSin: i64 = 0;
-export let nCos: i64 = 0;
-export let nTan: i64 = 0;
-export let nInvTrig: i64 = 0; // asin, acos, atan
-export let nAtan2: i64 = 0;
-export let nSqrt: i64 = 0; // RMath.sqrt here; the inserted counter adds bare f64.sqrt instructions
-export let nCbrt: i64 = 0;
-export let nLog: i64 = 0; // log, log1p, log2, log10
-export let nExp: i64 = 0; // exp, expm1
-export let nPow: i64 = 0;
-export let nHyp: i64 = 0; // sinh, cosh, tanh, asinh, acosh, atanh
-export let nHypot: i64 = 0;
+let nSin: i64 = 0;
+let nCos: i64 = 0;
+let nTan: i64 = 0;
+let nInvTrig: i64 = 0; // asin, acos, atan
+let nAtan2: i64 = 0;
+let nSqrt: i64 = 0; // RMath.sqrt here; the inserted counter adds bare f64.sqrt instructions
+let nCbrt: i64 = 0;
+let nLog: i64 = 0; // log, log1p, log2, log10
+let nExp: i64 = 0; // exp, expm1
+let nPow: i64 = 0;
+let nHyp: i64 = 0; // sinh, cosh, tanh, asinh, acosh, atanh
+let nHypot: i64 = 0;
+// The two results of the last sincos call (read through CountingMath.sincos_sin / sincos_cos).
+let sincosSin: f64 = 0;
+let sincosCos: f64 = 0;
 // Division, multiplication, addition/subtraction, fusable pairs and bare f64.sqrt instructions are counted by
 // globals that scripts/build-bench.mjs adds to the module text (count_arith, count_arith_reset).
 
@@ -60,52 +64,55 @@ export function count_get(i: i32): f64 {
 // @ts-ignore: decorator
 @inline function leave(): void { mathDepth--; }
 
+// A class of static members rather than a namespace, so that sincos's two results are read-only getters (the
+// interface of NativeMath, whose sincos_sin and sincos_cos kernels read after RMath.sincos) and not exported
+// mutable variables.
 // @ts-ignore: decorator
-@global export namespace CountingMath {
-  export const PI: f64 = NativeMath.PI;
-  export const E: f64 = NativeMath.E;
-  export function sin(x: f64): f64 { if (mathDepth == 0) nSin++; enter(); const r = NativeMath.sin(x); leave(); return r; }
-  export function cos(x: f64): f64 { if (mathDepth == 0) nCos++; enter(); const r = NativeMath.cos(x); leave(); return r; }
+@global export class CountingMath {
+  static readonly PI: f64 = NativeMath.PI;
+  static readonly E: f64 = NativeMath.E;
+  static sin(x: f64): f64 { if (mathDepth == 0) nSin++; enter(); const r = NativeMath.sin(x); leave(); return r; }
+  static cos(x: f64): f64 { if (mathDepth == 0) nCos++; enter(); const r = NativeMath.cos(x); leave(); return r; }
   // One call that gives both, with one argument reduction: counted as one sin and one cos (the cost model then
   // charges a little more than the call costs; the counts stay an upper bound).
-  export let sincos_sin: f64 = 0;
-  export let sincos_cos: f64 = 0;
-  export function sincos(x: f64): void {
+  static get sincos_sin(): f64 { return sincosSin; }
+  static get sincos_cos(): f64 { return sincosCos; }
+  static sincos(x: f64): void {
     if (mathDepth == 0) { nSin++; nCos++; }
     enter();
     NativeMath.sincos(x);
-    sincos_sin = NativeMath.sincos_sin;
-    sincos_cos = NativeMath.sincos_cos;
+    sincosSin = NativeMath.sincos_sin;
+    sincosCos = NativeMath.sincos_cos;
     leave();
   }
-  export function tan(x: f64): f64 { if (mathDepth == 0) nTan++; enter(); const r = NativeMath.tan(x); leave(); return r; }
-  export function asin(x: f64): f64 { if (mathDepth == 0) nInvTrig++; enter(); const r = NativeMath.asin(x); leave(); return r; }
-  export function acos(x: f64): f64 { if (mathDepth == 0) nInvTrig++; enter(); const r = NativeMath.acos(x); leave(); return r; }
-  export function atan(x: f64): f64 { if (mathDepth == 0) nInvTrig++; enter(); const r = NativeMath.atan(x); leave(); return r; }
-  export function atan2(y: f64, x: f64): f64 { if (mathDepth == 0) nAtan2++; enter(); const r = NativeMath.atan2(y, x); leave(); return r; }
-  export function sqrt(x: f64): f64 { if (mathDepth == 0) nSqrt++; enter(); const r = NativeMath.sqrt(x); leave(); return r; }
-  export function cbrt(x: f64): f64 { if (mathDepth == 0) nCbrt++; enter(); const r = NativeMath.cbrt(x); leave(); return r; }
-  export function log(x: f64): f64 { if (mathDepth == 0) nLog++; enter(); const r = NativeMath.log(x); leave(); return r; }
-  export function log1p(x: f64): f64 { if (mathDepth == 0) nLog++; enter(); const r = NativeMath.log1p(x); leave(); return r; }
-  export function log2(x: f64): f64 { if (mathDepth == 0) nLog++; enter(); const r = NativeMath.log2(x); leave(); return r; }
-  export function log10(x: f64): f64 { if (mathDepth == 0) nLog++; enter(); const r = NativeMath.log10(x); leave(); return r; }
-  export function exp(x: f64): f64 { if (mathDepth == 0) nExp++; enter(); const r = NativeMath.exp(x); leave(); return r; }
-  export function expm1(x: f64): f64 { if (mathDepth == 0) nExp++; enter(); const r = NativeMath.expm1(x); leave(); return r; }
-  export function pow(x: f64, y: f64): f64 { if (mathDepth == 0) nPow++; enter(); const r = NativeMath.pow(x, y); leave(); return r; }
-  export function sinh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.sinh(x); leave(); return r; }
-  export function cosh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.cosh(x); leave(); return r; }
-  export function tanh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.tanh(x); leave(); return r; }
-  export function asinh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.asinh(x); leave(); return r; }
-  export function acosh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.acosh(x); leave(); return r; }
-  export function atanh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.atanh(x); leave(); return r; }
-  export function hypot(x: f64, y: f64): f64 { if (mathDepth == 0) nHypot++; enter(); const r = NativeMath.hypot(x, y); leave(); return r; }
+  static tan(x: f64): f64 { if (mathDepth == 0) nTan++; enter(); const r = NativeMath.tan(x); leave(); return r; }
+  static asin(x: f64): f64 { if (mathDepth == 0) nInvTrig++; enter(); const r = NativeMath.asin(x); leave(); return r; }
+  static acos(x: f64): f64 { if (mathDepth == 0) nInvTrig++; enter(); const r = NativeMath.acos(x); leave(); return r; }
+  static atan(x: f64): f64 { if (mathDepth == 0) nInvTrig++; enter(); const r = NativeMath.atan(x); leave(); return r; }
+  static atan2(y: f64, x: f64): f64 { if (mathDepth == 0) nAtan2++; enter(); const r = NativeMath.atan2(y, x); leave(); return r; }
+  static sqrt(x: f64): f64 { if (mathDepth == 0) nSqrt++; enter(); const r = NativeMath.sqrt(x); leave(); return r; }
+  static cbrt(x: f64): f64 { if (mathDepth == 0) nCbrt++; enter(); const r = NativeMath.cbrt(x); leave(); return r; }
+  static log(x: f64): f64 { if (mathDepth == 0) nLog++; enter(); const r = NativeMath.log(x); leave(); return r; }
+  static log1p(x: f64): f64 { if (mathDepth == 0) nLog++; enter(); const r = NativeMath.log1p(x); leave(); return r; }
+  static log2(x: f64): f64 { if (mathDepth == 0) nLog++; enter(); const r = NativeMath.log2(x); leave(); return r; }
+  static log10(x: f64): f64 { if (mathDepth == 0) nLog++; enter(); const r = NativeMath.log10(x); leave(); return r; }
+  static exp(x: f64): f64 { if (mathDepth == 0) nExp++; enter(); const r = NativeMath.exp(x); leave(); return r; }
+  static expm1(x: f64): f64 { if (mathDepth == 0) nExp++; enter(); const r = NativeMath.expm1(x); leave(); return r; }
+  static pow(x: f64, y: f64): f64 { if (mathDepth == 0) nPow++; enter(); const r = NativeMath.pow(x, y); leave(); return r; }
+  static sinh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.sinh(x); leave(); return r; }
+  static cosh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.cosh(x); leave(); return r; }
+  static tanh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.tanh(x); leave(); return r; }
+  static asinh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.asinh(x); leave(); return r; }
+  static acosh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.acosh(x); leave(); return r; }
+  static atanh(x: f64): f64 { if (mathDepth == 0) nHyp++; enter(); const r = NativeMath.atanh(x); leave(); return r; }
+  static hypot(x: f64, y: f64): f64 { if (mathDepth == 0) nHypot++; enter(); const r = NativeMath.hypot(x, y); leave(); return r; }
   // Not counted: cheap bit operations on every target.
-  export function abs(x: f64): f64 { return NativeMath.abs(x); }
-  export function floor(x: f64): f64 { return NativeMath.floor(x); }
-  export function ceil(x: f64): f64 { return NativeMath.ceil(x); }
-  export function trunc(x: f64): f64 { return NativeMath.trunc(x); }
-  export function round(x: f64): f64 { return NativeMath.round(x); }
-  export function sign(x: f64): f64 { return NativeMath.sign(x); }
-  export function min(x: f64, y: f64): f64 { return NativeMath.min(x, y); }
-  export function max(x: f64, y: f64): f64 { return NativeMath.max(x, y); }
+  static abs(x: f64): f64 { return NativeMath.abs(x); }
+  static floor(x: f64): f64 { return NativeMath.floor(x); }
+  static ceil(x: f64): f64 { return NativeMath.ceil(x); }
+  static trunc(x: f64): f64 { return NativeMath.trunc(x); }
+  static round(x: f64): f64 { return NativeMath.round(x); }
+  static sign(x: f64): f64 { return NativeMath.sign(x); }
+  static min(x: f64, y: f64): f64 { return NativeMath.min(x, y); }
+  static max(x: f64, y: f64): f64 { return NativeMath.max(x, y); }
 }

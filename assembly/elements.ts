@@ -48,16 +48,14 @@
 
 import { OK, OK_CIRCULAR, OK_EQUATORIAL, OK_CIRCULAR_EQUATORIAL, ERR_NONFINITE, ERR_DOMAIN, ERR_UNREACHABLE, ERR_OVERFLOW } from "./status";
 import { put } from "./io";
-import { IS_F32 } from "./real";
-import { checkState, sR, sV2, sRV, sHX, sHY, sHZ, sH } from "./invariants";
-import { putStateInFrame, scaleState, tMu, tRx, tRy, tRz, tVx, tVy, tVz, kR, scale2, exponent2, maxAbs3, norm3, speedScale, kS, MIN_NORMAL } from "./invariants";
+import { IS_F32, TWO_PI, MIN_NORMAL } from "./real";
+import { checkScaled, scaleState, TB_R, TB_V2, TB_RV, TB_HX, TB_HY, TB_HZ, TB_H, TB_MU, TB_RX, TB_RY, TB_RZ, TB_VX, TB_VY, TB_VZ, twoBodyGet, scaledExpR } from "./invariants";
+import { putStateInFrame, scale2, exponent2, maxAbs3, norm3, speedScale, speedExp } from "./invariants";
 
 /** At or below this |e| the orbit is treated as circular: 2^-36 (f64), 2^-17 (f32). */
-export const CIRCULAR_E: real = IS_F32 ? <real>7.62939453125e-6 : <real>1.4551915228366852e-11;
+export const CIRCULAR_E: real = IS_F32 ? <real>7.62939453125e-6 : <real>1.4551915228366852e-11; // f64 0x3DB0000000000000, f32 0x37000000
 /** At or below this sin i the orbit is treated as equatorial: 2^-36 (f64), 2^-17 (f32). */
-export const EQUATORIAL_SIN_I: real = IS_F32 ? <real>7.62939453125e-6 : <real>1.4551915228366852e-11;
-const TWO_PI: real = IS_F32 ? <real>6.2831854820251465 : <real>6.283185307179586;
-
+export const EQUATORIAL_SIN_I: real = IS_F32 ? <real>7.62939453125e-6 : <real>1.4551915228366852e-11; // f64 0x3DB0000000000000, f32 0x37000000
 // Angle in [0, 2 pi) from atan2's (-pi, pi].
 function wrap(x: real): real {
   let y = x < 0 ? x + TWO_PI : x;
@@ -69,19 +67,16 @@ function wrap(x: real): real {
  * planeAngle's plain range for the largest |component| of each of h, d and x: 2^-300 .. 2^300 (f64),
  * 2^-36 .. 2^36 (f32), where the triple products h . (d x x) and |h| (d . x) stay normal.
  */
-const PA_LO: real = IS_F32 ? <real>1.4551915228366852e-11 : <real>4.909093465297727e-91;
-const PA_HI: real = IS_F32 ? <real>68719476736.0 : <real>2.037035976334486e90;
+const PA_LO: real = IS_F32 ? <real>1.4551915228366852e-11 : <real>4.909093465297727e-91; // f64 0x2D30000000000000, f32 0x2D800000
+const PA_HI: real = IS_F32 ? <real>68719476736.0 : <real>2.037035976334486e90; // f64 0x52B0000000000000, f32 0x51800000
 
-// Angle of (x, y, z) from direction (dx, dy, dz), in the plane with normal h, in the direction of motion.
+// Angle of (x, y, z) from direction (dx, dy, dz), in the plane with normal (hx, hy, hz) of length h, in the
+// direction of motion.
 // Outside the plain range each of the three vectors is first multiplied by its own power of two near
 // 1 / (its largest |component|): exact, and both arguments of atan2 change by the same factor. (Before
 // 2026-12 the products overflowed: elements(3.644e87, 0, 0, 5.477e-42, 0, 2.987e141, 1.497e95) gave
 // argp = atan2(inf, inf) = pi/4, true pi/2.)
-function planeAngle(dx: real, dy: real, dz: real, x: real, y: real, z: real): real {
-  let hx = sHX;
-  let hy = sHY;
-  let hz = sHZ;
-  let h = sH;
+function planeAngle(hx: real, hy: real, hz: real, h: real, dx: real, dy: real, dz: real, x: real, y: real, z: real): real {
   const md = maxAbs3(dx, dy, dz);
   const mx = maxAbs3(x, y, z);
   const mh = maxAbs3(hx, hy, hz);
@@ -116,36 +111,40 @@ function planeAngle(dx: real, dy: real, dz: real, x: real, y: real, z: real): re
 export function elements(mu: real, rx0: real, ry0: real, rz0: real, vx0: real, vy0: real, vz0: real): i32 {
   // The state computed with: (mu, r, v) itself, or a power-of-two scaled copy (invariants.ts, "Range").
   const sc = scaleState(mu, rx0, ry0, rz0, vx0, vy0, vz0);
-  const st = checkState(tMu, tRx, tRy, tRz, tVx, tVy, tVz);
+  const st = checkScaled();
   if (st != OK) return st;
   if (sc != OK) return sc;
-  const m = tMu;
-  const rx = tRx, ry = tRy, rz = tRz, vx = tVx, vy = tVy, vz = tVz;
+  const m = twoBodyGet(TB_MU);
+  const rx = twoBodyGet(TB_RX), ry = twoBodyGet(TB_RY), rz = twoBodyGet(TB_RZ);
+  const vx = twoBodyGet(TB_VX), vy = twoBodyGet(TB_VY), vz = twoBodyGet(TB_VZ);
+  const r = twoBodyGet(TB_R), v2 = twoBodyGet(TB_V2), rv = twoBodyGet(TB_RV);
+  const hx = twoBodyGet(TB_HX), hy = twoBodyGet(TB_HY), hz = twoBodyGet(TB_HZ), hn = twoBodyGet(TB_H);
   // Lengths back in the caller's units: times 2^-kR (nothing to do inside the window).
-  const p = scale2(sH * sH / m, -kR);
-  const alpha = <real>2.0 / sR - sV2 / m;
+  const kR = scaledExpR();
+  const p = scale2(hn * hn / m, -kR);
+  const alpha = <real>2.0 / r - v2 / m;
   const inv = scale2(<real>1.0 / alpha, -kR);
   const a = alpha == 0 || !isFinite(inv) ? <real>0.0 : inv;
-  const c1 = sV2 - m / sR;
-  const ex = (c1 * rx - sRV * vx) / m;
-  const ey = (c1 * ry - sRV * vy) / m;
-  const ez = (c1 * rz - sRV * vz) / m;
+  const c1 = v2 - m / r;
+  const ex = (c1 * rx - rv * vx) / m;
+  const ey = (c1 * ry - rv * vy) / m;
+  const ez = (c1 * rz - rv * vz) / m;
   const e = norm3(ex, ey, ez);
-  const hxy = norm3(sHX, sHY, 0);
-  const inc = RMath.atan2(hxy, sHZ);
+  const hxy = norm3(hx, hy, 0);
+  const inc = RMath.atan2(hxy, hz);
   const circular = e <= CIRCULAR_E;
-  const equatorial = hxy <= EQUATORIAL_SIN_I * sH;
+  const equatorial = hxy <= EQUATORIAL_SIN_I * hn;
   // Node direction: z x h, or the x axis for an equatorial orbit.
-  const nx = equatorial ? <real>1.0 : -sHY;
-  const ny = equatorial ? <real>0.0 : sHX;
+  const nx = equatorial ? <real>1.0 : -hy;
+  const ny = equatorial ? <real>0.0 : hx;
   const raan = equatorial ? <real>0.0 : wrap(RMath.atan2(ny, nx));
   let argp: real = 0;
   let nu: real;
   if (circular) {
-    nu = wrap(planeAngle(nx, ny, 0, rx, ry, rz));
+    nu = wrap(planeAngle(hx, hy, hz, hn, nx, ny, 0, rx, ry, rz));
   } else {
-    argp = wrap(planeAngle(nx, ny, 0, ex, ey, ez));
-    nu = wrap(planeAngle(ex, ey, ez, rx, ry, rz));
+    argp = wrap(planeAngle(hx, hy, hz, hn, nx, ny, 0, ex, ey, ez));
+    nu = wrap(planeAngle(hx, hy, hz, hn, ex, ey, ez, rx, ry, rz));
   }
   // p, and a unless it marks a parabola, must be normal: a subnormal or zero length has lost its digits.
   if (!isFinite(p) || !(p >= MIN_NORMAL) || !isFinite(e) || !(a == 0 || abs(a) >= MIN_NORMAL)) return ERR_OVERFLOW;
@@ -204,6 +203,7 @@ function stateFromP(mu: real, p: real, kP: i32, e: real, i: real, raan: real, ar
   if (!(w > 0)) return ERR_UNREACHABLE;
   const r = scale2(p / w, -kP);
   const s = speedScale(mu, p); // sqrt(mu / p_true) = s 2^((kP >> 1) - kS)
+  const kS = speedExp();
   const co = RMath.cos(raan);
   const so = RMath.sin(raan);
   const ci = RMath.cos(i);

@@ -31,13 +31,12 @@
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE, ERR_UNREACHABLE, ERR_OVERFLOW } from "./status";
 import { put } from "./io";
-import { IS_F32 } from "./real";
-import { checkState, sR, sV2, sRV, sHX, sHY, sHZ, sH } from "./invariants";
-import { putStateInFrame, scaleState, tMu, tRx, tRy, tRz, tVx, tVy, tVz, kR, scale2, exponent2, maxAbs3, speedScale, kS, MIN_NORMAL, NORM_LO, NORM_HI } from "./invariants";
+import { TWO_PI, MIN_NORMAL } from "./real";
+import { checkScaled, scaleState, TB_R, TB_V2, TB_RV, TB_HX, TB_HY, TB_HZ, TB_H, TB_MU, TB_RX, TB_RY, TB_RZ, TB_VX, TB_VY, TB_VZ, twoBodyGet, scaledExpR } from "./invariants";
+import { putStateInFrame, scale2, exponent2, speedScale, speedExp, NORM_LO, NORM_HI } from "./invariants";
 
-const TWO_PI: real = IS_F32 ? <real>6.2831854820251465 : <real>6.283185307179586;
-
-// Frame vectors of the last `frame` call.
+// File-private scratch: the frame vectors f_hat, g_hat of the last `frame` call, read by its two callers
+// (equinoctial, from_equinoctial) right after the call.
 let fx: real = 0;
 let fy: real = 0;
 let fz: real = 0;
@@ -78,48 +77,43 @@ function frame(h: real, k: real): void {
 export function equinoctial(mu: real, rx0: real, ry0: real, rz0: real, vx0: real, vy0: real, vz0: real): i32 {
   // The state computed with: (mu, r, v) itself, or a power-of-two scaled copy (invariants.ts, "Range").
   const sc = scaleState(mu, rx0, ry0, rz0, vx0, vy0, vz0);
-  const st = checkState(tMu, tRx, tRy, tRz, tVx, tVy, tVz);
+  const st = checkScaled();
   if (st != OK) return st;
-  const mxy = max(abs(sHX), abs(sHY));
-  if (mxy == 0 && sHZ < 0) return ERR_DEGENERATE;
+  const hx = twoBodyGet(TB_HX), hy = twoBodyGet(TB_HY), hz = twoBodyGet(TB_HZ), hn = twoBodyGet(TB_H);
+  const mxy = max(abs(hx), abs(hy));
+  if (mxy == 0 && hz < 0) return ERR_DEGENERATE;
   if (sc != OK) return sc;
-  const m = tMu;
-  const rx = tRx, ry = tRy, rz = tRz, vx = tVx, vy = tVy, vz = tVz;
+  const m = twoBodyGet(TB_MU);
+  const rx = twoBodyGet(TB_RX), ry = twoBodyGet(TB_RY), rz = twoBodyGet(TB_RZ);
+  const vx = twoBodyGet(TB_VX), vy = twoBodyGet(TB_VY), vz = twoBodyGet(TB_VZ);
+  const r = twoBodyGet(TB_R), v2 = twoBodyGet(TB_V2), rv = twoBodyGet(TB_RV);
   let h: real;
   let k: real;
-  if (sHZ >= 0) {
-    const d = sH + sHZ;
-    h = -sHY / d;
-    k = sHX / d;
+  if (hz >= 0) {
+    const d = hn + hz;
+    h = -hy / d;
+    k = hx / d;
   } else {
     // Homogeneous of degree 0 in h: where h_x^2 + h_y^2 leaves the normal range the four components are
     // first multiplied by a power of two near 1 / max(|h_x|, |h_y|).
-    let hx = sHX;
-    let hy = sHY;
-    let hz = sHZ;
-    let hn = sH;
-    if (!(mxy >= NORM_LO && mxy <= NORM_HI)) {
-      const j = -exponent2(mxy);
-      hx = scale2(hx, j);
-      hy = scale2(hy, j);
-      hz = scale2(hz, j);
-      hn = scale2(hn, j);
-    }
-    const d = (hn - hz) / (hx * hx + hy * hy);
-    h = -hy * d;
-    k = hx * d;
+    const j = mxy >= NORM_LO && mxy <= NORM_HI ? 0 : -exponent2(mxy);
+    const sx = scale2(hx, j);
+    const sy = scale2(hy, j);
+    const d = (scale2(hn, j) - scale2(hz, j)) / (sx * sx + sy * sy);
+    h = -sy * d;
+    k = sx * d;
   }
   frame(h, k);
-  const c1 = sV2 - m / sR;
-  const ex = (c1 * rx - sRV * vx) / m;
-  const ey = (c1 * ry - sRV * vy) / m;
-  const ez = (c1 * rz - sRV * vz) / m;
+  const c1 = v2 - m / r;
+  const ex = (c1 * rx - rv * vx) / m;
+  const ey = (c1 * ry - rv * vy) / m;
+  const ez = (c1 * rz - rv * vz) / m;
   const f = ex * fx + ey * fy + ez * fz;
   const g = ex * gx + ey * gy + ez * gz;
   let L = RMath.atan2(rx * gx + ry * gy + rz * gz, rx * fx + ry * fy + rz * fz);
   if (L < 0) L += TWO_PI;
   if (L >= TWO_PI) L = 0; // f32 only: its 2 pi is above the true value
-  const p = scale2(sH * sH / m, -kR); // back in the caller's units (nothing to do inside the window)
+  const p = scale2(hn * hn / m, -scaledExpR()); // back in the caller's units (nothing to do inside the window)
   if (!isFinite(p) || !(p >= MIN_NORMAL) || !isFinite(f) || !isFinite(g) || !isFinite(h) || !isFinite(k) || !isFinite(L)) return ERR_OVERFLOW;
   put(0, p);
   put(1, f);
@@ -141,6 +135,7 @@ export function from_equinoctial(mu: real, p: real, f: real, g: real, h: real, k
   frame(h, k);
   const r = p / w;
   const s = speedScale(mu, p);
+  const kS = speedExp();
   const a1 = r * cl;
   const a2 = r * sl;
   const b1 = -s * (g + sl);

@@ -26,10 +26,24 @@ import { put } from "./io";
 import { IS_F32 } from "./real";
 import { scale2, exponent2, maxAbs3 } from "./invariants";
 
-// Results of accel() (module-level scalars: no allocation).
-export let gAx: real = 0;
-export let gAy: real = 0;
-export let gAz: real = 0;
+// File-private scratch: the acceleration of the last `accel` call (wasm globals, no linear memory), read by the
+// caller right after the call through accelX(), accelY(), accelZ().
+let lastAx: real = 0;
+let lastAy: real = 0;
+let lastAz: real = 0;
+
+/** x component of the last `accel` result. */
+export function accelX(): real {
+  return lastAx;
+}
+/** y component of the last `accel` result. */
+export function accelY(): real {
+  return lastAy;
+}
+/** z component of the last `accel` result. */
+export function accelZ(): real {
+  return lastAz;
+}
 
 // Window of the plain formulas: r^2 in [2^-400, 2^400] and mu in [2^-200, 2^200] (f64; 2^+-60 and 2^+-30 in
 // f32). Then 1/r, mu/r, mu/r^2 and mu/r^3 are all within 2^+-800 (2^+-120): nothing under- or overflows except
@@ -40,39 +54,42 @@ export let gAz: real = 0;
 // the normal range come out with gradual underflow (absolute error below a few 2^-1074, or 2^-149 in f32).
 // (Before 2026-12 x^2 overflowed: gravity_zonal(398600.4418, 0, 0, 1, 1.797e308, 0, 0) gave potential 0,
 // true -2.2e-303.)
-const G_R2_LO: real = IS_F32 ? <real>8.673617379884035e-19 : <real>3.8725919148493183e-121; // 2^-60, 2^-400
-const G_R2_HI: real = IS_F32 ? <real>1152921504606846976.0 : <real>2.5822498780869086e120; // 2^60, 2^400
-const G_MU_LO: real = IS_F32 ? <real>9.313225746154785e-10 : <real>6.223015277861142e-61; // 2^-30, 2^-200
-const G_MU_HI: real = IS_F32 ? <real>1073741824.0 : <real>1.6069380442589903e60; // 2^30, 2^200
+const G_R2_LO: real = IS_F32 ? <real>8.673617379884035e-19 : <real>3.8725919148493183e-121; // 2^-60, 2^-400; f64 0x26F0000000000000, f32 0x21800000
+const G_R2_HI: real = IS_F32 ? <real>1152921504606846976.0 : <real>2.5822498780869086e120; // 2^60, 2^400; f64 0x58F0000000000000, f32 0x5D800000
+const G_MU_LO: real = IS_F32 ? <real>9.313225746154785e-10 : <real>6.223015277861142e-61; // 2^-30, 2^-200; f64 0x3370000000000000, f32 0x30800000
+const G_MU_HI: real = IS_F32 ? <real>1073741824.0 : <real>1.6069380442589903e60; // 2^30, 2^200; f64 0x4C70000000000000, f32 0x4E800000
 
-/** Exponents of the last scaled evaluation: x' = x 2^gKx, mu' = mu 2^gKm (finite x, y, z not all 0, mu > 0). */
-let gKx: i32 = 0;
-let gKm: i32 = 0;
-function scaleExponents(mu: real, x: real, y: real, z: real): void {
-  gKx = -exponent2(maxAbs3(x, y, z));
-  gKm = -exponent2(mu);
+// Outside the window: x' = x 2^lengthExp(..), mu' = mu 2^muExp(mu) (finite x, y, z not all 0; mu > 0).
+function lengthExp(x: real, y: real, z: real): i32 {
+  return -exponent2(maxAbs3(x, y, z));
+}
+function muExp(mu: real): i32 {
+  return -exponent2(mu);
 }
 
-/** Acceleration at (x, y, z); sets gAx, gAy, gAz. Zonal terms are skipped when both coefficients are zero. */
+/**
+ * Acceleration at (x, y, z), read afterwards with accelX(), accelY(), accelZ(). Zonal terms are skipped when
+ * both coefficients are zero.
+ */
 export function accel(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real): void {
   const r2 = x * x + y * y + z * z;
   if (r2 >= G_R2_LO && r2 <= G_R2_HI && mu >= G_MU_LO && mu <= G_MU_HI) {
     accelPlain(mu, j2, j3, R, x, y, z, r2);
     return;
   }
-  scaleExponents(mu, x, y, z);
-  const k = gKx;
+  const k = lengthExp(x, y, z);
+  const km = muExp(mu);
   const xs = scale2(x, k);
   const ys = scale2(y, k);
   const zs = scale2(z, k);
-  accelPlain(scale2(mu, gKm), j2, j3, scale2(R, k), xs, ys, zs, xs * xs + ys * ys + zs * zs);
-  const back = 2 * k - gKm;
-  gAx = scale2(gAx, back);
-  gAy = scale2(gAy, back);
-  gAz = scale2(gAz, back);
+  accelPlain(scale2(mu, km), j2, j3, scale2(R, k), xs, ys, zs, xs * xs + ys * ys + zs * zs);
+  const back = 2 * k - km;
+  lastAx = scale2(lastAx, back);
+  lastAy = scale2(lastAy, back);
+  lastAz = scale2(lastAz, back);
 }
 
-// accel inside the window (r2 = x^2 + y^2 + z^2).
+// accel inside the window (r2 = x^2 + y^2 + z^2), to the scratch.
 function accelPlain(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real, r2: real): void {
   const r = RMath.sqrt(r2);
   const ir = <real>1.0 / r;
@@ -101,21 +118,21 @@ function accelPlain(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: 
     fy += t3xy * uy;
     fz += c3 * (<real>6.0 * s2 - <real>7.0 * s2 * s2 - <real>0.6);
   }
-  gAx = fx;
-  gAy = fy;
-  gAz = fz;
+  lastAx = fx;
+  lastAy = fy;
+  lastAz = fz;
 }
 
 /** Potential energy per unit mass V at (x, y, z) (zero at infinity, negative near the body). */
 export function potential(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real): real {
   const r2 = x * x + y * y + z * z;
   if (r2 >= G_R2_LO && r2 <= G_R2_HI && mu >= G_MU_LO && mu <= G_MU_HI) return potentialPlain(mu, j2, j3, R, x, y, z, r2);
-  scaleExponents(mu, x, y, z);
-  const k = gKx;
+  const k = lengthExp(x, y, z);
+  const km = muExp(mu);
   const xs = scale2(x, k);
   const ys = scale2(y, k);
   const zs = scale2(z, k);
-  return scale2(potentialPlain(scale2(mu, gKm), j2, j3, scale2(R, k), xs, ys, zs, xs * xs + ys * ys + zs * zs), k - gKm);
+  return scale2(potentialPlain(scale2(mu, km), j2, j3, scale2(R, k), xs, ys, zs, xs * xs + ys * ys + zs * zs), k - km);
 }
 
 // potential inside the window (r2 = x^2 + y^2 + z^2).
@@ -147,10 +164,10 @@ export function gravity_zonal(mu: real, j2: real, j3: real, radius: real, x: rea
   if (x == 0 && y == 0 && z == 0) return ERR_DEGENERATE;
   accel(mu, j2, j3, radius, x, y, z);
   const v = potential(mu, j2, j3, radius, x, y, z);
-  if (!isFinite(gAx) || !isFinite(gAy) || !isFinite(gAz) || !isFinite(v)) return ERR_OVERFLOW; // 1/r^3 overflows
-  put(0, gAx);
-  put(1, gAy);
-  put(2, gAz);
+  if (!isFinite(lastAx) || !isFinite(lastAy) || !isFinite(lastAz) || !isFinite(v)) return ERR_OVERFLOW; // 1/r^3 overflows
+  put(0, lastAx);
+  put(1, lastAy);
+  put(2, lastAz);
   put(3, v);
   return OK;
 }

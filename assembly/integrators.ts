@@ -38,11 +38,9 @@
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE, ERR_OVERFLOW } from "./status";
 import { put } from "./io";
-import { accel, potential, gAx, gAy, gAz } from "./gravity";
-import {
-  monitorBegin, monitorUpdate, monitorFinite, curEnergy, curHx, curHy, curHz, curEx, curEy, curEz, curAreal,
-  devE, devH, devEcc, devA, maxE, maxH, maxEcc, maxA, firstE, firstH, firstEcc, firstA,
-} from "./monitor";
+import { SIXTH, THIRD, TWO_THIRDS } from "./real";
+import { accel, accelX, accelY, accelZ, potential } from "./gravity";
+import { monitorBegin, monitorUpdate, monitorFinite, monitorPut } from "./monitor";
 
 export const METHOD_RK4: i32 = 0;
 export const METHOD_VERLET: i32 = 1;
@@ -55,11 +53,8 @@ export const INTEGRATE_MAX_STEPS: i32 = 1000000000;
 
 // Yoshida (1990), 4th order: w1 = 1/(2 - 2^(1/3)) = 1.3512071919596578 (correctly rounded; 2^(1/3) =
 // 1.2599210498948732); w0 = 1 - 2 w1 computed exactly, so the three sub-steps add up to exactly one step.
-const YOSHIDA_W1: real = <real>1.3512071919596578;
+const YOSHIDA_W1: real = <real>1.3512071919596578; // f64 0x3FF59E8B6EB96339, f32 0x3FACF45B
 const YOSHIDA_W0: real = <real>1.0 - <real>2.0 * YOSHIDA_W1;
-const SIXTH: real = <real>1.0 / <real>6.0;
-const THIRD: real = <real>1.0 / <real>3.0;
-const TWO_THIRDS: real = <real>2.0 / <real>3.0;
 
 // The run: model, method, state and the acceleration at the current position (kept by Verlet/Yoshida).
 let gMu: real = 1;
@@ -80,11 +75,16 @@ let AX: real = 0;
 let AY: real = 0;
 let AZ: real = 0;
 
-function accelAt(x: real, y: real, z: real): void {
+// The acceleration at (x, y, z) under the run's model (read with accelX, accelY, accelZ right after).
+function accelRun(x: real, y: real, z: real): void {
   accel(gMu, gJ2, gJ3, gR, x, y, z);
-  AX = gAx;
-  AY = gAy;
-  AZ = gAz;
+}
+
+function accelAt(x: real, y: real, z: real): void {
+  accelRun(x, y, z);
+  AX = accelX();
+  AY = accelY();
+  AZ = accelZ();
 }
 
 // Classical RK4 on (r, v), written in its Nystrom form (below): four evaluations.
@@ -93,16 +93,16 @@ function accelAt(x: real, y: real, z: real): void {
 function rk4Step(h: real): void {
   const h2 = h * h;
   const c2 = <real>0.5 * h;
-  accel(gMu, gJ2, gJ3, gR, X, Y, Z);
-  const a1x = gAx, a1y = gAy, a1z = gAz;
-  accel(gMu, gJ2, gJ3, gR, X + c2 * VX, Y + c2 * VY, Z + c2 * VZ);
-  const a2x = gAx, a2y = gAy, a2z = gAz;
+  accelRun(X, Y, Z);
+  const a1x = accelX(), a1y = accelY(), a1z = accelZ();
+  accelRun(X + c2 * VX, Y + c2 * VY, Z + c2 * VZ);
+  const a2x = accelX(), a2y = accelY(), a2z = accelZ();
   const q3 = <real>0.25 * h2;
-  accel(gMu, gJ2, gJ3, gR, X + c2 * VX + q3 * a1x, Y + c2 * VY + q3 * a1y, Z + c2 * VZ + q3 * a1z);
-  const a3x = gAx, a3y = gAy, a3z = gAz;
+  accelRun(X + c2 * VX + q3 * a1x, Y + c2 * VY + q3 * a1y, Z + c2 * VZ + q3 * a1z);
+  const a3x = accelX(), a3y = accelY(), a3z = accelZ();
   const q4 = <real>0.5 * h2;
-  accel(gMu, gJ2, gJ3, gR, X + h * VX + q4 * a2x, Y + h * VY + q4 * a2y, Z + h * VZ + q4 * a2z);
-  const a4x = gAx, a4y = gAy, a4z = gAz;
+  accelRun(X + h * VX + q4 * a2x, Y + h * VY + q4 * a2y, Z + h * VZ + q4 * a2z);
+  const a4x = accelX(), a4y = accelY(), a4z = accelZ();
   const p = h2 * SIXTH;
   const w = h * SIXTH;
   X += h * VX + p * (a1x + a2x + a3x);
@@ -126,41 +126,41 @@ function rk4Step(h: real): void {
 //   b   = 11/120, 0, 27/40, 27/40, -4/15, -4/15, 11/120;   b A = 11/120, 0, 9/40, 9/20, -2/15, -2/15, 0
 function butcher6Step(h: real): void {
   const h2 = h * h;
-  accel(gMu, gJ2, gJ3, gR, X, Y, Z);
-  const a1x = gAx, a1y = gAy, a1z = gAz;
+  accelRun(X, Y, Z);
+  const a1x = accelX(), a1y = accelY(), a1z = accelZ();
   const t2 = h * THIRD;
-  accel(gMu, gJ2, gJ3, gR, X + t2 * VX, Y + t2 * VY, Z + t2 * VZ);
-  const a2x = gAx, a2y = gAy, a2z = gAz;
+  accelRun(X + t2 * VX, Y + t2 * VY, Z + t2 * VZ);
+  const a2x = accelX(), a2y = accelY(), a2z = accelZ();
   const t3 = h * TWO_THIRDS;
   const q31 = h2 * (<real>2.0 / <real>9.0);
-  accel(gMu, gJ2, gJ3, gR, X + t3 * VX + q31 * a1x, Y + t3 * VY + q31 * a1y, Z + t3 * VZ + q31 * a1z);
-  const a3x = gAx, a3y = gAy, a3z = gAz;
+  accelRun(X + t3 * VX + q31 * a1x, Y + t3 * VY + q31 * a1y, Z + t3 * VZ + q31 * a1z);
+  const a3x = accelX(), a3y = accelY(), a3z = accelZ();
   const q41 = h2 * (<real>1.0 / <real>9.0);
   const q42 = h2 * (<real>-1.0 / <real>18.0);
-  accel(gMu, gJ2, gJ3, gR, X + t2 * VX + (q41 * a1x + q42 * a2x), Y + t2 * VY + (q41 * a1y + q42 * a2y),
+  accelRun(X + t2 * VX + (q41 * a1x + q42 * a2x), Y + t2 * VY + (q41 * a1y + q42 * a2y),
     Z + t2 * VZ + (q41 * a1z + q42 * a2z));
-  const a4x = gAx, a4y = gAy, a4z = gAz;
+  const a4x = accelX(), a4y = accelY(), a4z = accelZ();
   const t5 = <real>0.5 * h;
   const q51 = h2 * (<real>11.0 / <real>32.0);
   const q52 = h2 * <real>-0.25;
   const q53 = h2 * <real>0.03125; // 1/32
-  accel(gMu, gJ2, gJ3, gR, X + t5 * VX + (q51 * a1x + q52 * a2x + q53 * a3x), Y + t5 * VY + (q51 * a1y + q52 * a2y + q53 * a3y),
+  accelRun(X + t5 * VX + (q51 * a1x + q52 * a2x + q53 * a3x), Y + t5 * VY + (q51 * a1y + q52 * a2y + q53 * a3y),
     Z + t5 * VZ + (q51 * a1z + q52 * a2z + q53 * a3z));
-  const a5x = gAx, a5y = gAy, a5z = gAz;
+  const a5x = accelX(), a5y = accelY(), a5z = accelZ();
   const q61 = h2 * <real>0.28125; // 9/32
   const q62 = h2 * <real>0.0625; // 1/16
   const q63 = h2 * <real>-0.03125; // -1/32
   const q64 = h2 * <real>-0.1875; // -3/16
-  accel(gMu, gJ2, gJ3, gR, X + t5 * VX + (q61 * a1x + q62 * a2x + q63 * a3x + q64 * a4x),
+  accelRun(X + t5 * VX + (q61 * a1x + q62 * a2x + q63 * a3x + q64 * a4x),
     Y + t5 * VY + (q61 * a1y + q62 * a2y + q63 * a3y + q64 * a4y), Z + t5 * VZ + (q61 * a1z + q62 * a2z + q63 * a3z + q64 * a4z));
-  const a6x = gAx, a6y = gAy, a6z = gAz;
+  const a6x = accelX(), a6y = accelY(), a6z = accelZ();
   const q71 = h2 * (<real>-3.0 / <real>22.0); // also (7,2)
   const q73 = h2 * (<real>9.0 / <real>22.0);
   const q74 = h2 * (<real>12.0 / <real>11.0);
   const q75 = h2 * (<real>-8.0 / <real>11.0);
-  accel(gMu, gJ2, gJ3, gR, X + h * VX + (q71 * (a1x + a2x) + q73 * a3x + q74 * a4x + q75 * a5x),
+  accelRun(X + h * VX + (q71 * (a1x + a2x) + q73 * a3x + q74 * a4x + q75 * a5x),
     Y + h * VY + (q71 * (a1y + a2y) + q73 * a3y + q74 * a4y + q75 * a5y), Z + h * VZ + (q71 * (a1z + a2z) + q73 * a3z + q74 * a4z + q75 * a5z));
-  const a7x = gAx, a7y = gAy, a7z = gAz;
+  const a7x = accelX(), a7y = accelY(), a7z = accelZ();
   // b A and b (b_2 = 0; b_3 = b_4, b_5 = b_6 grouped).
   const p1 = h2 * (<real>11.0 / <real>120.0);
   const p3 = h2 * (<real>9.0 / <real>40.0);
@@ -218,28 +218,9 @@ function writeSlots(): void {
   put(3, VX);
   put(4, VY);
   put(5, VZ);
-  put(6, maxE);
-  put(7, maxH);
-  put(8, maxEcc);
-  put(9, maxA);
-  put(10, <real>firstE);
-  put(11, <real>firstH);
-  put(12, <real>firstEcc);
-  put(13, <real>firstA);
+  monitorPut(); // 6..13, 16..27
   put(14, <real>k);
   put(15, <real>k * hStep);
-  put(16, curEnergy);
-  put(17, curHx);
-  put(18, curHy);
-  put(19, curHz);
-  put(20, curEx);
-  put(21, curEy);
-  put(22, curEz);
-  put(23, curAreal);
-  put(24, devE);
-  put(25, devH);
-  put(26, devEcc);
-  put(27, devA);
 }
 
 /**

@@ -40,14 +40,12 @@
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE, ERR_OVERFLOW } from "./status";
 import { put } from "./io";
-import { IS_F32 } from "./real";
+import { IS_F32, MIN_NORMAL } from "./real";
 
 // ---- power-of-two scaling ------------------------------------------------------------------------------
 // Multiplying by 2^k is exact while the result stays normal. No bit access: the exponents are found by
 // comparisons, so the same source serves the f64, f32 and host-JS builds.
 
-/** Smallest positive normal real: 2^-1022 (f64), 2^-126 (f32). */
-export const MIN_NORMAL: real = IS_F32 ? <real>1.1754943508222875e-38 : <real>2.2250738585072014e-308;
 /** Largest |k| that pow2 takes: 2^k and 2^-k are both normal. */
 const POW2_STEP: i32 = IS_F32 ? 120 : 1000;
 /** Bits of |k| in pow2 (2^POW2_BITS > POW2_STEP). */
@@ -55,7 +53,7 @@ const POW2_BITS: i32 = IS_F32 ? 7 : 10;
 /** Multiplications in scale2: |k| up to SCALE_STEPS * POW2_STEP (600 or 5000, beyond any exponent difference). */
 const SCALE_STEPS: i32 = 5;
 /** Top rung of exponent2's ladder, 2^(2^(EXP_RUNGS - 1)): 2^512 (f64), 2^64 (f32). */
-const EXP_TOP: real = IS_F32 ? <real>18446744073709551616.0 : <real>1.3407807929942597e154;
+const EXP_TOP: real = IS_F32 ? <real>18446744073709551616.0 : <real>1.3407807929942597e154; // f64 0x5FF0000000000000, f32 0x5F800000
 const EXP_RUNGS: i32 = IS_F32 ? 7 : 10;
 
 /** 2^k for |k| <= POW2_STEP, by repeated squaring (every factor is a power of two: exact). */
@@ -124,13 +122,18 @@ export function norm3(x: real, y: real, z: real): real {
   const c = scale2(z, k);
   return scale2(RMath.sqrt(a * a + b * b + c * c), -k);
 }
-/** Left by speedScale: its result is sqrt(mu / p) 2^kS (kS = 0 where mu / p is a normal number). */
-export let kS: i32 = 0;
+// File-private scratch: kS of the last speedScale call, read through speedExp().
+let lastKS: i32 = 0;
+
+/** kS of the last speedScale call: its result was sqrt(mu / p) 2^kS (0 where mu / p is a normal number). */
+export function speedExp(): i32 {
+  return lastKS;
+}
 /** speedScale's result stays within 2^+-SPEED_EXP (times less than 2) when mu / p leaves the normal range. */
 const SPEED_EXP: i32 = IS_F32 ? 50 : 500;
 
 /**
- * sqrt(mu / p) 2^kS. Where mu / p is a normal number: its plain root, kS = 0. Elsewhere the quotient would
+ * sqrt(mu / p) 2^kS, kS read afterwards with speedExp(). Where mu / p is a normal number: its plain root, kS = 0. Elsewhere the quotient would
  * have lost digits (or overflowed), and so would sqrt(mu) / sqrt(p) where the speed scale itself is below the
  * normal range although the velocity it multiplies is not: mu and p are first taken to [1, 4) by even powers of
  * two (exact; a subnormal mu included), and the root of their quotient is returned times the power of two
@@ -139,51 +142,125 @@ const SPEED_EXP: i32 = IS_F32 ? 50 : 500;
  * a relative error of 2.8e-13, the scale 2.6e-312 having kept 38 bits.) mu, p > 0 and finite.
  */
 export function speedScale(mu: real, p: real): real {
-  kS = 0;
+  lastKS = 0;
   const q = mu / p;
   if (q >= MIN_NORMAL && isFinite(q)) return RMath.sqrt(q);
   const jm = exponent2(mu) & ~1;
   const jp = exponent2(p) & ~1;
   const g = (jm - jp) >> 1; // sqrt(mu / p) = sqrt(mu' / p') 2^g, mu' = mu 2^-jm and p' = p 2^-jp in [1, 4)
   const c = g > SPEED_EXP ? SPEED_EXP : g < -SPEED_EXP ? -SPEED_EXP : g;
-  kS = c - g;
+  lastKS = c - g;
   return scale2(RMath.sqrt(scale2(mu, -jm) / scale2(p, -jp)), c);
 }
 
 /** norm3's plain range: 2^-500 .. 2^500 (f64), 2^-60 .. 2^60 (f32). */
-export const NORM_LO: real = IS_F32 ? <real>8.673617379884035e-19 : <real>3.054936363499605e-151;
-export const NORM_HI: real = IS_F32 ? <real>1152921504606846976.0 : <real>3.273390607896142e150;
+export const NORM_LO: real = IS_F32 ? <real>8.673617379884035e-19 : <real>3.054936363499605e-151; // f64 0x20B0000000000000, f32 0x21800000
+export const NORM_HI: real = IS_F32 ? <real>1152921504606846976.0 : <real>3.273390607896142e150; // f64 0x5F30000000000000, f32 0x5D800000
 
 /**
  * A state whose |r x v| is at most this fraction of |r| |v| is rectilinear (the sine of the angle between r
  * and v). 4 ulp of 1: the cross product of two parallel vectors rounded to the format is about that large.
  */
-export const RECTILINEAR_REL: real = IS_F32 ? <real>4.76837158203125e-7 : <real>8.881784197001252e-16; // 2^-21, 2^-50
+export const RECTILINEAR_REL: real = IS_F32 ? <real>4.76837158203125e-7 : <real>8.881784197001252e-16; // 2^-21, 2^-50; f64 0x3CD0000000000000, f32 0x35000000
 
-// Left by checkState for its callers: |r|, v^2, r . v, h = r x v and |h|.
-export let sR: real = 0;
-export let sV2: real = 0;
-export let sRV: real = 0;
-export let sHX: real = 0;
-export let sHY: real = 0;
-export let sHZ: real = 0;
-export let sH: real = 0;
+// ---- the two-body scratch (file-private: read only through twoBodyGet, scaledExpR, scaledExpV) ------------------------------------------------------------------------------
+// checkState and scaleState keep their results in this file's scratch (wasm globals, no linear memory); the
+// calling kernel reads them right after the call through twoBodyGet(TB_...).
+/** checkState: |r|, v^2, r . v, h = r x v (three values) and |h|. */
+export const TB_R: i32 = 0;
+export const TB_V2: i32 = 1;
+export const TB_RV: i32 = 2;
+export const TB_HX: i32 = 3;
+export const TB_HY: i32 = 4;
+export const TB_HZ: i32 = 5;
+export const TB_H: i32 = 6;
+/** scaleState: the state to compute with, mu', r' (three values), v' (three values), and the exponents kR, kV. */
+export const TB_MU: i32 = 7;
+export const TB_RX: i32 = 8;
+export const TB_RY: i32 = 9;
+export const TB_RZ: i32 = 10;
+export const TB_VX: i32 = 11;
+export const TB_VY: i32 = 12;
+export const TB_VZ: i32 = 13;
 
-/** The special cases shared by the two-body kernels (see the header). Sets sR .. sH. */
+// checkState's results
+let stR: real = 0;
+let stV2: real = 0;
+let stRV: real = 0;
+let stHX: real = 0;
+let stHY: real = 0;
+let stHZ: real = 0;
+let stH: real = 0;
+// scaleState's results
+let scMu: real = 0;
+let scRX: real = 0;
+let scRY: real = 0;
+let scRZ: real = 0;
+let scVX: real = 0;
+let scVY: real = 0;
+let scVZ: real = 0;
+let scKR: i32 = 0;
+let scKV: i32 = 0;
+
+/** Value i (TB_R .. TB_VZ) of the last checkState / scaleState call. */
+export function twoBodyGet(i: i32): real {
+  switch (i) {
+    case TB_R: return stR;
+    case TB_V2: return stV2;
+    case TB_RV: return stRV;
+    case TB_HX: return stHX;
+    case TB_HY: return stHY;
+    case TB_HZ: return stHZ;
+    case TB_H: return stH;
+    case TB_MU: return scMu;
+    case TB_RX: return scRX;
+    case TB_RY: return scRY;
+    case TB_RZ: return scRZ;
+    case TB_VX: return scVX;
+    case TB_VY: return scVY;
+    default: return scVZ;
+  }
+}
+
+/** kR of the last scaleState call: r' = r 2^kR. */
+export function scaledExpR(): i32 {
+  return scKR;
+}
+
+/** kV of the last scaleState call: v' = v 2^kV, mu' = mu 2^(kR + 2 kV). */
+export function scaledExpV(): i32 {
+  return scKV;
+}
+
+/**
+ * The special cases shared by the two-body kernels (see the header). Keeps |r|, v^2, r . v, h and |h| (TB_R ..
+ * TB_H) for twoBodyGet as far as it gets (all of them when it returns OK or ERR_DEGENERATE).
+ */
 export function checkState(mu: real, rx: real, ry: real, rz: real, vx: real, vy: real, vz: real): i32 {
   if (!isFinite(mu) || !isFinite(rx) || !isFinite(ry) || !isFinite(rz) || !isFinite(vx) || !isFinite(vy) || !isFinite(vz)) return ERR_NONFINITE;
   if (!(mu > 0)) return ERR_DOMAIN;
-  sR = norm3(rx, ry, rz);
-  if (!(sR > 0)) return ERR_DOMAIN;
-  sV2 = vx * vx + vy * vy + vz * vz;
-  sRV = rx * vx + ry * vy + rz * vz;
-  sHX = ry * vz - rz * vy;
-  sHY = rz * vx - rx * vz;
-  sHZ = rx * vy - ry * vx;
-  sH = norm3(sHX, sHY, sHZ);
-  if (!isFinite(sR) || !isFinite(sV2) || !isFinite(sH)) return ERR_OVERFLOW;
-  if (!(sH > RECTILINEAR_REL * sR * RMath.sqrt(sV2))) return ERR_DEGENERATE;
+  const r = norm3(rx, ry, rz);
+  stR = r;
+  if (!(r > 0)) return ERR_DOMAIN;
+  const v2 = vx * vx + vy * vy + vz * vz;
+  const hx = ry * vz - rz * vy;
+  const hy = rz * vx - rx * vz;
+  const hz = rx * vy - ry * vx;
+  const h = norm3(hx, hy, hz);
+  stV2 = v2;
+  stRV = rx * vx + ry * vy + rz * vz;
+  stHX = hx;
+  stHY = hy;
+  stHZ = hz;
+  stH = h;
+  if (!isFinite(r) || !isFinite(v2) || !isFinite(h)) return ERR_OVERFLOW;
+  if (!(h > RECTILINEAR_REL * r * RMath.sqrt(v2))) return ERR_DEGENERATE;
   return OK;
+}
+
+/** checkState on the scaled state of the last scaleState call. */
+export function checkScaled(): i32 {
+  return checkState(scMu, scRX, scRY, scRZ, scVX, scVY, scVZ);
 }
 
 // ---- the window of the plain formulas and the scaled state -----------------------------------------------
@@ -193,97 +270,98 @@ export function checkState(mu: real, rx: real, ry: real, rz: real, vx: real, vy:
 // c1 r and (r . v) v are below 2^602 and the e vector below 2^902 (its norm: norm3). In general the bounds
 // need 4 w + m <= 900 for windows 2^+-w, 2^+-m. f32 (w = m = 16, RECTILINEAR_REL = 2^-21): |h|^2 >= 2^-106,
 // p in [2^-122, 2^84], 1 / a is 0 or above 2^-71.
-const WIN_RV_LO: real = IS_F32 ? <real>0.0000152587890625 : <real>7.006492321624085e-46; // 2^-16, 2^-150
-const WIN_RV_HI: real = IS_F32 ? <real>65536.0 : <real>1.42724769270596e45; // 2^16, 2^150
-const WIN_MU_LO: real = IS_F32 ? <real>0.0000152587890625 : <real>4.909093465297727e-91; // 2^-16, 2^-300
-const WIN_MU_HI: real = IS_F32 ? <real>65536.0 : <real>2.037035976334486e90; // 2^16, 2^300
+const WIN_RV_LO: real = IS_F32 ? <real>0.0000152587890625 : <real>7.006492321624085e-46; // 2^-16, 2^-150; f64 0x3690000000000000, f32 0x37800000
+const WIN_RV_HI: real = IS_F32 ? <real>65536.0 : <real>1.42724769270596e45; // 2^16, 2^150; f64 0x4950000000000000, f32 0x47800000
+const WIN_MU_LO: real = IS_F32 ? <real>0.0000152587890625 : <real>4.909093465297727e-91; // 2^-16, 2^-300; f64 0x2D30000000000000, f32 0x37800000
+const WIN_MU_HI: real = IS_F32 ? <real>65536.0 : <real>2.037035976334486e90; // 2^16, 2^300; f64 0x52B0000000000000, f32 0x47800000
 /** Largest exponent scaleState gives the largest |component| of v' (it lies in [2^-x, 2^(x+1))). */
 const WIN_V_EXP: i32 = IS_F32 ? 15 : 149;
 
-// Left by scaleState: the state to compute with and the exponents that scale its results back.
-export let tMu: real = 0;
-export let tRx: real = 0;
-export let tRy: real = 0;
-export let tRz: real = 0;
-export let tVx: real = 0;
-export let tVy: real = 0;
-export let tVz: real = 0;
-/** r' = r 2^kR. */
-export let kR: i32 = 0;
-/** v' = v 2^kV (mu' = mu 2^(kR + 2 kV)). */
-export let kV: i32 = 0;
+// scaleState's outputs (TB_MU .. TB_KV).
+function putScaled(mu: real, rx: real, ry: real, rz: real, vx: real, vy: real, vz: real, kR: i32, kV: i32): void {
+  scMu = mu;
+  scRX = rx;
+  scRY = ry;
+  scRZ = rz;
+  scVX = vx;
+  scVY = vy;
+  scVZ = vz;
+  scKR = kR;
+  scKV = kV;
+}
 
 /**
- * The state the two-body kernels compute with (see "Range" in the header): (mu, r, v) itself inside the
- * window, a power-of-two scaled copy outside it. ERR_OVERFLOW when no scaling puts mu' and v' in the window
- * (mu / (|r| |v|^2) beyond about 2^+-598) or |r| or |v| exceeds the largest real; tMu is then mu and the caller still runs checkState on tMu, tR, tV
- * for the statuses that come first. Non-finite input, mu <= 0 or r = 0 are left unscaled for checkState.
+ * The state the two-body kernels compute with (see "Range" in the header), kept for twoBodyGet (TB_MU .. TB_KV):
+ * (mu, r, v) itself inside the window, a power-of-two scaled copy outside it. ERR_OVERFLOW when no scaling puts
+ * mu' and v' in the window (mu / (|r| |v|^2) beyond about 2^+-598) or |r| or |v| exceeds the largest real; mu' is
+ * then mu and the caller still runs checkScaled for the statuses that come first. Non-finite input, mu <= 0 or
+ * r = 0 are left unscaled for checkState.
  */
 export function scaleState(mu: real, rx: real, ry: real, rz: real, vx: real, vy: real, vz: real): i32 {
-  tMu = mu;
-  tRx = rx;
-  tRy = ry;
-  tRz = rz;
-  tVx = vx;
-  tVy = vy;
-  tVz = vz;
-  kR = 0;
-  kV = 0;
+  putScaled(mu, rx, ry, rz, vx, vy, vz, 0, 0);
   if (!isFinite(mu) || !isFinite(rx) || !isFinite(ry) || !isFinite(rz) || !isFinite(vx) || !isFinite(vy) || !isFinite(vz) || !(mu > 0)) return OK;
   const mr = maxAbs3(rx, ry, rz);
   const mv = maxAbs3(vx, vy, vz);
   if (mr == 0) return OK;
   const vIn = mv == 0 || (mv >= WIN_RV_LO && mv <= WIN_RV_HI);
   if (mr >= WIN_RV_LO && mr <= WIN_RV_HI && vIn && mu >= WIN_MU_LO && mu <= WIN_MU_HI) return OK;
-  kR = -exponent2(mr); // max |r'| in [1, 2)
-  const em = exponent2(mu) + kR; // mu 2^kR in [2^em, 2^(em + 1))
-  if (mv == 0) {
-    kV = -(em >> 1); // mu' in [1, 4)
-  } else {
-    const ev = exponent2(mv);
-    // d = em - 2 ev is log2 of mu / (|r'| |v|^2 2^kR) to within 2: v' = 2^x (x = -floor(d / 2)) gives mu' in [1, 4).
-    let x = -((em - 2 * ev) >> 1);
-    if (x > WIN_V_EXP) x = WIN_V_EXP;
-    if (x < -WIN_V_EXP) x = -WIN_V_EXP;
-    kV = x - ev;
-  }
-  tRx = scale2(rx, kR);
-  tRy = scale2(ry, kR);
-  tRz = scale2(rz, kR);
-  tVx = scale2(vx, kV);
-  tVy = scale2(vy, kV);
-  tVz = scale2(vz, kV);
+  const kR = -exponent2(mr); // max |r'| in [1, 2)
+  const kV = velocityExponent(exponent2(mu) + kR, mv);
+  const tRx = scale2(rx, kR);
+  const tRy = scale2(ry, kR);
+  const tRz = scale2(rz, kR);
+  const tVx = scale2(vx, kV);
+  const tVy = scale2(vy, kV);
+  const tVz = scale2(vz, kV);
+  putScaled(mu, tRx, tRy, tRz, tVx, tVy, tVz, kR, kV);
   // |r| or |v| beyond the largest real: ERR_OVERFLOW, as checkState gives for the unscaled state.
   if (!isFinite(scale2(norm3(tRx, tRy, tRz), -kR)) || !isFinite(scale2(norm3(tVx, tVy, tVz), -kV))) return ERR_OVERFLOW;
   const m2 = scale2(mu, kR + 2 * kV);
   if (!(m2 >= WIN_MU_LO && m2 <= WIN_MU_HI)) return ERR_OVERFLOW;
-  tMu = m2;
+  scMu = m2;
   return OK;
+}
+
+// kV for scaleState: mu 2^kR in [2^em, 2^(em + 1)); mv the largest |component| of v (0 allowed).
+function velocityExponent(em: i32, mv: real): i32 {
+  if (mv == 0) return -(em >> 1); // mu' in [1, 4)
+  const ev = exponent2(mv);
+  // d = em - 2 ev is log2 of mu / (|r'| |v|^2 2^kR) to within 2: v' = 2^x (x = -floor(d / 2)) gives mu' in [1, 4).
+  let x = -((em - 2 * ev) >> 1);
+  if (x > WIN_V_EXP) x = WIN_V_EXP;
+  if (x < -WIN_V_EXP) x = -WIN_V_EXP;
+  return x - ev;
 }
 
 /** Energy, angular momentum, eccentricity vector, areal velocity and flight-path angle of (r, v). */
 export function invariants(mu: real, rx: real, ry: real, rz: real, vx: real, vy: real, vz: real): i32 {
   const sc = scaleState(mu, rx, ry, rz, vx, vy, vz);
-  const s = checkState(tMu, tRx, tRy, tRz, tVx, tVy, tVz);
+  const s = checkScaled();
   if (s != OK && s != ERR_DEGENERATE) return s;
   if (sc != OK) return s != OK ? s : sc;
-  const m = tMu;
-  const energy = <real>0.5 * sV2 - m / sR;
-  const c1 = sV2 - m / sR;
-  const ex = (c1 * tRx - sRV * tVx) / m;
-  const ey = (c1 * tRy - sRV * tVy) / m;
-  const ez = (c1 * tRz - sRV * tVz) / m;
+  const m = scMu;
+  const r = stR;
+  const v2 = stV2;
+  const rv = stRV;
+  const hn = stH;
+  const energy = <real>0.5 * v2 - m / r;
+  const c1 = v2 - m / r;
+  const ex = (c1 * scRX - rv * scVX) / m;
+  const ey = (c1 * scRY - rv * scVY) / m;
+  const ez = (c1 * scRZ - rv * scVZ) / m;
   const e = norm3(ex, ey, ez);
-  const fpa = RMath.atan2(sRV, sH);
+  const fpa = RMath.atan2(rv, hn);
   // Back to the caller's units (nothing to do inside the window): energy 2^-2kV, h 2^-(kR + kV).
+  const kR = scKR;
+  const kV = scKV;
   const kh = -(kR + kV);
-  const h = scale2(sH, kh);
+  const h = scale2(hn, kh);
   const areal = <real>0.5 * h;
   const E = scale2(energy, -2 * kV);
   put(0, E);
-  put(1, scale2(sHX, kh));
-  put(2, scale2(sHY, kh));
-  put(3, scale2(sHZ, kh));
+  put(1, scale2(stHX, kh));
+  put(2, scale2(stHY, kh));
+  put(3, scale2(stHZ, kh));
   put(4, h);
   put(5, ex);
   put(6, ey);
@@ -293,7 +371,7 @@ export function invariants(mu: real, rx: real, ry: real, rz: real, vx: real, vy:
   put(10, fpa);
   if (s != OK) return s;
   // The scale of the energy (v^2 / 2 + mu / r, which bounds its error) and |h| / 2 must be normal.
-  const eScale = scale2(<real>0.5 * sV2 + m / sR, -2 * kV);
+  const eScale = scale2(<real>0.5 * v2 + m / r, -2 * kV);
   if (!isFinite(E) || !isFinite(e) || !isFinite(h) || !(eScale >= MIN_NORMAL) || !(areal >= MIN_NORMAL)) return ERR_OVERFLOW;
   return OK;
 }

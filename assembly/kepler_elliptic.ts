@@ -12,14 +12,14 @@
 //     method of order five; J. M. A. Danby and T. M. Burkardt, "The solution of Kepler's equation, I",
 //     Celest. Mech. 31 (1983) 95-107, give the same order as nested denominators; the reversion needs one
 //     division instead of four): d = -u (1 + A u + (2A^2 - B) u^2 + (5A^3 - 5AB + C) u^3), A = f''/2f',
-//     B = f'''/6f', C = f''''/24f'. Repeated until the step is below STOP_REL * E (in practice once: see
-//     STOP_REL); at most ELLIPTIC_MAX_ITER steps, else ERR_NOT_CONVERGED. sin E and cos E come from one
+//     B = f'''/6f', C = f''''/24f'. Repeated until the step is below ELLIPTIC_STOP_REL * E (in practice once: see
+//     ELLIPTIC_STOP_REL); at most ELLIPTIC_MAX_ITER steps, else ERR_NOT_CONVERGED. sin E and cos E come from one
 //     sincos call (one argument reduction).
 //     The residual is written f = (1 - e) E + e (E - sin E) - m, with 1 - e exact for e >= 1/2 (Sterbenz),
 //     E - sin E from its series for E <= 1 (series.ts), and f' = (1 - e) + e (1 - cos E) with
 //     1 - cos E = sin^2 E / (1 + cos E) while cos E > 0: no term cancels near the e -> 1, M -> 0 corner,
 //     which a naive E - e sin E - M would limit to eps * sqrt(2 / (1 - e)) (see the numerics notes).
-//     Below LINEAR_MAX the root is (m / (1 - e)) itself, one correctly rounded division.
+//     Below KEPLER_LINEAR_MAX (real.ts) the root is (m / (1 - e)) itself, one correctly rounded division.
 //  5. k = 0: E is the solution itself. k != 0: E = M + (E_m - m), so no rounding of 2 pi k enters.
 //
 // Output slots: 0 = E, 1 = iterations (correction steps applied).
@@ -30,10 +30,10 @@
 // ~1 ulp from sin for E > 1, 0.5 ulp from the last addition.
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED } from "./status";
-import { put } from "./io";
-import { IS_F32, INTEGER_LIMIT, PI, EPS } from "./real";
-import { reduceTurns, turns, reducedLo } from "./reduce";
-import { SERIES_MAX, xMinusSinSeries } from "./series";
+import { put, got } from "./io";
+import { IS_F32, INTEGER_LIMIT, PI, EPS, SIXTH, TWENTYFOURTH, KEPLER_LINEAR_MAX } from "./real";
+import { reduceTurns, reducedLo, reducedTurns } from "./reduce";
+import { ODD_SERIES_MAX, xMinusSinSeries } from "./series";
 
 /** Iteration cap of the correction loop. */
 export const ELLIPTIC_MAX_ITER: i32 = 6;
@@ -43,21 +43,11 @@ export const ELLIPTIC_MAX_ITER: i32 = 6;
  * within 2^-11 of the root on every case measured (3e6 random cases, every vector case), so one step is the rule
  * and a second step happens only for a starter worse than any seen.
  */
-const STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>0.00048828125; // 2^-9, 2^-11
-const SIXTH: real = <real>0.16666666666666666;
-const TWENTYFOURTH: real = <real>0.041666666666666664;
+const ELLIPTIC_STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>0.00048828125; // 2^-9, 2^-11; f64 0x3F40000000000000, f32 0x3B000000
 // Markley's constants: 3 pi^2, 1.6 pi, pi^2 - 6.
-const THREE_PI_SQ: real = <real>29.608813203268074;
-const PI_1_6: real = <real>5.026548245743669;
-const PI_SQ_MINUS_6: real = <real>3.869604401089358;
-/**
- * Below this |m| the root is m / (1 - e) to within a relative 2^-440 (f64; 2^-40 for f32): E <= m / (1 - e)
- * and the cubic term's share e E^2 / (6 (1 - e)) is below that. A direct quotient also keeps the residual
- * out of the subnormal range, where q E would lose relative precision.
- */
-const LINEAR_MAX: real = IS_F32 ? <real>8.673617379884035e-19 : <real>2.409919865102884e-181; // 2^-60, 2^-600
-
-let iterations: i32 = 0;
+const THREE_PI_SQ: real = <real>29.608813203268074; // f64 0x403D9BDB2E9D68CD, f32 0x41ECDED9
+const PI_1_6: real = <real>5.026548245743669; // f64 0x40141B2F769CF0E0, f32 0x40A0D97C
+const PI_SQ_MINUS_6: real = <real>3.869604401089358; // f64 0x400EF4F326F91778, f32 0x4077A799
 
 /** Solve E - e sin E = M. Writes E to slot 0 and the step count to slot 1. */
 export function kepler_elliptic(e: real, M: real): i32 {
@@ -69,20 +59,20 @@ export function kepler_elliptic(e: real, M: real): i32 {
     return OK;
   }
   const mh0 = reduceTurns(M);
-  const ml0 = reducedLo;
-  const k = turns;
+  const ml0 = reducedLo();
+  const k = reducedTurns();
   const neg = mh0 < 0;
   const mh = neg ? -mh0 : mh0;
   const ml = neg ? -ml0 : ml0;
   let E: real = 0;
+  let iterations: real = 0;
   if (mh != 0) {
-    E = solveReduced(e, mh, ml);
-    if (iterations < 0) {
+    if (solveReduced(e, mh, ml) != OK) {
       put(1, <real>ELLIPTIC_MAX_ITER);
       return ERR_NOT_CONVERGED;
     }
-  } else {
-    iterations = 0;
+    E = got(0);
+    iterations = got(1);
   }
   let out: real;
   if (k == 0) {
@@ -95,17 +85,18 @@ export function kepler_elliptic(e: real, M: real): i32 {
   if (!isFinite(out)) return ERR_NOT_CONVERGED;
   assert(abs(out - M) <= e + abs(M) * EPS, "root outside |E - M| <= e"); // debug build only
   put(0, out);
-  put(1, <real>iterations);
+  put(1, iterations);
   return OK;
 }
 
-// Root of (1 - e) E + e (E - sin E) = mh + ml for 0 < mh <= ~pi, 0 < e < 1. Sets `iterations`
-// (negative when the cap is reached).
-function solveReduced(e: real, mh: real, ml: real): real {
+// Root of (1 - e) E + e (E - sin E) = mh + ml for 0 < mh <= ~pi, 0 < e < 1: OK with E in slot 0 and the step
+// count in slot 1, or ERR_NOT_CONVERGED (nothing written) when the cap is reached.
+function solveReduced(e: real, mh: real, ml: real): i32 {
   const q: real = <real>1.0 - e;
-  if (mh < LINEAR_MAX) {
-    iterations = 0;
-    return (mh + ml) / q;
+  if (mh < KEPLER_LINEAR_MAX) {
+    put(0, (mh + ml) / q);
+    put(1, 0);
+    return OK;
   }
   // Markley (1995) starter.
   const ope = <real>1.0 + e;
@@ -122,7 +113,7 @@ function solveReduced(e: real, mh: real, ml: real): real {
     RMath.sincos(E); // one argument reduction for both
     const s = RMath.sincos_sin;
     const c = RMath.sincos_cos;
-    const es = E <= SERIES_MAX ? xMinusSinSeries(E) : E - s;
+    const es = E <= ODD_SERIES_MAX ? xMinusSinSeries(E) : E - s;
     const f0 = (q * E + e * es - mh) - ml;
     const omc = c > 0 ? s * s / (<real>1.0 + c) : <real>1.0 - c;
     const f1 = q + e * omc;
@@ -136,11 +127,11 @@ function solveReduced(e: real, mh: real, ml: real): real {
     const C = -TWENTYFOURTH * f2 * r1; // f'''' = -e sin E
     const d4 = -u * (<real>1.0 + u * (A + u * ((<real>2.0 * A * A - B) + u * (A * (<real>5.0 * A * A - <real>5.0 * B) + C))));
     E += d4;
-    if (abs(d4) <= STOP_REL * E) {
-      iterations = it;
-      return E;
+    if (abs(d4) <= ELLIPTIC_STOP_REL * E) {
+      put(0, E);
+      put(1, <real>it);
+      return OK;
     }
   }
-  iterations = -1;
-  return E;
+  return ERR_NOT_CONVERGED;
 }

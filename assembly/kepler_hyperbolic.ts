@@ -3,7 +3,7 @@
 //
 // Method
 //  1. Special cases, in order: NaN or infinite input -> ERR_NONFINITE; e <= 1 -> ERR_DOMAIN; M = 0 -> H = M.
-//     |M| < LINEAR_MAX: H = M / (e - 1), one correctly rounded division.
+//     |M| < KEPLER_LINEAR_MAX (real.ts): H = M / (e - 1), one correctly rounded division.
 //  2. Starter. The cubic (e - 1) H + (e / 6) H^3 = M (sinh H - H >= H^3 / 6, so its root is an upper
 //     bound) solved in Cardano's form H = 2b / (t^2 + p + p^2 / t^2), t^3 = b + sqrt(b^2 + p^3), which has
 //     no cancellation; used when that root is below CUBIC_MAX. Otherwise the lower bound
@@ -18,32 +18,23 @@
 //     any finite M and e (M up to 1.8e308 gives H about 710); ln e - ln(M + H) is taken as ln(e / (M + H))
 //     while that ratio is normal, so huge e and M do not leave an ulp of ln e (~600) in H.
 //     e > HUGE_E: the small-H residual and its derivatives are divided through by e (no e cosh H overflow).
-//  4. Stop when the step is below STOP_REL * H; at most HYPERBOLIC_MAX_ITER steps, else ERR_NOT_CONVERGED.
+//  4. Stop when the step is below HYPERBOLIC_STOP_REL * H; at most HYPERBOLIC_MAX_ITER steps, else ERR_NOT_CONVERGED.
 //
 // Output slots: 0 = H, 1 = iterations.
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED } from "./status";
-import { put } from "./io";
-import { IS_F32 } from "./real";
-import { SERIES_MAX, sinhMinusXSeries } from "./series";
+import { put, got } from "./io";
+import { IS_F32, MIN_NORMAL, SIXTH, LN2, KEPLER_LINEAR_MAX } from "./real";
+import { ODD_SERIES_MAX, sinhMinusXSeries } from "./series";
 
 export const HYPERBOLIC_MAX_ITER: i32 = 8;
-const STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>3.814697265625e-6; // 2^-9, 2^-18
+const HYPERBOLIC_STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>3.814697265625e-6; // 2^-9, 2^-18; f64 0x3ED0000000000000, f32 0x3B000000
 /** Newton on the logarithmic form beyond this H (there exp(-2H) < 1e-17 and sinh H > 2e8). */
 const LOG_FORM_H: real = 20.0;
 /** The cubic starter is used below this H (there it is within 9% of the root; beyond, the asinh bound is closer). */
-const CUBIC_MAX: real = 2.2;
-const LN2: real = <real>0.6931471805599453;
-/** Smallest normal real (2^-1022, 2^-126). */
-const MIN_NORMAL: real = IS_F32 ? <real>1.1754943508222875e-38 : <real>2.2250738585072014e-308;
+const CUBIC_MAX: real = 2.2; // f64 0x400199999999999A, f32 0x400CCCCD
 /** Above this e the small-H residual is evaluated divided through by e (2^1000, 2^120). */
-const HUGE_E: real = IS_F32 ? <real>1.329227995784916e36 : <real>1.0715086071862673e301;
-const SIXTH: real = <real>0.16666666666666666;
-
-/** Below this |M| the root is M / (e - 1) (the cubic term is below 2^-440 relative; see kepler_elliptic.ts). */
-const LINEAR_MAX: real = IS_F32 ? <real>8.673617379884035e-19 : <real>2.409919865102884e-181; // 2^-60, 2^-600
-
-let iterations: i32 = 0;
+const HUGE_E: real = IS_F32 ? <real>1.329227995784916e36 : <real>1.0715086071862673e301; // f64 0x7E70000000000000, f32 0x7B800000
 
 /** Solve e sinh H - H = M. Writes H to slot 0 and the step count to slot 1. */
 export function kepler_hyperbolic(e: real, M: real): i32 {
@@ -55,14 +46,13 @@ export function kepler_hyperbolic(e: real, M: real): i32 {
     return OK;
   }
   const m = abs(M);
-  const H = solvePositive(e, m);
-  if (iterations < 0) {
+  if (solvePositive(e, m) != OK) {
     put(1, <real>HYPERBOLIC_MAX_ITER);
     return ERR_NOT_CONVERGED;
   }
+  const H = got(0); // the step count is in slot 1
   if (!isFinite(H)) return ERR_NOT_CONVERGED; // not reachable for finite inputs (H <= ~711); no OK with non-finite
   put(0, M < 0 ? -H : H);
-  put(1, <real>iterations);
   return OK;
 }
 
@@ -82,11 +72,14 @@ function starter(e: real, em1: real, m: real): real {
   return RMath.asinh((m + h1) / e);
 }
 
-function solvePositive(e: real, m: real): real {
+// Root H > 0 of e sinh H - H = m for m > 0: OK with H in slot 0 and the step count in slot 1, or
+// ERR_NOT_CONVERGED (nothing written) when the cap is reached.
+function solvePositive(e: real, m: real): i32 {
   const em1 = e - <real>1.0;
-  if (m < LINEAR_MAX) {
-    iterations = 0;
-    return m / em1;
+  if (m < KEPLER_LINEAR_MAX) {
+    put(0, m / em1);
+    put(1, 0);
+    return OK;
   }
   let H = starter(e, em1, m);
   if (!(H > 0)) H = m / em1 < <real>1.0 ? m / em1 : <real>1.0; // underflowed starter: linear regime
@@ -110,7 +103,7 @@ function solvePositive(e: real, m: real): real {
     } else {
       const sh = RMath.sinh(H);
       const ch = RMath.sqrt(<real>1.0 + sh * sh);
-      const shm = H <= SERIES_MAX ? sinhMinusXSeries(H) : sh - H;
+      const shm = H <= ODD_SERIES_MAX ? sinhMinusXSeries(H) : sh - H;
       const f0 = (ems * H + es * shm) - ms;
       const f1 = ems + es * (sh * sh / (ch + <real>1.0));
       const f2 = es * sh;
@@ -123,11 +116,11 @@ function solvePositive(e: real, m: real): real {
     if (!(Hn > 0)) Hn = H * <real>0.25; // stay on the positive branch (the root is positive)
     const moved = abs(Hn - H);
     H = Hn;
-    if (moved <= STOP_REL * H) {
-      iterations = it;
-      return H;
+    if (moved <= HYPERBOLIC_STOP_REL * H) {
+      put(0, H);
+      put(1, <real>it);
+      return OK;
     }
   }
-  iterations = -1;
-  return H;
+  return ERR_NOT_CONVERGED;
 }

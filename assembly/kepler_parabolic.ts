@@ -20,8 +20,8 @@ import { put } from "./io";
 import { IS_F32 } from "./real";
 
 /** Above this |M| the closed form switches to cbrt(3 M) (f64: 1e300; f32: 1e36). */
-const HUGE_M: real = IS_F32 ? <real>1e36 : <real>1e300;
-const CBRT_3: real = <real>1.4422495703074083;
+const HUGE_M: real = IS_F32 ? <real>1e36 : <real>1e300; // f64 0x7E37E43C8800759C, f32 0x7B4097CE
+const CBRT_3: real = <real>1.4422495703074083; // f64 0x3FF7137449123EF6, f32 0x3FB89BA2
 
 /** Solve D + D^3 / 3 = M. */
 export function kepler_parabolic(M: real): i32 {

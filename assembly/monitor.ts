@@ -17,6 +17,11 @@
 // Budgets: a budget > 0 is active; the first step k >= 1 whose deviation exceeds it is recorded (-1: none).
 // The helpers assume finite states with r > 0 (the integrator checks before calling them).
 
+// State: the file-private scalars below are this file's own scratch (the run being monitored); nothing outside
+// reads them: the integrators get the report through monitorPut, which writes it to the output slots.
+
+import { put } from "./io";
+
 // Setup and reference values (step 0).
 let mMu: real = 1;
 let mZonal: bool = false;
@@ -35,31 +40,31 @@ let budEcc: real = 0;
 let budA: real = 0;
 
 // Current values (the last step monitored).
-export let curEnergy: real = 0;
-export let curHx: real = 0;
-export let curHy: real = 0;
-export let curHz: real = 0;
-export let curEx: real = 0;
-export let curEy: real = 0;
-export let curEz: real = 0;
-export let curAreal: real = 0;
-export let devE: real = 0;
-export let devH: real = 0;
-export let devEcc: real = 0;
-export let devA: real = 0;
+let curEnergy: real = 0;
+let curHx: real = 0;
+let curHy: real = 0;
+let curHz: real = 0;
+let curEx: real = 0;
+let curEy: real = 0;
+let curEz: real = 0;
+let curAreal: real = 0;
+let devE: real = 0;
+let devH: real = 0;
+let devEcc: real = 0;
+let devA: real = 0;
 
 // Running maxima and first steps over budget.
-export let maxE: real = 0;
-export let maxH: real = 0;
-export let maxEcc: real = 0;
-export let maxA: real = 0;
-export let firstE: i32 = -1;
-export let firstH: i32 = -1;
-export let firstEcc: i32 = -1;
-export let firstA: i32 = -1;
+let maxE: real = 0;
+let maxH: real = 0;
+let maxEcc: real = 0;
+let maxA: real = 0;
+let firstE: i32 = -1;
+let firstH: i32 = -1;
+let firstEcc: i32 = -1;
+let firstA: i32 = -1;
 
 /** Evaluate the invariants at one state (sets the cur* values). */
-export function invariants(x: real, y: real, z: real, vx: real, vy: real, vz: real, V: real): void {
+function evaluate(x: real, y: real, z: real, vx: real, vy: real, vz: real, V: real): void {
   const v2 = vx * vx + vy * vy + vz * vz;
   curEnergy = <real>0.5 * v2 + V;
   curHx = y * vz - z * vy;
@@ -88,7 +93,7 @@ export function monitorBegin(mu: real, zonal: bool, x: real, y: real, z: real, v
   budH = bH;
   budEcc = bEcc;
   budA = bA;
-  invariants(x, y, z, vx, vy, vz, V);
+  evaluate(x, y, z, vx, vy, vz, V);
   e0 = curEnergy;
   eScale = e0 != 0 ? abs(e0) : mu / RMath.sqrt(x * x + y * y + z * z);
   h0x = curHx;
@@ -115,7 +120,7 @@ export function monitorBegin(mu: real, zonal: bool, x: real, y: real, z: real, v
 
 /** Monitor step k (k >= 1) at the given state and potential energy V. */
 export function monitorUpdate(k: i32, x: real, y: real, z: real, vx: real, vy: real, vz: real, V: real): void {
-  invariants(x, y, z, vx, vy, vz, V);
+  evaluate(x, y, z, vx, vy, vz, V);
   const ih0 = <real>1.0 / h0;
   devE = abs(curEnergy - e0) / eScale;
   const dx = curEx - c0x;
@@ -147,4 +152,32 @@ export function monitorFinite(): bool {
   return isFinite(curEnergy) && isFinite(curHx) && isFinite(curHy) && isFinite(curHz) && isFinite(curEx) &&
     isFinite(curEy) && isFinite(curEz) && isFinite(curAreal) && isFinite(devE) && isFinite(devH) &&
     isFinite(devEcc) && isFinite(devA) && isFinite(eScale) && isFinite(h0);
+}
+
+/**
+ * Write the monitor's report to the output region (slot numbers of integrators.ts): 6..9 maximum deviations
+ * (energy, h, ecc, areal), 10..13 first step over each budget (-1: none), 16 energy, 17..19 h vector,
+ * 20..22 eccentricity vector, 23 areal velocity, 24..27 deviations at the last step.
+ */
+export function monitorPut(): void {
+  put(6, maxE);
+  put(7, maxH);
+  put(8, maxEcc);
+  put(9, maxA);
+  put(10, <real>firstE);
+  put(11, <real>firstH);
+  put(12, <real>firstEcc);
+  put(13, <real>firstA);
+  put(16, curEnergy);
+  put(17, curHx);
+  put(18, curHy);
+  put(19, curHz);
+  put(20, curEx);
+  put(21, curEy);
+  put(22, curEz);
+  put(23, curAreal);
+  put(24, devE);
+  put(25, devH);
+  put(26, devEcc);
+  put(27, devA);
 }

@@ -6,7 +6,8 @@
 // for coordinates and partial derivatives of the two-body problem", Astron. J. 70 (1965) 189-192; written here by
 // differentiating the Lagrange coefficients through chi, as Goodyear does):
 //  1. propagate (universal.ts) with the same inputs: same special cases and statuses, the same chi, and the same
-//     r, v bits (slots 0..5 are propagate's). Its solution is expanded about an anchor state (A, B) with
+//     r, v bits (slots 0..5 are propagate's); its solution (solveUniversal's) is read with universalGet. It is
+//     expanded about an anchor state (A, B) with
 //     |A| = r0, sigma0 = A . B / sqrt(mu), alpha = 2 / |r0| - |v0|^2 / mu, and chi solving
 //     F = r0 U1 + sigma0 U2 + U3 - sqrt(mu) dt' = 0, dt' = dt - k T (k whole revolutions of the ellipse removed,
 //     T = 2 pi / (sqrt(mu) alpha^(3/2))). The anchor is (r0, v0), or periapsis on a hairpin hyperbola.
@@ -48,18 +49,18 @@
 
 import { OK, FIRST_ERROR, ERR_OVERFLOW } from "./status";
 import { put, got } from "./io";
-import { stumpff, C0, C1, C2, C3 } from "./stumpff";
-import { PI } from "./real";
+import { stumpff, stumpffGet, SC0, SC1, SC2, SC3 } from "./stumpff";
+import { PI, SIXTH, TWENTYFOURTH } from "./real";
+import { F5 } from "./factorials";
+import { propagate } from "./universal";
 import {
-  propagateSolved, SOL_SLOT, SOL_AX, SOL_AY, SOL_AZ, SOL_BX, SOL_BY, SOL_BZ, SOL_R0, SOL_SIGMA0, SOL_ALPHA, SOL_CHI, SOL_REVS,
-  SOL_CHI_ANCHOR, SOL_ANCHORED,
+  universalGet, UV_AX, UV_AY, UV_AZ, UV_BX, UV_BY, UV_BZ, UV_R0, UV_SIGMA0, UV_ALPHA, UV_CHI, UV_REVS, UV_CHI_ANCHOR, UV_ANCHORED, UV_SQMU,
 } from "./universal";
 
 /** Terms of the series of c4 and c5 for |psi| <= C45_SERIES_MAX: the first omitted is below 4^14 / 32! = 1e-27. */
 const C45_TERMS: i32 = 14;
 const C45_SERIES_MAX: real = 4.0;
 const HALF: real = <real>0.5;
-const SIXTH: real = <real>0.16666666666666666;
 
 /** Slot of phi_11 and of the iteration count. */
 const PHI_SLOT: i32 = 6;
@@ -75,8 +76,8 @@ function stumpff45(psi: real, c2: real, c3: real): void {
     return;
   }
   // c_n = sum_j (-psi)^j / (2j + n)!, each term from the one before.
-  let t4: real = <real>1.0 / <real>24.0;
-  let t5: real = <real>1.0 / <real>120.0;
+  let t4: real = TWENTYFOURTH;
+  let t5: real = F5;
   let s4: real = 0;
   let s5: real = 0;
   const y = -psi;
@@ -103,7 +104,7 @@ let cGt: real = 0, cGta: real = 0, cGtb: real = 0, cGtd: real = 0;
 function coefficients(mu: real, sqmu: real, r0: real, sigma0: real, alpha: real, chi: real, revs: real): void {
   const psi = alpha * chi * chi;
   stumpff(psi);
-  const c0 = C0, c1 = C1, c2 = C2, c3 = C3;
+  const c0 = stumpffGet(SC0), c1 = stumpffGet(SC1), c2 = stumpffGet(SC2), c3 = stumpffGet(SC3);
   stumpff45(psi, c2, c3);
   const x2 = chi * chi;
   const u0 = c0;
@@ -229,17 +230,18 @@ function writePhi(anchored: bool): void {
  * 42 = iterations.
  */
 export function transition(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real): i32 {
-  const st = propagateSolved(mu, r0x, r0y, r0z, v0x, v0y, v0z, dt);
+  // propagate is solveUniversal plus the Lagrange coefficients: its solution is still there to be read.
+  const st = propagate(mu, r0x, r0y, r0z, v0x, v0y, v0z, dt);
   const iterations = got(6);
   put(ITER_SLOT, iterations);
   if (st >= FIRST_ERROR) return st;
-  const sqmu = RMath.sqrt(mu);
-  const ax = got(SOL_SLOT + SOL_AX), ay = got(SOL_SLOT + SOL_AY), az = got(SOL_SLOT + SOL_AZ);
-  const bx = got(SOL_SLOT + SOL_BX), by = got(SOL_SLOT + SOL_BY), bz = got(SOL_SLOT + SOL_BZ);
-  const r0 = got(SOL_SLOT + SOL_R0), sigma0 = got(SOL_SLOT + SOL_SIGMA0), alpha = got(SOL_SLOT + SOL_ALPHA);
-  const chi = got(SOL_SLOT + SOL_CHI), revs = got(SOL_SLOT + SOL_REVS);
-  const anchored = got(SOL_SLOT + SOL_ANCHORED) != 0;
-  const chiA = got(SOL_SLOT + SOL_CHI_ANCHOR);
+  const sqmu = universalGet(UV_SQMU);
+  const ax = universalGet(UV_AX), ay = universalGet(UV_AY), az = universalGet(UV_AZ);
+  const bx = universalGet(UV_BX), by = universalGet(UV_BY), bz = universalGet(UV_BZ);
+  const r0 = universalGet(UV_R0), sigma0 = universalGet(UV_SIGMA0), alpha = universalGet(UV_ALPHA);
+  const chi = universalGet(UV_CHI), revs = universalGet(UV_REVS);
+  const anchored = universalGet(UV_ANCHORED) != 0;
+  const chiA = universalGet(UV_CHI_ANCHOR);
   sAX = ax; sAY = ay; sAZ = az; sBX = bx; sBY = by; sBZ = bz;
   if (anchored) {
     coefficients(mu, sqmu, r0, sigma0, alpha, chiA, 0);

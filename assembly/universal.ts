@@ -32,7 +32,7 @@
 //     chi -= 5 F / (F' + sqrt|16 F'^2 - 20 F F''|) (evaluated divided through by F' = r0 U0 + sigma0 U1 + U2
 //     = r > 0, so no square overflows),
 //     F'' = sigma0 U0 + (1 - alpha r0) U1. Every F narrows the bracket; a step that leaves it is replaced by
-//     bisection. Stop when a step is below STOP_REL |chi| (the method is cubic: the next step would be below
+//     bisection. Stop when a step is below UNIVERSAL_STOP_REL |chi| (the method is cubic: the next step would be below
 //     2^-78 |chi|); at most UNIVERSAL_MAX_ITER steps, else ERR_NOT_CONVERGED.
 //  7. Hairpin (alpha <= 0 only): on an arc that swings past periapsis from far out, the expansion about r0
 //     cancels: the terms of F grow like e^|delta H| while sqrt(mu) dt and r grow like e^|H0| + e^|H1|, and
@@ -90,9 +90,10 @@
 
 import { OK, ERR_NOT_CONVERGED, ERR_NONFINITE, ERR_OVERFLOW, FIRST_ERROR } from "./status";
 import { put, got } from "./io";
-import { IS_F32 } from "./real";
-import { MIN_NORMAL, checkState, sR, sV2, sRV, sH } from "./invariants";
-import { stumpff, C0, C1, C2, C3 } from "./stumpff";
+import { IS_F32, MIN_NORMAL, MAX_REAL, TWO_PI, THIRD } from "./real";
+import { checkState, twoBodyGet, TB_R, TB_V2, TB_RV, TB_H } from "./invariants";
+import { stumpff, stumpffGet, SC0, SC1, SC2, SC3 } from "./stumpff";
+import { diffProd } from "./exact";
 import { kepler_elliptic } from "./kepler_elliptic";
 import { kepler_hyperbolic } from "./kepler_hyperbolic";
 import { kepler_parabolic } from "./kepler_parabolic";
@@ -111,128 +112,236 @@ const U3_DIFF_PSI: real = 4.0;
 /** Iteration cap (Laguerre steps plus bisection fallbacks). */
 export const UNIVERSAL_MAX_ITER: i32 = 40;
 /** Stop once a step is below this fraction of chi: 2^-26 (f64), 2^-12 (f32); cubic convergence does the rest. */
-const STOP_REL: real = IS_F32 ? <real>0.000244140625 : <real>1.4901161193847656e-8;
+const UNIVERSAL_STOP_REL: real = IS_F32 ? <real>0.000244140625 : <real>1.4901161193847656e-8; // f64 0x3E50000000000000, f32 0x39800000
 /** Below this |1 - e| the starter comes from Barker's equation, where E- and H-based forms lose digits. */
-const PARABOLIC_BAND: real = 0.01;
+const PARABOLIC_BAND: real = 0.01; // f64 0x3F847AE147AE147B, f32 0x3C23D70A
 /** |delta E| bound after the reduction of whole revolutions: pi + 2 = 5.14, rounded up. */
 const CHI_TURN: real = 5.25;
 /** The periapsis distance in the bracket is taken this much smaller (covers the rounding of e and p). */
-const RP_SAFETY: real = 0.99;
-const TWO_PI: real = IS_F32 ? <real>6.2831854820251465 : <real>6.283185307179586;
-const THIRD: real = <real>0.3333333333333333;
+const RP_SAFETY: real = 0.99; // f64 0x3FEFAE147AE147AE, f32 0x3F7D70A4
 /** Largest relative residual of the universal Kepler equation accepted at the final chi (2^-20). */
-const RESIDUAL_REL: real = <real>9.5367431640625e-7;
-const MAX_REAL: real = IS_F32 ? <real>3.4028234663852886e38 : <real>1.7976931348623157e308;
+const RESIDUAL_REL: real = <real>9.5367431640625e-7; // f64 0x3EB0000000000000, f32 0x35800000
 
-/** Propagate (r0, v0) by dt under mu. Slots 0..5 = r, v; slot 6 = iterations. */
-export function propagate(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real): i32 {
-  return solve(mu, r0x, r0y, r0z, v0x, v0y, v0z, dt, false);
+
+// ---- the universal-variable solution, for propagate and for other kernels ------------------------------
+// solveUniversal(mu, r0, v0, dt) runs steps 1-7 and 9 and returns a status; the solution is kept in this file's
+// scratch (the wasm globals below: no linear memory, nothing exported but the accessor) and read right after
+// the call with universalGet(UV_...). Every quantity is that of the ANCHOR state (a, b) the solution is
+// expanded about: (r0, v0) itself, or, after step 7 (UV_ANCHORED = 1), the periapsis state (r_p P, v_p Q), with
+// the time counted from periapsis. With U_k = chi^k c_k(alpha chi^2):
+//   r_end = f a + g b,  v_end = fdot a + gdot b,  f = 1 - U2 / r0,  g = (r0 U1 + sigma0 U2) / sqrt(mu),
+//   fdot = -sqrt(mu) U1 / (r r0),  gdot = (r0 U0 + sigma0 U1) / r,  r0 U1 + sigma0 U2 + U3 = sqrt(mu) dt'.
+/** chi, the universal anomaly from the anchor to the end of the arc. */
+export const UV_CHI: i32 = 0;
+/** alpha = 2 / |r0| - v0^2 / mu = 1 / a (the same for the anchor: it is an invariant of the orbit). */
+export const UV_ALPHA: i32 = 1;
+/** |a|, the anchor's distance: |r0|, or r_p when anchored at periapsis. */
+export const UV_R0: i32 = 2;
+/** sigma0 = a . b / sqrt(mu): r0 . v0 / sqrt(mu), or 0 at periapsis. */
+export const UV_SIGMA0: i32 = 3;
+/** sqrt(mu). */
+export const UV_SQMU: i32 = 4;
+/** dt', the time from the anchor to the end: dt less whole revolutions of an ellipse (plus tau when anchored). */
+export const UV_DT: i32 = 5;
+/** U0 .. U3 at chi. */
+export const UV_U0: i32 = 6;
+export const UV_U1: i32 = 7;
+export const UV_U2: i32 = 8;
+export const UV_U3: i32 = 9;
+/** r = r0 U0 + sigma0 U1 + U2, the distance at the end of the arc. */
+export const UV_R: i32 = 10;
+/** Steps taken (Laguerre or bisection; UNIVERSAL_MAX_ITER when the cap was reached), an integer-valued real. */
+export const UV_ITER: i32 = 11;
+/** 1 when the solution is anchored at periapsis (step 7), else 0. */
+export const UV_ANCHORED: i32 = 12;
+/** The anchor state: position a = (UV_AX, UV_AY, UV_AZ), velocity b = (UV_BX, UV_BY, UV_BZ). */
+export const UV_AX: i32 = 13;
+export const UV_AY: i32 = 14;
+export const UV_AZ: i32 = 15;
+export const UV_BX: i32 = 16;
+export const UV_BY: i32 = 17;
+export const UV_BZ: i32 = 18;
+/** p = |h|^2 / mu, the semi-latus rectum. */
+export const UV_P: i32 = 19;
+/** k, the whole revolutions of an ellipse removed in step 3 (dt' = dt - k T before any anchoring), a real. */
+export const UV_REVS: i32 = 20;
+/** After step 7 (UV_ANCHORED = 1): chi_a, the universal anomaly from periapsis to r0 (else 0). */
+export const UV_CHI_ANCHOR: i32 = 21;
+
+// The file-private scratch behind universalGet (names as the UV_ constants).
+let uvChi: real = 0;
+let uvAlpha: real = 0;
+let uvR0: real = 0;
+let uvSigma0: real = 0;
+let uvSqmu: real = 0;
+let uvDt: real = 0;
+let uvU0: real = 0;
+let uvU1: real = 0;
+let uvU2: real = 0;
+let uvU3: real = 0;
+let uvR: real = 0;
+let uvIter: real = 0;
+let uvAnchored: real = 0;
+let uvAx: real = 0;
+let uvAy: real = 0;
+let uvAz: real = 0;
+let uvBx: real = 0;
+let uvBy: real = 0;
+let uvBz: real = 0;
+let uvP: real = 0;
+let uvRevs: real = 0;
+let uvChiAnchor: real = 0;
+
+/** Value i (UV_CHI .. UV_CHI_ANCHOR) of the last solveUniversal call (meaningful when it returned OK; see there). */
+export function universalGet(i: i32): real {
+  switch (i) {
+    case UV_CHI: return uvChi;
+    case UV_ALPHA: return uvAlpha;
+    case UV_R0: return uvR0;
+    case UV_SIGMA0: return uvSigma0;
+    case UV_SQMU: return uvSqmu;
+    case UV_DT: return uvDt;
+    case UV_U0: return uvU0;
+    case UV_U1: return uvU1;
+    case UV_U2: return uvU2;
+    case UV_U3: return uvU3;
+    case UV_R: return uvR;
+    case UV_ITER: return uvIter;
+    case UV_ANCHORED: return uvAnchored;
+    case UV_AX: return uvAx;
+    case UV_AY: return uvAy;
+    case UV_AZ: return uvAz;
+    case UV_BX: return uvBx;
+    case UV_BY: return uvBy;
+    case UV_BZ: return uvBz;
+    case UV_P: return uvP;
+    case UV_REVS: return uvRevs;
+    default: return uvChiAnchor;
+  }
 }
+
+/** solveChi's outcome when step 7's test asks for the periapsis anchor (file-internal; never a kernel status). */
+const NEEDS_ANCHOR: i32 = -1;
 
 /**
- * Where propagateSolved leaves the solution (past every kernel's outputs), and its fields: the anchor state
- * (A, B) the solution is expanded about ((r0, v0), or periapsis after step 7), its radius r0 and sigma0 = A . B /
- * sqrt(mu), alpha, the final chi, the whole revolutions removed in step 3 (k, as a real), and after step 7 the
- * universal anomaly chi_a from periapsis to r0 and ANCHORED = 1 (else both 0).
+ * Solve the universal Kepler equation for (r0, v0) under mu over dt: steps 1-7 and 9 of the header. Returns a
+ * status: OK, or ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE, ERR_OVERFLOW, ERR_NOT_CONVERGED as propagate
+ * documents. The solution is read afterwards with universalGet(UV_...): all of it after OK; after
+ * ERR_NOT_CONVERGED only UV_ITER (the steps taken) is meaningful, after any other failure nothing.
  */
-export const SOL_SLOT: i32 = 48;
-export const SOL_AX: i32 = 0;
-export const SOL_AY: i32 = 1;
-export const SOL_AZ: i32 = 2;
-export const SOL_BX: i32 = 3;
-export const SOL_BY: i32 = 4;
-export const SOL_BZ: i32 = 5;
-export const SOL_R0: i32 = 6;
-export const SOL_SIGMA0: i32 = 7;
-export const SOL_ALPHA: i32 = 8;
-export const SOL_CHI: i32 = 9;
-export const SOL_REVS: i32 = 10;
-export const SOL_CHI_ANCHOR: i32 = 11;
-export const SOL_ANCHORED: i32 = 12;
-
-/** propagate, and on success its solution in slots SOL_SLOT + SOL_* as well (same bits in slots 0..6). */
-export function propagateSolved(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real): i32 {
-  return solve(mu, r0x, r0y, r0z, v0x, v0y, v0z, dt, true);
-}
-
-function solve(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real, withSolution: bool): i32 {
-  put(6, 0);
+export function solveUniversal(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real): i32 {
+  uvIter = 0;
+  uvRevs = 0;
+  uvChiAnchor = 0;
   if (!isFinite(dt)) return ERR_NONFINITE;
   const st = checkState(mu, r0x, r0y, r0z, v0x, v0y, v0z);
   if (st != OK) return st;
   // A subnormal mu has lost its relative precision (sqrt(mu) and mu alpha follow it): refused, not guessed.
   if (mu < MIN_NORMAL) return ERR_OVERFLOW;
   const sqmu = RMath.sqrt(mu);
-  const alpha = <real>2.0 / sR - sV2 / mu;
-  const p = sH * sH / mu;
+  const r0 = twoBodyGet(TB_R);
+  const v2 = twoBodyGet(TB_V2);
+  const rv = twoBodyGet(TB_RV);
+  const hn = twoBodyGet(TB_H);
+  const alpha = <real>2.0 / r0 - v2 / mu;
+  const p = hn * hn / mu;
+  const sigma0 = rv / sqmu;
+  const dtr = withoutRevolutions(sqmu, alpha, dt);
+  putAnchor(r0x, r0y, r0z, v0x, v0y, v0z, r0, sigma0, p, dtr, 0);
+  uvAlpha = alpha;
+  uvSqmu = sqmu;
+  uvChi = 0;
+  if (dtr != 0) {
+    let s = solveChi(sqmu, r0, sigma0, alpha, p, dtr, v2, true);
+    if (s == NEEDS_ANCHOR) {
+      // Step 7: re-anchor at periapsis, then solve again from there.
+      if (!periapsisAnchor(mu, sqmu, alpha, r0x, r0y, r0z, v0x, v0y, v0z, r0, rv, dtr)) return ERR_OVERFLOW;
+      uvChi = 0;
+      const dta = uvDt;
+      s = dta != 0 ? solveChi(sqmu, uvR0, 0, alpha, uvP, dta, v2, false) : OK;
+    }
+    if (s != OK) return s;
+  }
+  return universalFunctions();
+}
 
-  // Step 3: whole revolutions of the ellipse.
-  let dtr = dt;
-  let revs: real = 0;
-  let anchored = false;
+// Step 3: dt less the nearest whole number of periods of an ellipse (alpha > 0); dt itself otherwise.
+function withoutRevolutions(sqmu: real, alpha: real, dt: real): real {
   if (alpha > 0) {
     const T = TWO_PI / (sqmu * alpha * RMath.sqrt(alpha));
     if (isFinite(T) && abs(dt) > <real>0.5 * T) {
-      revs = nearest(dt / T);
-      dtr = dt - revs * T;
+      uvRevs = nearest(dt / T);
+      return dt - uvRevs * T;
     }
   }
-  // The anchor state (a, b) the solution is expanded about: (r0, v0), or periapsis after step 7.
-  let ax = r0x, ay = r0y, az = r0z, bx = v0x, by = v0y, bz = v0z;
-  let r0 = sR;
-  let sigma0 = sRV / sqmu;
-  let chi: real = 0;
-  let iterations: i32 = 0;
-  if (dtr != 0) {
-    chi = solveChi(sqmu, r0, sigma0, alpha, p, dtr, true);
-    if (lastIterations == HAIRPIN) {
-      // Step 7: re-anchor at periapsis.
-      if (!periapsisAnchor(mu, sqmu, alpha, r0x, r0y, r0z, v0x, v0y, v0z)) return ERR_OVERFLOW;
-      ax = pAX;
-      ay = pAY;
-      az = pAZ;
-      bx = pBX;
-      by = pBY;
-      bz = pBZ;
-      r0 = pRP;
-      sigma0 = 0;
-      anchored = true;
-      dtr = pTau + dtr;
-      chi = 0;
-      lastIterations = 0;
-      if (dtr != 0) chi = solveChi(sqmu, r0, sigma0, alpha, pP, dtr, false);
-    }
-    iterations = lastIterations;
-    if (iterations == -2) return ERR_OVERFLOW;
-    if (iterations < 0) {
-      put(6, <real>UNIVERSAL_MAX_ITER);
-      return ERR_NOT_CONVERGED;
-    }
-  }
-  // Step 8.
-  stumpff(alpha * chi * chi);
-  const u0 = C0;
-  const u1 = chi * C1;
-  const u2 = chi * chi * C2;
+  return dt;
+}
+
+// The anchor part of the solution: state (a, b), |a|, sigma0, p, dt' and the anchored flag.
+function putAnchor(ax: real, ay: real, az: real, bx: real, by: real, bz: real, r0: real, sigma0: real, p: real, dtr: real, anchored: i32): void {
+  uvAx = ax;
+  uvAy = ay;
+  uvAz = az;
+  uvBx = bx;
+  uvBy = by;
+  uvBz = bz;
+  uvR0 = r0;
+  uvSigma0 = sigma0;
+  uvP = p;
+  uvDt = dtr;
+  uvAnchored = <real>anchored;
+}
+
+// Step 8's universal functions at the solution's chi, and step 9 (guard): where dt' != 0 the final chi must satisfy
+// the universal Kepler equation to RESIDUAL_REL of its largest term, so that no overflow or stalled bracket can
+// pass for a solution.
+function universalFunctions(): i32 {
+  const chi = uvChi;
+  const r0 = uvR0;
+  const sigma0 = uvSigma0;
+  const dtr = uvDt;
+  stumpff(uvAlpha * chi * chi);
+  const u0 = stumpffGet(SC0);
+  const u1 = chi * stumpffGet(SC1);
+  const u2 = chi * chi * stumpffGet(SC2);
+  const u3 = chi * chi * chi * stumpffGet(SC3);
   const r = r0 * u0 + sigma0 * u1 + u2;
-  if (dtr != 0) {
-    // Step 9 (guard): the final chi must satisfy the universal Kepler equation (to 2^-20 of its largest term),
-    // so that no overflow or stalled bracket can pass for a solution.
-    const u3 = chi * chi * chi * C3;
-    const sdt = sqmu * dtr;
-    const t1 = r0 * u1;
-    const t2 = sigma0 * u2;
-    const res = t1 + t2 + u3 - sdt;
-    if (!isFinite(res) || !isFinite(r)) return ERR_OVERFLOW;
-    if (!(abs(res) <= RESIDUAL_REL * (abs(t1) + abs(t2) + abs(u3) + abs(sdt)))) {
-      put(6, <real>iterations);
-      return ERR_NOT_CONVERGED;
-    }
-  }
+  uvU0 = u0;
+  uvU1 = u1;
+  uvU2 = u2;
+  uvU3 = u3;
+  uvR = r;
+  if (dtr == 0) return OK;
+  const sdt = uvSqmu * dtr;
+  const t1 = r0 * u1;
+  const t2 = sigma0 * u2;
+  const res = t1 + t2 + u3 - sdt;
+  if (!isFinite(res) || !isFinite(r)) return ERR_OVERFLOW;
+  if (!(abs(res) <= RESIDUAL_REL * (abs(t1) + abs(t2) + abs(u3) + abs(sdt)))) return ERR_NOT_CONVERGED;
+  return OK;
+}
+
+/** Propagate (r0, v0) by dt under mu. Slots 0..5 = r, v; slot 6 = iterations. */
+export function propagate(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real): i32 {
+  put(6, 0);
+  const st = solveUniversal(mu, r0x, r0y, r0z, v0x, v0y, v0z, dt);
+  if (st == ERR_NOT_CONVERGED) put(6, uvIter);
+  if (st != OK) return st;
+  // Step 8: Lagrange coefficients. g is taken from chi (not dt - U3 / sqrt(mu)), so (f, g) describe exactly
+  // the point chi reaches.
+  const sqmu = uvSqmu;
+  const r0 = uvR0;
+  const sigma0 = uvSigma0;
+  const u0 = uvU0;
+  const u1 = uvU1;
+  const u2 = uvU2;
+  const r = uvR;
   const f = <real>1.0 - u2 / r0;
   const g = (r0 * u1 + sigma0 * u2) / sqmu;
   const fd = -sqmu * (u1 / r) / r0;
   const gd = (r0 * u0 + sigma0 * u1) / r; // = 1 - U2 / r, without the cancellation near apoapsis
+  const ax = uvAx, ay = uvAy, az = uvAz;
+  const bx = uvBx, by = uvBy, bz = uvBz;
   const rx = f * ax + g * bx;
   const ry = f * ay + g * by;
   const rz = f * az + g * bz;
@@ -240,48 +349,21 @@ function solve(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, 
   const vy = fd * ay + gd * by;
   const vz = fd * az + gd * bz;
   if (!(r > 0) || !isFinite(rx) || !isFinite(ry) || !isFinite(rz) || !isFinite(vx) || !isFinite(vy) || !isFinite(vz)) return ERR_OVERFLOW;
-  if (withSolution) {
-    // The solution itself, for kernels that differentiate it (transition.ts): slots SOL_SLOT + SOL_*.
-    put(SOL_SLOT + SOL_AX, ax);
-    put(SOL_SLOT + SOL_AY, ay);
-    put(SOL_SLOT + SOL_AZ, az);
-    put(SOL_SLOT + SOL_BX, bx);
-    put(SOL_SLOT + SOL_BY, by);
-    put(SOL_SLOT + SOL_BZ, bz);
-    put(SOL_SLOT + SOL_R0, r0);
-    put(SOL_SLOT + SOL_SIGMA0, sigma0);
-    put(SOL_SLOT + SOL_ALPHA, alpha);
-    put(SOL_SLOT + SOL_CHI, chi);
-    put(SOL_SLOT + SOL_REVS, revs);
-    put(SOL_SLOT + SOL_CHI_ANCHOR, anchored ? pChiA : <real>0);
-    put(SOL_SLOT + SOL_ANCHORED, anchored ? <real>1 : <real>0);
-  }
   put(0, rx);
   put(1, ry);
   put(2, rz);
   put(3, vx);
   put(4, vy);
   put(5, vz);
-  put(6, <real>iterations);
+  put(6, uvIter);
   return OK;
 }
 
-// Left by periapsisAnchor: the periapsis state (pA = r_p P, pB = v_p Q), r_p, p, and the time from periapsis
-// to r0 (negative before periapsis).
-let pAX: real = 0;
-let pAY: real = 0;
-let pAZ: real = 0;
-let pBX: real = 0;
-let pBY: real = 0;
-let pBZ: real = 0;
-let pRP: real = 0;
-let pP: real = 0;
-let pTau: real = 0;
-let pChiA: real = 0;
-
-// Step 7 for alpha <= 0 (hyperbola or parabola, e >= 1): the periapsis state and the time since periapsis.
-// False when an intermediate is not finite.
-function periapsisAnchor(mu: real, sqmu: real, alpha: real, rx: real, ry: real, rz: real, vx: real, vy: real, vz: real): bool {
+// Step 7 for alpha <= 0 (hyperbola or parabola, e >= 1): the periapsis state, r_p, p and dt' = tau + dtr (tau the
+// time from periapsis to r0, negative before periapsis) to the scratch as the new anchor. False when an
+// intermediate is not finite. r0 = |r|, rv = r . v.
+function periapsisAnchor(mu: real, sqmu: real, alpha: real, rx: real, ry: real, rz: real, vx: real, vy: real, vz: real,
+  r0: real, rv: real, dtr: real): bool {
   // h = r0 x v0 with every product's rounding error recovered: r0 and v0 are nearly parallel far out on a
   // hairpin, and a plain cross product would lose about log10(r0 v0 / |h|) digits of h, hence of P and e.
   const hx = diffProd(ry, vz, rz, vy);
@@ -290,7 +372,6 @@ function periapsisAnchor(mu: real, sqmu: real, alpha: real, rx: real, ry: real, 
   const h = RMath.sqrt(hx * hx + hy * hy + hz * hz);
   const p = h * (h / mu);
   // Eccentricity vector (v0 x h) / mu - r0 / |r0|: both terms are of order 1, so nothing cancels.
-  const r0 = sR;
   const ex = (vy * hz - vz * hy) / mu - rx / r0;
   const ey = (vz * hx - vx * hz) / mu - ry / r0;
   const ez = (vx * hy - vy * hx) / mu - rz / r0;
@@ -303,15 +384,21 @@ function periapsisAnchor(mu: real, sqmu: real, alpha: real, rx: real, ry: real, 
   const qz = (hx * py - hy * px) / h;
   const rp = p / (<real>1.0 + e);
   const vp = h / rp;
-  // Universal anomaly from periapsis to r0: r . v / sqrt(mu) = e U1 there, so U1 = sigma0 / e and
-  // chi = asinh(U1 sqrt(-alpha)) / sqrt(-alpha) (= U1 on the parabola). sqrt(mu) tau = r_p U1 + U3 (the
-  // universal Kepler equation from periapsis): two terms of the sign of chi, no cancellation.
-  const u1 = (sRV / sqmu) / e;
+  const tau = timeFromPeriapsis(sqmu, alpha, rp, (rv / sqmu) / e);
+  putAnchor(rp * px, rp * py, rp * pz, vp * qx, vp * qy, vp * qz, rp, 0, p, tau + dtr, 1);
+  return isFinite(tau) && isFinite(vp) && isFinite(qx + qy + qz) && rp > 0;
+}
+
+// Step 7's time from periapsis to r0 for alpha <= 0, given U1 at r0 (r . v / sqrt(mu) = e U1 there, so
+// U1 = sigma0 / e): chi = asinh(U1 sqrt(-alpha)) / sqrt(-alpha) (= U1 on the parabola), and sqrt(mu) tau =
+// r_p U1 + U3 (the universal Kepler equation from periapsis): two terms of the sign of chi, no cancellation.
+function timeFromPeriapsis(sqmu: real, alpha: real, rp: real, u1: real): real {
   let chi = u1;
   if (alpha < 0) {
     const sa = RMath.sqrt(-alpha);
     chi = RMath.asinh(u1 * sa) / sa;
   }
+  uvChiAnchor = chi;
   let u3: real;
   const psi = alpha * chi * chi;
   if (psi < -U3_DIFF_PSI) {
@@ -321,74 +408,38 @@ function periapsisAnchor(mu: real, sqmu: real, alpha: real, rx: real, ry: real, 
     u3 = (chi - u1) / alpha;
   } else {
     stumpff(psi);
-    u3 = chi * chi * chi * C3;
+    u3 = chi * chi * chi * stumpffGet(SC3);
   }
-  pTau = (rp * u1 + u3) / sqmu;
-  pChiA = chi;
-  pAX = rp * px;
-  pAY = rp * py;
-  pAZ = rp * pz;
-  pBX = vp * qx;
-  pBY = vp * qy;
-  pBZ = vp * qz;
-  pRP = rp;
-  pP = p;
-  return isFinite(pTau) && isFinite(vp) && isFinite(qx + qy + qz) && rp > 0;
+  return (rp * u1 + u3) / sqmu;
 }
 
-/** Veltkamp's splitting constant 2^s + 1 (s = 27 for f64, 12 for f32): splits a real into two halves. */
-const SPLIT: real = IS_F32 ? <real>4097.0 : <real>134217729.0;
-
-// The rounding error of ab = fl(a b), exactly (Dekker 1971, two-product by Veltkamp's splitting; needs
-// |a|, |b| below the largest real / SPLIT, else the result is not finite and the caller drops it).
-function twoProductError(a: real, b: real, ab: real): real {
-  const ta = SPLIT * a;
-  const ah = ta - (ta - a);
-  const al = a - ah;
-  const tb = SPLIT * b;
-  const bh = tb - (tb - b);
-  const bl = b - bh;
-  return ah * bh - ab + ah * bl + al * bh + al * bl;
-}
-
-// a b - c d to within a few ulps of the result, whatever the cancellation; the plain difference when the
-// splitting overflows.
-function diffProd(a: real, b: real, c: real, d: real): real {
-  const ab = a * b;
-  const cd = c * d;
-  const s = ab - cd + (twoProductError(a, b, ab) - twoProductError(c, d, cd));
-  return isFinite(s) ? s : ab - cd;
-}
-
-// Steps taken by the last solveChi; -1 when the cap was reached, -2 when sqrt(mu) dt overflows, HAIRPIN when
-// the test of step 7 asks for the periapsis anchor.
-let lastIterations: i32 = 0;
-const HAIRPIN: i32 = -3;
-
-// Steps 4-6: the root chi of the universal Kepler equation for dtr != 0; with hairpinTest, step 7's test.
-function solveChi(sqmu: real, r0: real, sigma0: real, alpha: real, p: real, dtr: real, hairpinTest: bool): real {
+// Steps 4-6: the root chi of the universal Kepler equation for dtr != 0 about the anchor (r0, sigma0), written
+// with the step count to the scratch (uvChi, uvIter). Returns OK, ERR_OVERFLOW (sqrt(mu) dt' not finite),
+// ERR_NOT_CONVERGED (cap reached) or, with hairpinTest, NEEDS_ANCHOR (step 7's test). v2 = |v0|^2.
+function solveChi(sqmu: real, r0: real, sigma0: real, alpha: real, p: real, dtr: real, v2: real, hairpinTest: bool): i32 {
   const sdt = sqmu * dtr;
-  if (!isFinite(sdt)) {
-    lastIterations = -2;
-    return 0;
-  }
+  if (!isFinite(sdt)) return ERR_OVERFLOW;
   // Eccentricity, for the bracket and the starter only.
-  let e: real;
-  let ecos: real = <real>1.0 - r0 * alpha;
-  let esin: real = 0;
-  if (alpha > 0) {
-    esin = sigma0 * RMath.sqrt(alpha);
-    e = RMath.sqrt(ecos * ecos + esin * esin);
-  } else {
-    e = RMath.sqrt(<real>1.0 - p * alpha);
-  }
+  const ecos: real = <real>1.0 - r0 * alpha;
+  const esin: real = alpha > 0 ? sigma0 * RMath.sqrt(alpha) : <real>0.0;
+  const e = alpha > 0 ? RMath.sqrt(ecos * ecos + esin * esin) : RMath.sqrt(<real>1.0 - p * alpha);
   let bound = abs(sdt) / (RP_SAFETY * p / (<real>1.0 + e));
   if (alpha > 0) bound = min(bound, CHI_TURN / RMath.sqrt(alpha));
   if (!(bound <= MAX_REAL)) bound = MAX_REAL;
-  let lo: real = dtr > 0 ? 0 : -bound;
-  let hi: real = dtr > 0 ? bound : 0;
+  const lo: real = dtr > 0 ? 0 : -bound;
+  const hi: real = dtr > 0 ? bound : 0;
+  let chi = chiStarter(sqmu, sigma0, alpha, p, e, ecos, esin, sdt, dtr);
+  let test = hairpinTest && alpha <= 0;
+  if (!(chi > lo && chi < hi)) {
+    chi = <real>0.5 * (lo + hi);
+    test = false;
+  }
+  return laguerreConway(sqmu, r0, sigma0, alpha, sdt, v2, chi, lo, hi, test);
+}
 
-  // Step 5: starter.
+// Step 5: the starter from the project's Kepler solvers, NaN when none applies or a solver fails.
+// e cos E0 = ecos, e sin E0 = esin (ellipse).
+function chiStarter(sqmu: real, sigma0: real, alpha: real, p: real, e: real, ecos: real, esin: real, sdt: real, dtr: real): real {
   let chi: real = NaN;
   const band = abs(<real>1.0 - e) < PARABOLIC_BAND;
   if (band) {
@@ -413,35 +464,21 @@ function solveChi(sqmu: real, r0: real, sigma0: real, alpha: real, p: real, dtr:
       if (kepler_hyperbolic(e, m) < FIRST_ERROR) chi = (got(0) - h0) / sa; // else Barker's chi stays
     }
   }
-  let test = hairpinTest && alpha <= 0;
-  if (!(chi > lo && chi < hi)) {
-    chi = <real>0.5 * (lo + hi);
-    test = false;
-  }
+  return chi;
+}
 
-  // Step 6: Laguerre-Conway with the bracket.
+// Step 6: Laguerre-Conway from chi inside the bracket [lo, hi]; with `test`, step 7's test at the starter.
+function laguerreConway(sqmu: real, r0: real, sigma0: real, alpha: real, sdt: real, v2: real, chi: real, lo: real, hi: real, test: bool): i32 {
   const q = <real>1.0 - alpha * r0;
   for (let it = 1; it <= UNIVERSAL_MAX_ITER; it++) {
     stumpff(alpha * chi * chi);
-    const u0 = C0;
-    const u1 = chi * C1;
-    const u2 = chi * chi * C2;
-    const u3 = chi * chi * chi * C3;
+    const u0 = stumpffGet(SC0);
+    const u1 = chi * stumpffGet(SC1);
+    const u2 = chi * chi * stumpffGet(SC2);
+    const u3 = chi * chi * chi * stumpffGet(SC3);
     const F = r0 * u1 + sigma0 * u2 + u3 - sdt;
-    if (test && it == 1) {
-      // Step 7's test, at the starter: cancellation in the universal Kepler equation, and in r = f r0 + g v0.
-      const kCancel = (abs(r0 * u1) + abs(sigma0 * u2) + abs(u3)) / abs(sdt);
-      const r = r0 * u0 + sigma0 * u1 + u2;
-      const fgCancel = (abs(r0 - u2) + abs(r0 * u1 + sigma0 * u2) * RMath.sqrt(sV2) / sqmu) / r;
-      if (!(kCancel <= HAIRPIN_CANCEL && fgCancel <= HAIRPIN_CANCEL)) {
-        lastIterations = HAIRPIN;
-        return chi;
-      }
-    }
-    if (F == 0) {
-      lastIterations = it;
-      return chi;
-    }
+    if (test && it == 1 && hairpinCancels(sqmu, r0, sigma0, sdt, v2, u0, u1, u2, u3)) return NEEDS_ANCHOR;
+    if (F == 0) return putChi(chi, it);
     if (F < 0) lo = chi;
     else hi = chi; // NaN (an overflowing trial) also counts as beyond the root
     const d1 = r0 * u0 + sigma0 * u1 + u2;
@@ -452,11 +489,24 @@ function solveChi(sqmu: real, r0: real, sigma0: real, alpha: real, p: real, dtr:
     if (!(next >= lo && next <= hi)) next = <real>0.5 * (lo + hi); // closed: chi itself may be an end
     const step = abs(next - chi);
     chi = next;
-    if (step <= STOP_REL * abs(chi)) {
-      lastIterations = it;
-      return chi;
-    }
+    if (step <= UNIVERSAL_STOP_REL * abs(chi)) return putChi(chi, it);
   }
-  lastIterations = -1;
-  return chi;
+  uvChi = chi;
+  uvIter = <real>UNIVERSAL_MAX_ITER;
+  return ERR_NOT_CONVERGED;
+}
+
+// A converged chi and its step count, to the scratch.
+function putChi(chi: real, it: i32): i32 {
+  uvChi = chi;
+  uvIter = <real>it;
+  return OK;
+}
+
+// Step 7's test, at the starter: cancellation in the universal Kepler equation, and in r = f r0 + g v0.
+function hairpinCancels(sqmu: real, r0: real, sigma0: real, sdt: real, v2: real, u0: real, u1: real, u2: real, u3: real): bool {
+  const kCancel = (abs(r0 * u1) + abs(sigma0 * u2) + abs(u3)) / abs(sdt);
+  const r = r0 * u0 + sigma0 * u1 + u2;
+  const fgCancel = (abs(r0 - u2) + abs(r0 * u1 + sigma0 * u2) * RMath.sqrt(v2) / sqmu) / r;
+  return !(kCancel <= HAIRPIN_CANCEL && fgCancel <= HAIRPIN_CANCEL);
 }
