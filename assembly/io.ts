@@ -2,8 +2,7 @@
 // `real` values (f64 in the release build, f32 in the single-precision build), starting at slot 0.
 // Nothing is allocated: the region is a static data segment laid out by the compiler.
 
-/** Number of `real` slots in the output region (enough for the largest kernel, with room to grow). */
-export const OUT_SLOTS: i32 = 64;
+import { OUT_SLOTS, ABI_VERSION } from "./abi";
 
 const OUT: usize = memory.data(OUT_SLOTS * 8, 16);
 
@@ -32,5 +31,5 @@ export function areal_real_bytes(): i32 {
 
 /** Version of the ABI described in docs/abi.md. */
 export function areal_abi_version(): i32 {
-  return 1;
+  return ABI_VERSION;
 }

@@ -49,6 +49,7 @@
 
 import { OK, FIRST_ERROR, ERR_OVERFLOW } from "./status";
 import { put, got } from "./io";
+import { TRANSITION_PHI_11, TRANSITION_ITERATIONS, PROPAGATE_ITERATIONS } from "./abi";
 import { stumpff, stumpffGet, SC0, SC1, SC2, SC3 } from "./stumpff";
 import { PI, SIXTH, TWENTYFOURTH } from "./real";
 import { F5 } from "./factorials";
@@ -62,9 +63,9 @@ const C45_TERMS: i32 = 14;
 const C45_SERIES_MAX: real = 4.0;
 const HALF: real = <real>0.5;
 
-/** Slot of phi_11 and of the iteration count. */
-const PHI_SLOT: i32 = 6;
-const ITER_SLOT: i32 = 42;
+/** Slot of phi_11 and of the iteration count (the ABI table's). */
+const PHI_SLOT: i32 = TRANSITION_PHI_11;
+const ITER_SLOT: i32 = TRANSITION_ITERATIONS;
 
 // c4 and c5 of psi (step 3), left in sC4, sC5.
 let sC4: real = 0;
@@ -232,7 +233,7 @@ function writePhi(anchored: bool): void {
 export function transition(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real): i32 {
   // propagate is solveUniversal plus the Lagrange coefficients: its solution is still there to be read.
   const st = propagate(mu, r0x, r0y, r0z, v0x, v0y, v0z, dt);
-  const iterations = got(6);
+  const iterations = got(PROPAGATE_ITERATIONS);
   put(ITER_SLOT, iterations);
   if (st >= FIRST_ERROR) return st;
   const sqmu = universalGet(UV_SQMU);

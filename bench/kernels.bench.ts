@@ -4,10 +4,10 @@
  * the bench-only module. `areal bench` gives the same figures with ratios, iteration and operation counts.
  */
 import { describe, bench } from "vitest";
-import { ROUTINES } from "../harness/routines.js";
-import { loadBuild, loadFile, type Kernels } from "../harness/load.js";
-import { loadNamedBuild } from "../harness/builds.js";
-import { routineInputs, ensureBenchModules, BASELINE_FILE, domainCases, DOMAIN_CASES } from "../harness/bench.js";
+import { ROUTINES } from "../harness/module/routines.js";
+import { loadBuild, loadFile, type Kernels } from "../harness/module/load.js";
+import { loadNamedBuild } from "../harness/module/builds.js";
+import { routineInputs, ensureBenchModules, BASELINE_FILE, domainCases, DOMAIN_CASES } from "../harness/perf/bench.js";
 
 ensureBenchModules();
 const wasm = loadBuild("f64");

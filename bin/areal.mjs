@@ -3,7 +3,7 @@
 import { existsSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 
-const entry = new URL("../dist/harness/cli.js", import.meta.url);
+const entry = new URL("../dist/harness/cli/main.js", import.meta.url);
 if (!existsSync(fileURLToPath(entry))) {
   process.stderr.write("areal: the harness is not built (dist/ is missing); run 'npm run build'\n");
   process.exit(2);

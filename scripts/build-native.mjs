@@ -62,7 +62,7 @@ if (!existsSync(wasm)) {
   say("build/areal.wasm is missing: run 'npm run build' first");
   process.exit(1);
 }
-if (!existsSync(join(root, "dist", "harness", "routines.js"))) {
+if (!existsSync(join(root, "dist", "harness", "module", "routines.js"))) {
   say("dist/ is missing: run 'npm run build' first");
   process.exit(1);
 }
@@ -91,9 +91,9 @@ for (let i = 0; i + 1 < lines.length; i++) {
   if (!params.every((p) => p === "f64" || p === "f32" || p === "u32")) continue;
   exportsFound.push({ name: m[1], cname: proto[2], params });
 }
-const { ROUTINES } = await import(pathToFileURL(join(root, "dist", "harness", "routines.js")).href);
-const { STATUS_WORDS, FIRST_ERROR } = await import(pathToFileURL(join(root, "dist", "harness", "status.js")).href);
-const { exactHex } = await import(pathToFileURL(join(root, "dist", "harness", "float.js")).href);
+const { ROUTINES } = await import(pathToFileURL(join(root, "dist", "harness", "module", "routines.js")).href);
+const { STATUS_WORDS, FIRST_ERROR } = await import(pathToFileURL(join(root, "dist", "harness", "module", "status.js")).href);
+const { exactHex } = await import(pathToFileURL(join(root, "dist", "harness", "core", "float.js")).href);
 const cstr = (s) => JSON.stringify(s);
 const cnum = (x) => (Number.isNaN(x) ? "NAN" : x === Infinity ? "INFINITY" : x === -Infinity ? "-INFINITY" : exactHex(x));
 const t = [];

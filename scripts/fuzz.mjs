@@ -19,12 +19,13 @@ import { parseArgs } from "node:util";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const dist = (p) => pathToFileURL(join(root, "dist", "harness", p)).href;
+const support = (p) => pathToFileURL(join(root, "dist", "tests", "support", p)).href;
 
 if (!isMainThread) {
   const { build, exportName, runs, seed, sab } = workerData;
-  const { fuzzTargets, fuzzTarget } = await import(dist("fuzz-props.js"));
-  const { loadBuild } = await import(dist("load.js"));
-  const { BUILD_FILES } = await import(dist("paths.js"));
+  const { fuzzTargets, fuzzTarget } = await import(support("fuzz-props.js"));
+  const { loadBuild } = await import(dist("module/load.js"));
+  const { BUILD_FILES } = await import(dist("core/paths.js"));
   const k = loadBuild(build);
   const targets = fuzzTargets(readFileSync(BUILD_FILES[build]), build);
   const watch = { counters: new Int32Array(sab, 0, 2), args: new Float64Array(sab, 8, 32) };
@@ -52,8 +53,8 @@ async function main() {
   const hangMs = Number(values["hang-seconds"]) * 1000;
   if (!Number.isInteger(runs) || runs < 1) throw new Error(`--runs: '${values.runs}' is not a positive integer`);
   if (!Number.isInteger(seed)) throw new Error(`--seed: '${values.seed}' is not an integer`);
-  const { fuzzTargets, KNOWN_DEFECTS } = await import(dist("fuzz-props.js"));
-  const { BUILD_FILES } = await import(dist("paths.js"));
+  const { fuzzTargets, KNOWN_DEFECTS } = await import(support("fuzz-props.js"));
+  const { BUILD_FILES } = await import(dist("core/paths.js"));
   const only = values.only ? new Set(values.only.split(",")) : undefined;
   const jobs = [];
   for (const build of values.builds.split(",")) {
@@ -130,7 +131,7 @@ function runJob(job, runs, seed, hangMs) {
 async function bigInput(mb) {
   /** Peak memory a streamed `areal eval` may use on the large input, whatever its size. */
   const BIG_MAX_RSS_MB = 512;
-  if (!existsSync(join(root, "dist", "harness", "stream.js"))) {
+  if (!existsSync(join(root, "dist", "harness", "core", "stream.js"))) {
     process.stdout.write("\nlarge input: skipped, `areal eval` does not stream yet (no harness/stream.ts)\n");
     return true;
   }

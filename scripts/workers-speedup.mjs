@@ -26,12 +26,12 @@ const dist = (p) => new URL(`../dist/harness/${p}`, import.meta.url).href;
 
 /** One unit of ceiling work: evaluate the input's rows in 64 KB chunks, or sweep a range of cases. */
 async function ceilingWork({ kind, input, grid, first, end }) {
-  const { loadBuild } = await import(dist("load.js"));
-  const { findRoutine } = await import(dist("routines.js"));
+  const { loadBuild } = await import(dist("module/load.js"));
+  const { findRoutine } = await import(dist("module/routines.js"));
   const k = loadBuild("f64");
   if (kind === "eval") {
-    const { prepareEval, evaluateLines } = await import(dist("evaluate.js"));
-    const { CHUNK_BYTES } = await import(dist("stream.js"));
+    const { prepareEval, evaluateLines } = await import(dist("run/evaluate.js"));
+    const { CHUNK_BYTES } = await import(dist("core/stream.js"));
     const r = findRoutine("kepler-elliptic");
     const buf = readFileSync(input);
     const plan = prepareEval(r, ["e", "M"], "input", k);
@@ -48,7 +48,7 @@ async function ceilingWork({ kind, input, grid, first, end }) {
     if (bytes === 0 && rows > 0) throw new Error("no output");
     return rows;
   }
-  const { parseGrid, sweepRange, SWEEP_CHUNK } = await import(dist("sweep.js"));
+  const { parseGrid, sweepRange, SWEEP_CHUNK } = await import(dist("run/sweep.js"));
   const r = findRoutine("kepler-elliptic");
   const g = parseGrid(readFileSync(grid, "utf8"), "grid", r);
   for (let a = first; a < end; a += SWEEP_CHUNK) sweepRange(r, g, k, a, Math.min(end, a + SWEEP_CHUNK));
@@ -103,7 +103,7 @@ async function main() {
   try {
     // Input: seeded (e, M) rows across the elliptic domain, as `areal eval kepler-elliptic` takes them.
     const input = join(dir, "cases.csv");
-    const { Rng } = await import(dist("rng.js"));
+    const { Rng } = await import(dist("core/rng.js"));
     const rng = new Rng(20261202);
     const fd = openSync(input, "w");
     writeSync(fd, "e,M\n");

@@ -5,13 +5,13 @@
 import { describe, it, expect, beforeAll } from "vitest";
 import { existsSync } from "node:fs";
 import binaryen from "binaryen";
-import { runBench, tryLoadJs, ensureBenchModules, SMOKE_SETTINGS, EXAMPLE_PROFILE, routineInputs, type BenchResult } from "../harness/bench.js";
-import { loadCounting, countOps, predictCost, validateProfile, readProfile, zeroCounts, ProfileError, OP_NAMES, type Profile } from "../harness/opcount.js";
-import { loadNamedBuild } from "../harness/builds.js";
-import { findRoutine, ROUTINES } from "../harness/routines.js";
-import { SPECS } from "../harness/specs/index.js";
-import { readVectors, vectorPath, col } from "../harness/vectors.js";
-import { sameBits } from "../harness/float.js";
+import { runBench, tryLoadJs, ensureBenchModules, SMOKE_SETTINGS, EXAMPLE_PROFILE, routineInputs, type BenchResult } from "../harness/perf/bench.js";
+import { loadCounting, countOps, predictCost, validateProfile, readProfile, zeroCounts, ProfileError, OP_NAMES, type Profile } from "../harness/perf/opcount.js";
+import { loadNamedBuild } from "../harness/module/builds.js";
+import { findRoutine, ROUTINES } from "../harness/module/routines.js";
+import { SPECS } from "../harness/verify/specs/index.js";
+import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
+import { sameBits } from "../harness/core/float.js";
 import { release } from "./helpers.js";
 // @ts-expect-error: a plain JavaScript build script without types
 import { instrument } from "../scripts/instrument-wat.mjs";
@@ -115,7 +115,7 @@ describe("operation counters", () => {
     expect(mod.validate()).toBeTruthy();
     const bin = mod.emitBinary();
     mod.dispose();
-    const ex = new WebAssembly.Instance(new WebAssembly.Module(bin), {}).exports as Record<string, (...a: number[]) => number>;
+    const ex = new WebAssembly.Instance(new WebAssembly.Module(bin as Uint8Array<ArrayBuffer>), {}).exports as Record<string, (...a: number[]) => number>;
     const got = ex.k!(2, 3, 10, 4);
     const x = Math.sqrt((2 * 3 + 10) / 4);
     expect(got).toBe(x * x * x * x);

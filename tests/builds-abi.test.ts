@@ -8,13 +8,13 @@ import { execFileSync } from "node:child_process";
 import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { readSignatures, planModule, AbiError, formatSignature, skippedLines } from "../harness/abi.js";
-import { instantiate } from "../harness/load.js";
-import { BUILD_FILES, ROOT } from "../harness/paths.js";
-import { ROUTINES } from "../harness/routines.js";
-import { SPECS } from "../harness/specs/index.js";
-import { runSuite } from "../harness/check.js";
-import { loadModule } from "../harness/builds.js";
+import { readSignatures, planModule, AbiError, formatSignature, skippedLines } from "../harness/module/signatures.js";
+import { instantiate } from "../harness/module/load.js";
+import { BUILD_FILES, ROOT } from "../harness/core/paths.js";
+import { ROUTINES } from "../harness/module/routines.js";
+import { SPECS } from "../harness/verify/specs/index.js";
+import { runSuite } from "../harness/verify/check.js";
+import { loadModule } from "../harness/module/builds.js";
 import { encodeModule, CORE, i32const } from "./builds-helpers.js";
 
 describe("signatures from the binary", () => {

@@ -7,10 +7,10 @@ import { describe, it, expect } from "vitest";
 import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { compareCsv, compareBuilds } from "../harness/compare.js";
-import { CsvError } from "../harness/csv.js";
-import { main } from "../harness/cli.js";
-import { SPECS } from "../harness/specs/index.js";
+import { compareCsv, compareBuilds } from "../harness/verify/compare.js";
+import { CsvError } from "../harness/core/csv.js";
+import { main } from "../harness/cli/main.js";
+import { SPECS } from "../harness/verify/specs/index.js";
 
 /** The next double above x, from its bit pattern (IEEE 754 binary64 layout). */
 function nextUp(x: number): number {

@@ -6,12 +6,12 @@
  */
 import { describe, it, expect } from "vitest";
 import { existsSync } from "node:fs";
-import { loadJsBuild, loadJsModule, assemblyModules } from "../harness/jsbuild.js";
-import { loadBuild } from "../harness/load.js";
-import { SPECS } from "../harness/specs/index.js";
-import { vectorPath, readVectors } from "../harness/vectors.js";
-import { traceSuite, compareTraces } from "../harness/compare.js";
-import { makeShim } from "../harness/jsshim.js";
+import { loadJsBuild, loadJsModule, assemblyModules } from "../harness/module/jsbuild.js";
+import { loadBuild } from "../harness/module/load.js";
+import { SPECS } from "../harness/verify/specs/index.js";
+import { vectorPath, readVectors } from "../harness/verify/vectors.js";
+import { traceSuite, compareTraces } from "../harness/verify/compare.js";
+import { makeShim } from "../harness/module/jsshim.js";
 import { encodeModule } from "./builds-helpers.js";
 
 describe("the js build loads the same sources", () => {

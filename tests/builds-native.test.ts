@@ -10,15 +10,15 @@ import { promisify } from "node:util";
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { ROOT } from "../harness/paths.js";
-import { SPECS } from "../harness/specs/index.js";
-import { compareBuilds, type CompareBuild } from "../harness/compare.js";
-import { nativeUnavailable, closeNative, NATIVE_EXE } from "../harness/builds.js";
-import { readVectors, vectorPath } from "../harness/vectors.js";
-import { evaluateCsv } from "../harness/evaluate.js";
-import { findRoutine } from "../harness/routines.js";
-import { loadBuild } from "../harness/load.js";
-import { formatCsv } from "../harness/csv.js";
+import { ROOT } from "../harness/core/paths.js";
+import { SPECS } from "../harness/verify/specs/index.js";
+import { compareBuilds, type CompareBuild } from "../harness/verify/compare.js";
+import { nativeUnavailable, closeNative, NATIVE_EXE } from "../harness/module/builds.js";
+import { readVectors, vectorPath } from "../harness/verify/vectors.js";
+import { evaluateCsv } from "../harness/run/evaluate.js";
+import { findRoutine } from "../harness/module/routines.js";
+import { loadBuild } from "../harness/module/load.js";
+import { formatCsv } from "../harness/core/csv.js";
 import { nativeToolchainMissing, REQUIRE_NATIVE } from "./builds-helpers.js";
 
 const run = promisify(execFile);
@@ -35,7 +35,7 @@ function prepareNative(): string | undefined {
 let nativeWhy: string | undefined;
 beforeAll(() => {
   // The forced-tier runs load the compiled harness (dist/, made by `npm run build`) in child processes.
-  if (!existsSync(join(ROOT, "dist", "harness", "compare.js"))) try {
+  if (!existsSync(join(ROOT, "dist", "harness", "verify", "compare.js"))) try {
     execFileSync(process.execPath, [join(ROOT, "node_modules", "typescript", "bin", "tsc"), "-p", "tsconfig.json"], { cwd: ROOT, stdio: "pipe" });
   } catch {
     // type errors elsewhere in the tree still emit JavaScript; the runs below fail loudly if it is missing

@@ -4,9 +4,9 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, mutant } from "./helpers.js";
-import { runSuite } from "../harness/check.js";
-import { findSpec } from "../harness/specs/index.js";
-import { fromBits, toBits } from "../harness/float.js";
+import { runSuite } from "../harness/verify/check.js";
+import { findSpec } from "../harness/verify/specs/index.js";
+import { fromBits, toBits } from "../harness/core/float.js";
 
 const bumpUlps = (x: number, n: number): number => fromBits(toBits(x) + BigInt(n));
 

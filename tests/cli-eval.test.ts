@@ -7,7 +7,7 @@ import { mkdtempSync, writeFileSync, readFileSync, existsSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { release, run, areal } from "./helpers.js";
-import { sameBits } from "../harness/float.js";
+import { sameBits } from "../harness/core/float.js";
 
 let dir: string;
 

@@ -69,7 +69,7 @@ const vec = (items: number[][]): number[] => [...leb(items.length), ...items.fla
  * A module with the ABI's core exports (memory, areal_out = 0, areal_real_bytes = 8) and kernel exports of the
  * given parameter counts (f64, or i32 at the positions `ints` lists) whose bodies are `unreachable`: they trap.
  */
-function trappingModule(kernel: string, params: number, ints: readonly number[] = [], more: readonly [string, number, readonly number[]][] = []): Uint8Array {
+function trappingModule(kernel: string, params: number, ints: readonly number[] = [], more: readonly [string, number, readonly number[]][] = []): Uint8Array<ArrayBuffer> {
   const F64 = 0x7c;
   const I32 = 0x7f;
   const kernels: [string, number, readonly number[]][] = [[kernel, params, ints], ...more];

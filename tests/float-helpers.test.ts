@@ -1,8 +1,8 @@
 /** The exact-float helpers every comparison depends on, against facts of IEEE 754 binary64 (common practice). */
 import { describe, it, expect } from "vitest";
-import { ulpDistance, ulpDistance32, exactHex, toBitsHex, fromBitsHex, parseNumber, shortest, sameBits, ulpOf } from "../harness/float.js";
+import { ulpDistance, ulpDistance32, exactHex, toBitsHex, fromBitsHex, parseNumber, shortest, sameBits, ulpOf } from "../harness/core/float.js";
 import { Decimal } from "decimal.js";
-import { exact, decimalAt, toDouble } from "../harness/reference/decimal.js";
+import { exact, decimalAt, toDouble } from "../harness/verify/reference/decimal.js";
 
 describe("float helpers", () => {
   it("ULP distance counts representable doubles", () => {

@@ -6,13 +6,13 @@
  */
 import { describe, it, expect } from "vitest";
 import { existsSync } from "node:fs";
-import { SPECS } from "../harness/specs/index.js";
-import { readVectors, vectorPath } from "../harness/vectors.js";
-import { traceSuite, tracesInChild, type Trace } from "../harness/compare.js";
-import { goldenDifferences, goldenPath } from "../harness/golden.js";
-import { nativeUnavailable, loadNative, closeNative } from "../harness/builds.js";
+import { SPECS } from "../harness/verify/specs/index.js";
+import { readVectors, vectorPath } from "../harness/verify/vectors.js";
+import { traceSuite, tracesInChild, type Trace } from "../harness/verify/compare.js";
+import { goldenDifferences, goldenPath } from "../harness/verify/golden.js";
+import { nativeUnavailable, loadNative, closeNative } from "../harness/module/builds.js";
 import { release } from "./helpers.js";
-import { toBits, fromBits } from "../harness/float.js";
+import { toBits, fromBits } from "../harness/core/float.js";
 
 const specs = SPECS.filter((s) => existsSync(vectorPath(s.suite)));
 const vectors = new Map(specs.map((s) => [s.suite, readVectors(vectorPath(s.suite))]));

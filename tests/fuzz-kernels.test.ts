@@ -7,11 +7,11 @@
  */
 import { describe, it, expect } from "vitest";
 import { readFileSync } from "node:fs";
-import { BUILD_FILES } from "../harness/paths.js";
-import { loadBuild, type Kernels } from "../harness/load.js";
-import { fuzzTargets, fuzzTarget, targetsFromSignatures, Caller, PropertyError, KNOWN_DEFECTS, checkCase, PROPERTIES, type FuzzTarget } from "../harness/fuzz-props.js";
-import { ROUTINES } from "../harness/routines.js";
-import { readSignatures } from "../harness/abi.js";
+import { BUILD_FILES } from "../harness/core/paths.js";
+import { loadBuild, type Kernels } from "../harness/module/load.js";
+import { fuzzTargets, fuzzTarget, targetsFromSignatures, Caller, PropertyError, KNOWN_DEFECTS, checkCase, PROPERTIES, type FuzzTarget } from "./support/fuzz-props.js";
+import { ROUTINES } from "../harness/module/routines.js";
+import { readSignatures } from "../harness/module/signatures.js";
 
 /** Fixed seed: the same cases on every run (the long run takes another seed each time it is asked to). */
 const SEED = 20261202;

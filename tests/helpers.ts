@@ -1,7 +1,7 @@
 /** Shared test helpers: the built modules, loaded once per test file; the CLI as a child process; mutants. */
 import { spawnSync } from "node:child_process";
 import { fileURLToPath } from "node:url";
-import { loadBuild, type Kernels } from "../harness/load.js";
+import { loadBuild, type Kernels } from "../harness/module/load.js";
 
 /** The `areal` entry point a user runs. */
 export const BIN = fileURLToPath(new URL("../bin/areal.mjs", import.meta.url));

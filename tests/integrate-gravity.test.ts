@@ -10,8 +10,8 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single, run } from "./helpers.js";
-import { Dec, exact, toDouble } from "../harness/reference/decimal.js";
-import { Rng } from "../harness/rng.js";
+import { Dec, exact, toDouble } from "../harness/verify/reference/decimal.js";
+import { Rng } from "../harness/core/rng.js";
 
 const MU = 398600.4418;
 const RE = 6378.137;

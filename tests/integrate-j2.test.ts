@@ -14,7 +14,7 @@
 import { describe, it, expect } from "vitest";
 import { release, DEG } from "./helpers.js";
 import { stateFromElements, elementsOf, unwrap, slope, type Vec } from "./integrate-helpers.js";
-import type { Kernels } from "../harness/load.js";
+import type { Kernels } from "../harness/module/load.js";
 
 const MU = 398600.4418;
 const RE = 6378.137;

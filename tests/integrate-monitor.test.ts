@@ -12,7 +12,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { release, single, run, DEG } from "./helpers.js";
-import { instantiate, type Kernels } from "../harness/load.js";
+import { instantiate, type Kernels } from "../harness/module/load.js";
 import { stateFromElements, type Vec } from "./integrate-helpers.js";
 
 const MU = 398600.4418;

@@ -9,7 +9,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { release, areal } from "./helpers.js";
-import { parseScenario } from "../harness/integrate.js";
+import { parseScenario } from "../harness/run/trajectory.js";
 
 const DEMO = fileURLToPath(new URL("../examples/scenarios/kestrel-survey.json", import.meta.url));
 let dir: string;

@@ -7,10 +7,10 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single, DEG } from "./helpers.js";
-import { decimalAt, exact, toDouble, type Dec } from "../harness/reference/decimal.js";
-import type { Kernels } from "../harness/load.js";
+import { decimalAt, exact, toDouble, type Dec } from "../harness/verify/reference/decimal.js";
+import type { Kernels } from "../harness/module/load.js";
 import { stateFromElements, type Vec } from "./integrate-helpers.js";
-import { referencePropagate } from "../harness/reference/twobody.js";
+import { referencePropagate } from "../harness/verify/reference/twobody.js";
 
 const MU = 398600.4418; // WGS 84 (NIMA TR8350.2)
 const METHODS = { rk4: 0, verlet: 1, yoshida4: 2, butcher6: 3 } as const;

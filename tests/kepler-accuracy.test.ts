@@ -5,9 +5,9 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single } from "./helpers.js";
-import { loadBuild } from "../harness/load.js";
-import { runSuite } from "../harness/check.js";
-import { KEPLER_SPECS } from "../harness/specs/kepler.js";
+import { loadBuild } from "../harness/module/load.js";
+import { runSuite } from "../harness/verify/check.js";
+import { KEPLER_SPECS } from "../harness/verify/specs/kepler.js";
 
 describe("Kepler suites against the 60-digit references", () => {
   for (const spec of KEPLER_SPECS) {

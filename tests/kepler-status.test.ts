@@ -4,10 +4,10 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single, run } from "./helpers.js";
-import { STATUS_WORDS } from "../harness/status.js";
+import { STATUS_WORDS } from "../harness/module/status.js";
 import { readFileSync } from "node:fs";
-import { referenceHyperbolic } from "../harness/reference/kepler.js";
-import { ulpDistance } from "../harness/float.js";
+import { referenceHyperbolic } from "../harness/verify/reference/kepler.js";
+import { ulpDistance } from "../harness/core/float.js";
 
 const NONFINITE = 16;
 const DOMAIN = 17;

@@ -5,7 +5,7 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, run, DEG } from "./helpers.js";
-import { referenceElliptic, referenceHyperbolic, referenceParabolic } from "../harness/reference/kepler.js";
+import { referenceElliptic, referenceHyperbolic, referenceParabolic } from "../harness/verify/reference/kepler.js";
 
 /** |got - want| <= half a unit in the last printed digit (a whole unit when `truncated`). */
 function toPrintedDigits(got: number, printed: string, truncated = false): void {

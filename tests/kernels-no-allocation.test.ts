@@ -4,9 +4,9 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single } from "./helpers.js";
-import type { Kernels } from "../harness/load.js";
-import { ROUTINES, type Routine } from "../harness/routines.js";
-import { Rng } from "../harness/rng.js";
+import type { Kernels } from "../harness/module/load.js";
+import { ROUTINES, type Routine } from "../harness/module/routines.js";
+import { Rng } from "../harness/core/rng.js";
 
 function snapshotOutside(k: Kernels): { before: Uint8Array; outStart: number; outEnd: number } {
   const mem = new Uint8Array(k.memory.buffer);

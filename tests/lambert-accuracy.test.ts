@@ -5,11 +5,11 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, mutant } from "./helpers.js";
-import { runSuite } from "../harness/check.js";
-import { lambertSpec } from "../harness/specs/lambert.js";
-import { readVectors, vectorPath, col } from "../harness/vectors.js";
-import { limitsFor } from "../harness/limits.js";
-import type { Kernels } from "../harness/load.js";
+import { runSuite } from "../harness/verify/check.js";
+import { lambertSpec } from "../harness/verify/specs/lambert.js";
+import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
+import { limitsFor } from "../harness/verify/limits.js";
+import type { Kernels } from "../harness/module/load.js";
 
 const v = readVectors(vectorPath("lambert"));
 const c = (name: string): number => col(v, name);

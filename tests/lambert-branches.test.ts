@@ -6,8 +6,8 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, run } from "./helpers.js";
-import { LambertDecimal as D, branchOf, vecExact, vecDouble, withDigits, referenceLambert, propagateDec } from "../harness/reference/lambert.js";
-import { exact } from "../harness/reference/decimal.js";
+import { LambertDecimal as D, branchOf, vecExact, vecDouble, withDigits, referenceLambert, propagateDec } from "../harness/verify/reference/lambert.js";
+import { exact } from "../harness/verify/reference/decimal.js";
 
 const MU = 398600.4418; // WGS 84, km^3/s^2 (NIMA TR8350.2)
 const norm = (a: readonly number[]): number => Math.hypot(a[0]!, a[1]!, a[2]!);

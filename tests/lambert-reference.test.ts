@@ -5,9 +5,9 @@
  * the problem's conditioning (the rounding of r2 and tof moves the exact solution by about cond_v1).
  */
 import { describe, it, expect } from "vitest";
-import { lambertCasesAt, lambertCaseCount, lambertSpec } from "../harness/specs/lambert.js";
-import { readVectors, vectorPath, col } from "../harness/vectors.js";
-import { Rng } from "../harness/rng.js";
+import { lambertCasesAt, lambertCaseCount, lambertSpec } from "../harness/verify/specs/lambert.js";
+import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
+import { Rng } from "../harness/core/rng.js";
 
 const v = readVectors(vectorPath("lambert"));
 const V1 = ["v1x_ref", "v1y_ref", "v1z_ref"].map((n) => col(v, n));

@@ -5,8 +5,8 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single, run } from "./helpers.js";
-import { LambertDecimal as D, minimumTime, motionNormal, vecExact, withDigits } from "../harness/reference/lambert.js";
-import { exact } from "../harness/reference/decimal.js";
+import { LambertDecimal as D, minimumTime, motionNormal, vecExact, withDigits } from "../harness/verify/reference/lambert.js";
+import { exact } from "../harness/verify/reference/decimal.js";
 
 const OK = 0;
 const NONFINITE = 16;

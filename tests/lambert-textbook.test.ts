@@ -10,7 +10,7 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single, run } from "./helpers.js";
-import { referenceLambert } from "../harness/reference/lambert.js";
+import { referenceLambert } from "../harness/verify/reference/lambert.js";
 
 /** |got - want| <= half a unit in the last printed digit. */
 function toPrintedDigits(got: number, printed: string): void {

@@ -10,9 +10,9 @@ import { existsSync, mkdtempSync, readFileSync, writeFileSync, mkdirSync, statSy
 import { tmpdir } from "node:os";
 import { delimiter, join } from "node:path";
 import { writeReport } from "../harness/report/index.js";
-import { runSuite } from "../harness/check.js";
-import { findSpec } from "../harness/specs/index.js";
-import { ROOT } from "../harness/paths.js";
+import { runSuite } from "../harness/verify/check.js";
+import { findSpec } from "../harness/verify/specs/index.js";
+import { ROOT } from "../harness/core/paths.js";
 import { release } from "./helpers.js";
 
 function findChromium(): string | undefined {

@@ -3,18 +3,18 @@
  * byte for byte (with the single run itself spread over worker threads); the merge refuses missing, duplicate
  * and mismatched shards; shard k of n is a fixed set of cases; the per-case error estimate agrees with an
  * independent decimal.js evaluation at 100 digits.
- * The worker threads run dist/harness/worker-entry.js (`npm run build` first).
+ * The worker threads run dist/harness/run/worker-entry.js (`npm run build` first).
  */
 import { describe, it, expect, beforeAll } from "vitest";
 import { Decimal } from "decimal.js";
 import { release, run } from "./helpers.js";
-import { findRoutine, type Routine } from "../harness/routines.js";
+import { findRoutine, type Routine } from "../harness/module/routines.js";
 import {
   checkGrid, runSweep, formatSweep, shardRange, caseInputs, unitHash, moduleIdentity, totalCases,
   ellipticErrorUlps, hyperbolicErrorUlps, parabolicErrorUlps, ulpAt, SWEEP_CHUNK, type Grid, type SweepDoc,
-} from "../harness/sweep.js";
-import { mergeSweeps, type SweepFile } from "../harness/merge.js";
-import { Rng } from "../harness/rng.js";
+} from "../harness/run/sweep.js";
+import { mergeSweeps, type SweepFile } from "../harness/run/merge.js";
+import { Rng } from "../harness/core/rng.js";
 
 const elliptic = findRoutine("kepler-elliptic")!;
 const hyperbolic = findRoutine("kepler-hyperbolic")!;

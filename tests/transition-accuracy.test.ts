@@ -7,10 +7,10 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, mutant } from "./helpers.js";
-import { runSuite } from "../harness/check.js";
-import { readVectors, vectorPath, col } from "../harness/vectors.js";
-import { transitionSpec, TRANSITION_CLASSES, MAX_REVS } from "../harness/specs/transition.js";
-import { limitsFor } from "../harness/limits.js";
+import { runSuite } from "../harness/verify/check.js";
+import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
+import { transitionSpec, TRANSITION_CLASSES, MAX_REVS } from "../harness/verify/specs/transition.js";
+import { limitsFor } from "../harness/verify/limits.js";
 
 /** Output slot of phi_ij (1-based i, j). */
 const slot = (i: number, j: number): number => 6 + 6 * (i - 1) + (j - 1);

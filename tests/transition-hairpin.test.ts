@@ -6,9 +6,9 @@
  */
 import { describe, it, expect } from "vitest";
 import { release } from "./helpers.js";
-import { referenceTransition } from "../harness/reference/transition.js";
-import { stateOf, GM_WGS84 } from "../harness/specs/twobody.js";
-import { limitsFor } from "../harness/limits.js";
+import { referenceTransition } from "../harness/verify/reference/transition.js";
+import { stateOf, GM_WGS84 } from "../harness/verify/specs/twobody.js";
+import { limitsFor } from "../harness/verify/limits.js";
 
 const LIMITS = limitsFor("transition", "f64");
 

@@ -15,11 +15,11 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single } from "./helpers.js";
-import { readVectors, vectorPath, col } from "../harness/vectors.js";
-import { transitionSpec } from "../harness/specs/transition.js";
-import { sameBits } from "../harness/float.js";
-import { isOk, statusCode } from "../harness/status.js";
-import type { Kernels } from "../harness/load.js";
+import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
+import { transitionSpec } from "../harness/verify/specs/transition.js";
+import { sameBits } from "../harness/core/float.js";
+import { isOk, statusCode } from "../harness/module/status.js";
+import type { Kernels } from "../harness/module/load.js";
 
 const MU = 398600.4418; // WGS 84 (NIMA TR8350.2)
 

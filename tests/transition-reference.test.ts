@@ -9,8 +9,8 @@
  * The comparisons are made in decimal at the reference's own precision, before rounding to doubles.
  */
 import { describe, it, expect } from "vitest";
-import { decimalAt, exact, type Dec } from "../harness/reference/decimal.js";
-import { transitionDec, scaleFree } from "../harness/reference/transition.js";
+import { decimalAt, exact, type Dec } from "../harness/verify/reference/decimal.js";
+import { transitionDec, scaleFree } from "../harness/verify/reference/transition.js";
 
 const MU = 398600.4418; // WGS 84 (NIMA TR8350.2)
 const P = decimalAt(80);

@@ -6,10 +6,10 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single } from "./helpers.js";
-import { loadBuild, type Kernels } from "../harness/load.js";
-import { runSuite } from "../harness/check.js";
-import { readVectors, vectorPath, col } from "../harness/vectors.js";
-import { TWOBODY_SPECS, elementsSpec, propagateSpec } from "../harness/specs/twobody.js";
+import { loadBuild, type Kernels } from "../harness/module/load.js";
+import { runSuite } from "../harness/verify/check.js";
+import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
+import { TWOBODY_SPECS, elementsSpec, propagateSpec } from "../harness/verify/specs/twobody.js";
 
 function mutant(k: Kernels, tamper: (name: string, out: Float64Array | Float32Array, status: number) => number): Kernels {
   return { ...k, label: "mutant", has: (n) => k.has(n), arity: (n) => k.arity(n), call: (name, args) => tamper(name, k.out, k.call(name, args)) };

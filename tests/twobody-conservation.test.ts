@@ -7,10 +7,10 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, run } from "./helpers.js";
-import { Rng } from "../harness/rng.js";
-import { ORBIT_CLASSES, orbitOf, stateOf } from "../harness/specs/twobody.js";
-import { referencePropagate, referenceInvariants, referenceStateP } from "../harness/reference/twobody.js";
-import { readVectors, vectorPath, col } from "../harness/vectors.js";
+import { Rng } from "../harness/core/rng.js";
+import { ORBIT_CLASSES, orbitOf, stateOf } from "../harness/verify/specs/twobody.js";
+import { referencePropagate, referenceInvariants, referenceStateP } from "../harness/verify/reference/twobody.js";
+import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
 
 const MU = 398600.4418; // WGS 84 (NIMA TR8350.2)
 

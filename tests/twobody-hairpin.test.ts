@@ -8,11 +8,11 @@
  */
 import { describe, it, expect } from "vitest";
 import { release } from "./helpers.js";
-import { referencePropagate } from "../harness/reference/twobody.js";
-import { limitsFor } from "../harness/limits.js";
-import { stateOf, GM_WGS84 } from "../harness/specs/twobody.js";
-import { Rng } from "../harness/rng.js";
-import type { Kernels } from "../harness/load.js";
+import { referencePropagate } from "../harness/verify/reference/twobody.js";
+import { limitsFor } from "../harness/verify/limits.js";
+import { stateOf, GM_WGS84 } from "../harness/verify/specs/twobody.js";
+import { Rng } from "../harness/core/rng.js";
+import type { Kernels } from "../harness/module/load.js";
 
 const LIMITS = limitsFor("propagate", "f64");
 const MAX_REL = LIMITS.max_rel!;

@@ -5,9 +5,9 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single, run } from "./helpers.js";
-import { statusCode } from "../harness/status.js";
-import { Rng } from "../harness/rng.js";
-import type { Kernels } from "../harness/load.js";
+import { statusCode } from "../harness/module/status.js";
+import { Rng } from "../harness/core/rng.js";
+import type { Kernels } from "../harness/module/load.js";
 
 const MU = 398600.4418; // WGS 84 (NIMA TR8350.2)
 const code = (w: string): number => statusCode(w)!;

@@ -12,7 +12,7 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, run, DEG } from "./helpers.js";
-import { referencePropagate, referenceElements, referenceStateP } from "../harness/reference/twobody.js";
+import { referencePropagate, referenceElements, referenceStateP } from "../harness/verify/reference/twobody.js";
 
 /** Earth GM, WGS 84 (NIMA TR8350.2, 2000), km^3/s^2. */
 const GM_WGS84 = 398600.4418;

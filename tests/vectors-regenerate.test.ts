@@ -4,10 +4,10 @@
  * high-precision reference, matches the file bit for bit.
  */
 import { describe, it, expect } from "vitest";
-import { SPECS } from "../harness/specs/index.js";
-import { readVectors, vectorPath } from "../harness/vectors.js";
-import { Rng } from "../harness/rng.js";
-import { sameBits, toBitsHex } from "../harness/float.js";
+import { SPECS } from "../harness/verify/specs/index.js";
+import { readVectors, vectorPath } from "../harness/verify/vectors.js";
+import { Rng } from "../harness/core/rng.js";
+import { sameBits, toBitsHex } from "../harness/core/float.js";
 
 /** Rows recomputed per suite: enough to catch a changed reference, small enough for a quick run. */
 const SUBSET = 60;

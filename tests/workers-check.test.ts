@@ -8,9 +8,9 @@ import { mkdtempSync, readFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { release, areal } from "./helpers.js";
-import { runSuitesOn, CHECK_WORKERS_MIN_BYTES } from "../harness/check.js";
-import { selectSpecs } from "../harness/generate.js";
-import { vectorPath } from "../harness/vectors.js";
+import { runSuitesOn, CHECK_WORKERS_MIN_BYTES } from "../harness/verify/check.js";
+import { selectSpecs } from "../harness/verify/generate.js";
+import { vectorPath } from "../harness/verify/vectors.js";
 import { statSync } from "node:fs";
 
 

@@ -5,21 +5,21 @@
  * file gives parseCsv's message with the right line number and leaves no output file behind; generated
  * texts (fast-check) with space around cells, CR, comments, blank lines and text columns give the plain
  * evaluation's bytes.
- * Needs the compiled harness (dist/, `npm run build`): the worker threads run dist/harness/worker-entry.js.
+ * Needs the compiled harness (dist/, `npm run build`): the worker threads run dist/harness/run/worker-entry.js.
  */
 import { describe, it, expect, beforeAll } from "vitest";
 import { mkdtempSync, writeFileSync, readFileSync, existsSync, readdirSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { release, areal } from "./helpers.js";
-import { evaluateCsv, evaluateFile } from "../harness/evaluate.js";
-import { findRoutine } from "../harness/routines.js";
-import { CsvFileStream, readOwnedLines } from "../harness/stream.js";
-import { parseCsv, CsvError, cell } from "../harness/csv.js";
-import { parseNumber } from "../harness/float.js";
-import { statusWord, isOk } from "../harness/status.js";
+import { evaluateCsv, evaluateFile } from "../harness/run/evaluate.js";
+import { findRoutine } from "../harness/module/routines.js";
+import { CsvFileStream, readOwnedLines } from "../harness/core/stream.js";
+import { parseCsv, CsvError, cell } from "../harness/core/csv.js";
+import { parseNumber } from "../harness/core/float.js";
+import { statusWord, isOk } from "../harness/module/status.js";
 import fc from "fast-check";
-import { Rng } from "../harness/rng.js";
+import { Rng } from "../harness/core/rng.js";
 
 const elliptic = findRoutine("kepler-elliptic")!;
 let dir: string;

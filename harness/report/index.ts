@@ -7,16 +7,16 @@
  * A section whose data cannot be had (no integrator in the module, no other build) says why instead of a plot.
  */
 import { join, resolve } from "node:path";
-import { writeAtomic } from "../atomic.js";
-import type { SuiteResult } from "../check.js";
-import { formatFigure } from "../check.js";
-import { CAUTION } from "../report.js";
-import type { Kernels } from "../load.js";
-import { SPECS } from "../specs/index.js";
-import { findRoutine } from "../routines.js";
-import { readVectors, vectorPath, col, type VectorSet } from "../vectors.js";
-import { ulpDistance, ulpDistance32 } from "../float.js";
-import { iterationGridAxes } from "../bench.js";
+import { writeAtomic } from "../core/atomic.js";
+import type { SuiteResult } from "../verify/check.js";
+import { formatFigure } from "../verify/check.js";
+import { CAUTION } from "../verify/summary.js";
+import type { Kernels } from "../module/load.js";
+import { SPECS } from "../verify/specs/index.js";
+import { findRoutine } from "../module/routines.js";
+import { readVectors, vectorPath, col, type VectorSet } from "../verify/vectors.js";
+import { ulpDistance, ulpDistance32 } from "../core/float.js";
+import { iterationGridAxes } from "../perf/bench.js";
 import { renderSvg, heatmapSpec, driftSpec, ulpHistogramSpec, type Cell, type DriftPoint, type HistBar } from "./plots.js";
 import { existsSync } from "node:fs";
 
@@ -177,8 +177,8 @@ function subset(v: VectorSet, max: number): VectorSet {
 /** ULP differences of other builds from the release build over (a spread subset of) every suite. */
 async function buildHistograms(base: Kernels, builds: readonly string[], maxRows: number): Promise<{ bars: HistBar[]; notes: string[]; table: Record<string, Record<string, number>> } | string> {
   if (base.label !== "f64") return `the histograms compare other builds with the release build; this report is for ${base.label}`;
-  const { loadNamedBuild, nativeUnavailable, closeNative, isBuildName } = await import("../builds.js");
-  const { traceSuite } = await import("../compare.js");
+  const { loadNamedBuild, nativeUnavailable, closeNative, isBuildName } = await import("../module/builds.js");
+  const { traceSuite } = await import("../verify/compare.js");
   const notes: string[] = [];
   const others: Kernels[] = [];
   for (const b of builds) {

@@ -1,0 +1,216 @@
+/**
+ * A small pool of worker threads, each with its own instance of the kernel module (worker-entry.ts). Jobs go
+ * out in order, as many in flight as the pool allows, and results come back to the caller strictly in job
+ * order, whatever order the workers finish in: that is what keeps the output of N workers byte-identical to
+ * the output of one. Memory is bounded by the number of jobs in flight, never by the size of the input.
+ */
+import { Worker } from "node:worker_threads";
+import { existsSync } from "node:fs";
+import { availableParallelism } from "node:os";
+import { join } from "node:path";
+import { fileURLToPath } from "node:url";
+import { ROOT } from "./paths.js";
+
+/** Which module a worker loads: a built-in build by name, or a module file. */
+export interface KernelSource {
+  readonly build?: string;
+  readonly module?: string;
+}
+
+/** What a worker is set up to do; it then takes jobs of the matching kind. */
+export type WorkerInit =
+  | { readonly kind: "eval"; readonly load: KernelSource; readonly routine: string; readonly columns: readonly string[]; readonly source: string; readonly path: string; readonly first: number; readonly size: number }
+  | { readonly kind: "check"; readonly load: KernelSource }
+  | { readonly kind: "sweep"; readonly load: KernelSource; readonly routine: string; readonly grid: unknown };
+
+/** A job's outcome as the worker reports it: its value, or the error it threw (name and message). */
+export type JobResult<R> = { readonly ok: true; readonly value: R } | { readonly ok: false; readonly name: string; readonly message: string };
+
+/** Messages between the pool and a worker. */
+export type ToWorker = { readonly type: "init"; readonly init: WorkerInit } | { readonly type: "job"; readonly id: number; readonly job: unknown };
+export type FromWorker =
+  | { readonly type: "ready" }
+  | { readonly type: "fatal"; readonly name: string; readonly message: string }
+  | { readonly type: "done"; readonly id: number; readonly result: JobResult<unknown> };
+
+/** The default number of workers: the number of cores Node reports. */
+export function defaultWorkers(): number {
+  return Math.max(1, availableParallelism());
+}
+
+/** The compiled worker script: beside this file in dist/, or dist/harness when this file runs from source. */
+function entryPath(): string {
+  const here = fileURLToPath(new URL("../run/worker-entry.js", import.meta.url));
+  if (existsSync(here)) return here;
+  const built = join(ROOT, "dist", "harness", "run", "worker-entry.js");
+  if (existsSync(built)) return built;
+  throw new Error("the worker script is not built (dist/harness/run/worker-entry.js); run 'npm run build'");
+}
+
+/** An error raised in a worker, carried back with its original name. */
+export class WorkerJobError extends Error {
+  constructor(readonly originalName: string, message: string) {
+    super(message);
+  }
+}
+
+export class WorkerPool {
+  private constructor(private readonly workers: Worker[]) {}
+
+  /** Start n workers and set each up with `init`; rejects with the first worker's set-up error. */
+  static async start(n: number, init: WorkerInit): Promise<WorkerPool> {
+    const path = entryPath();
+    const workers = Array.from({ length: n }, () => new Worker(path));
+    const pool = new WorkerPool(workers);
+    try {
+      await Promise.all(
+        workers.map(
+          (w) =>
+            new Promise<void>((resolve, reject) => {
+              const onMsg = (m: FromWorker): void => {
+                w.off("message", onMsg);
+                w.off("error", reject);
+                if (m.type === "ready") resolve();
+                else if (m.type === "fatal") reject(new WorkerJobError(m.name, m.message));
+                else reject(new Error("worker: unexpected message before set-up"));
+              };
+              w.on("message", onMsg);
+              w.once("error", reject);
+              w.postMessage({ type: "init", init } satisfies ToWorker);
+            }),
+        ),
+      );
+    } catch (err) {
+      await pool.close();
+      throw err;
+    }
+    return pool;
+  }
+
+  get size(): number {
+    return this.workers.length;
+  }
+
+  /**
+   * Run every job of `jobs` and hand each result to `onResult` in job order. Each worker has up to
+   * `perWorker` jobs queued (so it starts the next one without waiting for this thread to answer: with one
+   * job each, a worker sat idle for a quarter of a run with 64 KB chunks), and at most `maxInFlight` jobs are
+   * out or waiting for their turn at once. When `onResult` throws, no further job is sent and the promise
+   * rejects with that error once the jobs already out have come back.
+   */
+  runOrdered<J, R>(jobs: Iterator<J>, onResult: (r: JobResult<R>, job: J, index: number) => void, maxInFlight = 4 * this.workers.length + 2, perWorker = 3): Promise<void> {
+    return new Promise<void>((resolve, reject) => {
+      // Jobs queued at each worker; a job goes to the worker with the fewest.
+      const queued = new Map<Worker, number>(this.workers.map((w) => [w, 0]));
+      const pick = (): Worker | undefined => {
+        let best: Worker | undefined;
+        for (const [w, n] of queued) if (n < perWorker && (best === undefined || n < queued.get(best)!)) best = w;
+        return best;
+      };
+      const sent = new Map<number, J>();
+      const done = new Map<number, JobResult<R>>();
+      let next = 0;
+      let flushed = 0;
+      let exhausted = false;
+      let failure: unknown;
+      let out = 0;
+      const listeners: [Worker, (m: FromWorker) => void, (e: Error) => void][] = [];
+      const finish = (): void => {
+        for (const [w, onMsg, onErr] of listeners) {
+          w.off("message", onMsg);
+          w.off("error", onErr);
+        }
+        if (failure !== undefined) reject(failure);
+        else resolve();
+      };
+      const pump = (): void => {
+        for (let w = pick(); w !== undefined && failure === undefined && !exhausted && next - flushed < maxInFlight; w = pick()) {
+          const it = jobs.next();
+          if (it.done) {
+            exhausted = true;
+            break;
+          }
+          queued.set(w, queued.get(w)! + 1);
+          sent.set(next, it.value);
+          out++;
+          w.postMessage({ type: "job", id: next, job: it.value } satisfies ToWorker);
+          next++;
+        }
+        if (out === 0 && (exhausted || failure !== undefined)) finish();
+      };
+      const flush = (): void => {
+        while (failure === undefined && done.has(flushed)) {
+          const r = done.get(flushed)!;
+          const job = sent.get(flushed)!;
+          done.delete(flushed);
+          sent.delete(flushed);
+          try {
+            onResult(r, job, flushed);
+          } catch (err) {
+            failure = err;
+          }
+          flushed++;
+        }
+      };
+      for (const w of this.workers) {
+        const onMsg = (m: FromWorker): void => {
+          // A worker that failed was written off with all its jobs (onErr): a late answer of it changes nothing.
+          if (m.type !== "done" || !queued.has(w)) return;
+          out--;
+          queued.set(w, queued.get(w)! - 1);
+          done.set(m.id, m.result as JobResult<R>);
+          flush();
+          pump();
+        };
+        const onErr = (e: Error): void => {
+          // The worker is gone, with every job queued at it: none of them will come back.
+          out -= queued.get(w) ?? 0;
+          queued.delete(w);
+          failure ??= e;
+          pump();
+        };
+        w.on("message", onMsg);
+        w.on("error", onErr);
+        listeners.push([w, onMsg, onErr]);
+      }
+      pump();
+    });
+  }
+
+  /** Stop every worker. */
+  async close(): Promise<void> {
+    await Promise.all(this.workers.map((w) => w.terminate()));
+  }
+}
+
+/** Parse a --workers value: a whole number from 1 to 256; the message names the flag. */
+export function parseWorkers(v: string | undefined, flag = "--workers"): number {
+  if (v === undefined) return defaultWorkers();
+  if (!/^\d+$/.test(v) || Number(v) < 1 || Number(v) > 256) throw new RangeError(`${flag}: '${v}' is not a whole number from 1 to 256`);
+  return Number(v);
+}
+
+/** True when a progress line may be drawn: stderr is a terminal and no CI variable is set. */
+export function progressWanted(): boolean {
+  return Boolean(process.stderr.isTTY) && !process.env.CI;
+}
+
+/** A throttled one-line progress display on stderr (at most ~4 updates a second); `end()` clears the line. */
+export function progressLine(enabled: boolean): { update(text: string): void; end(): void } {
+  let last = 0;
+  let shown = false;
+  return {
+    update(text) {
+      if (!enabled) return;
+      const now = Date.now();
+      if (now - last < 250) return;
+      last = now;
+      shown = true;
+      process.stderr.write(`\r${text}\x1b[K`);
+    },
+    end() {
+      if (shown) process.stderr.write("\r\x1b[K");
+      shown = false;
+    },
+  };
+}

@@ -1,0 +1,116 @@
+/**
+ * Loading a kernel module and calling its exports. A module is any WebAssembly binary that follows
+ * docs/abi.md: `areal_out` gives the output region, `areal_real_bytes` its element size, and each kernel
+ * returns a status and writes its outputs there. Nothing in the harness reads module memory elsewhere.
+ */
+import { readFileSync, existsSync } from "node:fs";
+import { BUILD_FILES } from "../core/paths.js";
+
+/** A loaded module, ready to call. */
+export interface Kernels {
+  /** Where it came from, for messages and tables: `f64`, `f32`, a file name, ... */
+  readonly label: string;
+  /** 8 for a double-precision build, 4 for single precision. */
+  readonly realBytes: 4 | 8;
+  /** The module's exported function names. */
+  readonly exportNames: readonly string[];
+  /** True when the module exports a function of this name. */
+  has(name: string): boolean;
+  /** Number of parameters of an exported function (its declared arity). */
+  arity(name: string): number;
+  /**
+   * Call an export with numeric arguments; returns the status. Outputs are then in `out` (slot i at out[i]),
+   * valid until the next call.
+   */
+  call(name: string, args: readonly number[]): number;
+  /** The output region, as reals of the module's precision. */
+  readonly out: Float64Array | Float32Array;
+  /** The module's linear memory (for the no-allocation checks). */
+  readonly memory: WebAssembly.Memory;
+  /** The raw exports. */
+  readonly exports: WebAssembly.Exports;
+}
+
+export class ModuleError extends Error {}
+
+/** Instantiate a module from bytes. Throws ModuleError with a plain message on anything that is not a kernel module. */
+export function instantiate(bytes: Uint8Array<ArrayBuffer>, label: string): Kernels {
+  let mod: WebAssembly.Module;
+  try {
+    mod = new WebAssembly.Module(bytes);
+  } catch (err) {
+    throw new ModuleError(`${label}: not a WebAssembly module (${(err as Error).message})`);
+  }
+  const imports: Record<string, Record<string, WebAssembly.ImportValue>> = {};
+  for (const imp of WebAssembly.Module.imports(mod)) {
+    if (imp.module === "env" && imp.name === "abort" && imp.kind === "function") {
+      (imports.env ??= {}).abort = (_msg: number, _file: number, line: number, col: number): never => {
+        throw new ModuleError(`${label}: assertion failed in the module at ${line}:${col}`);
+      };
+    } else {
+      throw new ModuleError(`${label}: the module imports ${imp.module}.${imp.name}; kernel modules must be self-contained (only env.abort is provided, for debug builds)`);
+    }
+  }
+  let inst: WebAssembly.Instance;
+  try {
+    inst = new WebAssembly.Instance(mod, imports);
+  } catch (err) {
+    throw new ModuleError(`${label}: instantiation failed (${(err as Error).message})`);
+  }
+  const ex = inst.exports;
+  const memory = ex.memory;
+  if (!(memory instanceof WebAssembly.Memory)) throw new ModuleError(`${label}: the module exports no memory named 'memory'`);
+  const outFn = ex.areal_out;
+  const bytesFn = ex.areal_real_bytes;
+  if (typeof outFn !== "function" || typeof bytesFn !== "function") {
+    throw new ModuleError(`${label}: the module lacks areal_out() or areal_real_bytes() (see docs/abi.md)`);
+  }
+  const realBytes = Number((bytesFn as () => number)());
+  if (realBytes !== 4 && realBytes !== 8) throw new ModuleError(`${label}: areal_real_bytes() returned ${realBytes}, expected 4 or 8`);
+  const base = Number((outFn as () => number)());
+  if (!Number.isInteger(base) || base < 0 || base % realBytes !== 0 || base + 64 * realBytes > memory.buffer.byteLength) {
+    throw new ModuleError(`${label}: areal_out() returned ${base}, not an aligned address with 64 slots inside memory`);
+  }
+  const out = realBytes === 8 ? new Float64Array(memory.buffer, base, 64) : new Float32Array(memory.buffer, base, 64);
+  const fns = new Map<string, (...a: number[]) => number>();
+  for (const [k, v] of Object.entries(ex)) if (typeof v === "function") fns.set(k, v as (...a: number[]) => number);
+  const exportNames = [...fns.keys()];
+  return {
+    label,
+    realBytes,
+    exportNames,
+    out,
+    memory,
+    exports: ex,
+    has: (name) => fns.has(name),
+    arity: (name) => fns.get(name)?.length ?? -1,
+    call(name, args) {
+      const fn = fns.get(name);
+      if (!fn) throw new ModuleError(`${label}: no export named ${name}`);
+      try {
+        return fn(...args);
+      } catch (err) {
+        if (err instanceof WebAssembly.RuntimeError) {
+          throw new ModuleError(`${label}: the kernel module trapped in ${name}(${args.join(", ")}) (${err.message}); the module is faulty, nothing was written`);
+        }
+        throw err;
+      }
+    },
+  };
+}
+
+/** Load a module file. */
+export function loadFile(path: string, label = path): Kernels {
+  if (!existsSync(path)) throw new ModuleError(`${label}: no such file: ${path}`);
+  return instantiate(readFileSync(path), label);
+}
+
+/** The built-in WebAssembly builds. */
+export type WasmBuild = keyof typeof BUILD_FILES;
+
+/** Load one of the built-in builds; says how to build it when the file is missing. */
+export function loadBuild(build: WasmBuild): Kernels {
+  const path = BUILD_FILES[build];
+  if (!existsSync(path)) throw new ModuleError(`the ${build} build is missing (${path}); run 'npm run build'`);
+  return loadFile(path, build);
+}

@@ -1,0 +1,513 @@
+/**
+ * `areal compare`: build-to-build comparison.
+ *
+ *  - `areal compare --builds f64,native,js,f32 [--suite NAME]...`: every vector case of every suite through each
+ *    build; per suite and build (against the first, the baseline): cases, bit-identical count, max ULP and max
+ *    absolute difference, the first differing case. `baseline` and `optimizing` are the release module run in a
+ *    child engine with one compiler tier forced (V8: --liftoff --no-wasm-tier-up, --no-liftoff). A
+ *    single-precision build is compared where its inputs are exact f32 values (as `areal check` does), in f32 ULP,
+ *    and its error against the references is given in physical units (radians for anomalies; metres and mm/s
+ *    for a low-orbit state after one orbit).
+ *  - `areal compare a.csv b.csv [--tol X]`: two result files of the same cases, aligned by row and column name:
+ *    max absolute, relative and ULP difference per column, the first row beyond the tolerance; exit 1 if any.
+ */
+import { execFileSync } from "node:child_process";
+import { existsSync, readFileSync } from "node:fs";
+import { join } from "node:path";
+import { fileURLToPath, pathToFileURL } from "node:url";
+import { parseCsv, CsvError } from "../core/csv.js";
+import { parseNumber, sameBits, ulpDistance, ulpDistance32 } from "../core/float.js";
+import { readVectors, vectorPath, col, type VectorSet } from "./vectors.js";
+import { findRoutine, ROUTINES, type Routine } from "../module/routines.js";
+import { SPECS } from "./specs/index.js";
+import type { VectorSpec } from "./specs/types.js";
+import type { Kernels } from "../module/load.js";
+import { isBuildName, loadNamedBuild, type BuildName } from "../module/builds.js";
+import { isOk } from "../module/status.js";
+import { ROOT } from "../core/paths.js";
+import { writeAtomic } from "../core/atomic.js";
+
+export const COMPARE_USAGE = "areal compare --builds f64,native,js,f32[,baseline,optimizing] [--suite NAME]... [--json FILE]\n       areal compare a.csv b.csv [--tol X]";
+
+/** Engine tiers of the release module, run in a child process with the tier forced. */
+export const TIER_FLAGS: Readonly<Record<string, readonly string[]>> = {
+  baseline: ["--liftoff", "--no-wasm-tier-up"],
+  optimizing: ["--no-liftoff"],
+};
+
+export type CompareBuild = BuildName | "baseline" | "optimizing";
+
+export function isCompareBuild(s: string): s is CompareBuild {
+  return isBuildName(s) || s in TIER_FLAGS;
+}
+
+/** Everything a build gave on one suite: per row, the status and the routine's outputs (NaN where not run). */
+export interface Trace {
+  readonly build: string;
+  readonly realBytes: 4 | 8;
+  readonly statuses: Float64Array;
+  /** Row-major: row r, output j at r * outputs + j. */
+  readonly values: Float64Array;
+  readonly outputs: number;
+}
+
+/** True when every input of the row is an exact, normal (or zero) f32 value. */
+function f32Exact(row: readonly number[], cols: readonly number[]): boolean {
+  return cols.every((c) => {
+    const x = row[c]!;
+    return Math.fround(x) === x && (x === 0 || !Number.isFinite(x) || Math.abs(x) >= 1.1754943508222875e-38);
+  });
+}
+
+function argCols(routine: Routine, v: VectorSet): number[] {
+  return routine.inputs.map((i) => col(v, i.name));
+}
+
+/** Run one suite's vectors through a loaded build. Rows a single-precision build cannot take exactly are NaN/-1. */
+export function traceSuite(spec: VectorSpec, k: Kernels, v: VectorSet = readVectors(vectorPath(spec.suite))): Trace {
+  const routine = findRoutine(spec.routine);
+  if (!routine) throw new Error(`suite ${spec.suite}: unknown routine ${spec.routine}`);
+  const cols = argCols(routine, v);
+  const n = routine.outputs.length;
+  const statuses = new Float64Array(v.values.length).fill(-1);
+  const values = new Float64Array(v.values.length * n).fill(NaN);
+  const args = new Array<number>(cols.length);
+  v.values.forEach((row, r) => {
+    if (k.realBytes === 4 && !f32Exact(row, cols)) return;
+    for (let i = 0; i < cols.length; i++) args[i] = row[cols[i]!]!;
+    const st = k.call(routine.exportName, args);
+    statuses[r] = st;
+    if (isOk(st)) for (let j = 0; j < n; j++) values[r * n + j] = k.out[j]!;
+  });
+  return { build: k.label, realBytes: k.realBytes, statuses, values, outputs: n };
+}
+
+/** Entry point of the child process that runs the release module with a forced tier (see tracesInChild). */
+export function traceChild(): void {
+  const suites = (process.env.AREAL_TRACE_SUITES ?? "").split(",").filter(Boolean);
+  const k = loadNamedBuild("f64");
+  const parts: Buffer[] = [];
+  for (const s of suites) {
+    const spec = SPECS.find((x) => x.suite === s);
+    if (!spec) throw new Error(`unknown suite ${s}`);
+    const t = traceSuite(spec, k);
+    parts.push(Buffer.from(t.statuses.buffer), Buffer.from(t.values.buffer));
+  }
+  process.stdout.write(Buffer.concat(parts));
+}
+
+/** The compiled harness module to load in a child engine (dist/, also when this file runs from source). */
+function childModuleUrl(): string {
+  const here = fileURLToPath(import.meta.url);
+  const path = here.endsWith(".js") ? here : join(ROOT, "dist", "harness", "verify", "compare.js");
+  if (!existsSync(path)) throw new Error(`the tier comparison runs the compiled harness (${path}); run 'npm run build'`);
+  return pathToFileURL(path).href;
+}
+
+/** Trace suites with the release module in a child engine with the given V8 flags. */
+export function tracesInChild(tier: string, specs: readonly VectorSpec[], vectors: ReadonlyMap<string, VectorSet>): Trace[] {
+  const flags = TIER_FLAGS[tier];
+  if (!flags) throw new Error(`unknown tier ${tier}`);
+  const code = `import(${JSON.stringify(childModuleUrl())}).then((m) => m.traceChild())`;
+  const buf = execFileSync(process.execPath, [...flags, "-e", code], {
+    env: { ...process.env, AREAL_TRACE_SUITES: specs.map((s) => s.suite).join(",") },
+    maxBuffer: 1 << 30,
+    stdio: ["ignore", "pipe", "inherit"],
+  });
+  const out: Trace[] = [];
+  let off = 0;
+  const take = (count: number): Float64Array => {
+    const a = new Float64Array(count);
+    Buffer.from(a.buffer).set(buf.subarray(off, off + 8 * count));
+    off += 8 * count;
+    return a;
+  };
+  for (const s of specs) {
+    const rows = vectors.get(s.suite)!.values.length;
+    const n = findRoutine(s.routine)!.outputs.length;
+    out.push({ build: tier, realBytes: 8, statuses: take(rows), values: take(rows * n), outputs: n });
+  }
+  if (off !== buf.length) throw new Error(`tier ${tier}: the child engine returned ${buf.length} bytes, expected ${off}`);
+  return out;
+}
+
+export interface Difference {
+  readonly row: number;
+  readonly tag: string;
+  readonly inputs: Readonly<Record<string, number>>;
+  readonly output: string;
+  readonly a: number | string;
+  readonly b: number | string;
+}
+
+export interface BuildComparison {
+  readonly suite: string;
+  readonly routine: string;
+  readonly baseline: string;
+  readonly build: string;
+  /** Rows both builds ran (a single-precision build runs only rows with exact f32 inputs). */
+  readonly cases: number;
+  readonly identical: number;
+  readonly statusDiffers: number;
+  /** Largest ULP difference over outputs of rows both ran successfully; in f32 ULP when either build is f32. */
+  readonly maxUlp: number;
+  readonly ulpUnit: "f64" | "f32";
+  readonly maxAbs: number;
+  readonly first?: Difference;
+}
+
+/** Compare a build's trace to the baseline's on one suite. */
+export function compareTraces(spec: VectorSpec, v: VectorSet, base: Trace, other: Trace): BuildComparison {
+  const routine = findRoutine(spec.routine)!;
+  const cols = argCols(routine, v);
+  const n = routine.outputs.length;
+  const f32 = base.realBytes === 4 || other.realBytes === 4;
+  // Iteration counts take part in bit-identity but not in the ULP and absolute figures (they are counts).
+  const counted = routine.outputs.map((o) => o !== spec.iterations && o !== "iterations");
+  let cases = 0;
+  let identical = 0;
+  let statusDiffers = 0;
+  let maxUlp = 0;
+  let maxAbs = 0;
+  let first: Difference | undefined;
+  const inputsOf = (r: number): Record<string, number> => Object.fromEntries(routine.inputs.map((inp, i) => [inp.name, v.values[r]![cols[i]!]!]));
+  for (let r = 0; r < v.values.length; r++) {
+    const sa = base.statuses[r]!;
+    const sb = other.statuses[r]!;
+    if (sa === -1 || sb === -1) continue; // not run by one of them
+    cases++;
+    if (sa !== sb) {
+      statusDiffers++;
+      first ??= { row: r, tag: v.tags[r]!, inputs: inputsOf(r), output: "status", a: sa, b: sb };
+      continue;
+    }
+    let same = true;
+    for (let j = 0; j < n; j++) {
+      const a = base.values[r * n + j]!;
+      const b = other.values[r * n + j]!;
+      if (sameBits(a, b)) continue;
+      same = false;
+      first ??= { row: r, tag: v.tags[r]!, inputs: inputsOf(r), output: routine.outputs[j]!, a, b };
+      if (!counted[j]) continue;
+      const u = f32 ? ulpDistance32(a, b) : ulpDistance(a, b);
+      if (u > maxUlp) maxUlp = u;
+      const d = Math.abs(a - b);
+      if (d > maxAbs || Number.isNaN(d)) maxAbs = Number.isNaN(d) ? Infinity : d;
+    }
+    if (same) identical++;
+  }
+  return { suite: spec.suite, routine: routine.name, baseline: base.build, build: other.build, cases, identical, statusDiffers, maxUlp, ulpUnit: f32 ? "f32" : "f64", maxAbs, first };
+}
+
+/** Units of outputs compared against references, for the physical-error lines. */
+const UNITS: Readonly<Record<string, string>> = {
+  E: "rad", H: "rad", nu: "rad", anomaly: "rad", M: "rad", D: "(tan of half the true anomaly)", tof: "time units of the case",
+};
+
+export interface PhysicalError {
+  readonly suite: string;
+  readonly build: string;
+  readonly output: string;
+  readonly unit: string;
+  readonly cases: number;
+  /** Largest |got - ref| over all compared rows. */
+  readonly maxAbs: number;
+  /** Largest |got - ref| over rows whose reference is within one turn (|ref| <= pi), the everyday range. */
+  readonly maxAbsOneTurn: number;
+  readonly worst?: { readonly row: number; readonly inputs: Readonly<Record<string, number>>; readonly got: number; readonly want: number };
+}
+
+/** A build's error against the suite's references, in the outputs' own units. */
+export function physicalErrors(spec: VectorSpec, v: VectorSet, t: Trace): PhysicalError[] {
+  const routine = findRoutine(spec.routine)!;
+  const cols = argCols(routine, v);
+  const n = routine.outputs.length;
+  return spec.compare.map((c) => {
+    const j = routine.outputs.indexOf(c.output);
+    const ref = col(v, c.ref);
+    let cases = 0;
+    let maxAbs = 0;
+    let maxAbsOneTurn = 0;
+    let worst: PhysicalError["worst"];
+    for (let r = 0; r < v.values.length; r++) {
+      if (t.statuses[r] === -1 || !isOk(t.statuses[r]!)) continue;
+      const want = v.values[r]![ref]!;
+      if (Number.isNaN(want)) continue;
+      const got = t.values[r * n + j]!;
+      cases++;
+      const d = Math.abs(got - want);
+      if (d > maxAbs) {
+        maxAbs = d;
+        worst = { row: r, inputs: Object.fromEntries(routine.inputs.map((inp, i) => [inp.name, v.values[r]![cols[i]!]!])), got, want };
+      }
+      if (Math.abs(want) <= Math.PI && d > maxAbsOneTurn) maxAbsOneTurn = d;
+    }
+    return { suite: spec.suite, build: t.build, output: c.output, unit: UNITS[c.output] ?? "", cases, maxAbs, maxAbsOneTurn, worst };
+  });
+}
+
+/** The low-orbit scenario: an invented 400 km, 51.6 degree orbit; WGS 84 GM (NIMA TR8350.2). */
+export const LEO = {
+  mu: 398600.4418,
+  r0: [6778.137, 0, 0] as const,
+  /** Circular speed sqrt(mu / r) split by the inclination, km/s. */
+  v0(): [number, number, number] {
+    const v = Math.sqrt(this.mu / this.r0[0]);
+    const inc = (51.6 * Math.PI) / 180;
+    return [0, v * Math.cos(inc), v * Math.sin(inc)];
+  },
+  period(): number {
+    return 2 * Math.PI * Math.sqrt(this.r0[0] ** 3 / this.mu);
+  },
+  steps: 1000,
+} as const;
+
+export interface StateError {
+  readonly routine: string;
+  readonly build: string;
+  readonly positionM: number;
+  readonly velocityMmS: number;
+  readonly note: string;
+}
+
+/**
+ * A low-orbit state after one orbit, from a build and from the baseline (the release f64 build): the position
+ * difference in metres and the velocity difference in mm/s. Uses the `propagate` routine when the module has it
+ * (two-body, one period), else `integrate` (RK4, 1000 steps an orbit). Undefined when neither can run.
+ */
+export function leoStateError(base: Kernels, other: Kernels): StateError | undefined {
+  const [vx, vy, vz] = LEO.v0();
+  const [rx, ry, rz] = LEO.r0;
+  const T = LEO.period();
+  const known: Record<string, number> = {
+    mu: LEO.mu, r0x: rx, r0y: ry, r0z: rz, v0x: vx, v0y: vy, v0z: vz, rx, ry, rz, vx, vy, vz, x: rx, y: ry, z: rz,
+    dt: T, tof: T, t: T, step: T / LEO.steps, steps: LEO.steps, method: 0,
+  };
+  for (const name of ["propagate", "integrate"]) {
+    const routine = ROUTINES.find((r) => r.name === name);
+    if (!routine || !base.has(routine.exportName) || !other.has(routine.exportName)) continue;
+    const args: number[] = [];
+    let ok = true;
+    for (const inp of routine.inputs) {
+      const v = known[inp.name] ?? inp.default;
+      if (v === undefined) ok = false;
+      else args.push(v);
+    }
+    const outNames = ["rx", "ry", "rz", "vx", "vy", "vz"];
+    const slots = outNames.map((o) => routine.outputs.indexOf(o));
+    if (!ok || slots.some((s) => s < 0)) continue;
+    const run = (k: Kernels): number[] | undefined => (isOk(k.call(routine.exportName, args)) ? slots.map((s) => k.out[s]!) : undefined);
+    const a = run(base);
+    const b = run(other);
+    if (!a || !b) continue;
+    const dr = Math.hypot(a[0]! - b[0]!, a[1]! - b[1]!, a[2]! - b[2]!) * 1e3;
+    const dv = Math.hypot(a[3]! - b[3]!, a[4]! - b[4]!, a[5]! - b[5]!) * 1e6;
+    const note = name === "propagate" ? "two-body propagation over one period" : `${LEO.steps} RK4 steps over one period`;
+    return { routine: name, build: other.label, positionM: dr, velocityMmS: dv, note };
+  }
+  return undefined;
+}
+
+export interface BuildsReport {
+  readonly builds: readonly string[];
+  readonly comparisons: readonly BuildComparison[];
+  readonly physical: readonly PhysicalError[];
+  readonly states: readonly StateError[];
+  /** Suites left out because their vector file does not exist. */
+  readonly missing: readonly string[];
+}
+
+/** Run the comparison of builds over the given suites. The first build is the baseline. */
+export function compareBuilds(builds: readonly CompareBuild[], allSpecs: readonly VectorSpec[] = SPECS): BuildsReport {
+  // A suite whose vector file is not generated yet is left out and named in the report.
+  const specs = allSpecs.filter((s) => existsSync(vectorPath(s.suite)));
+  const missing = allSpecs.filter((s) => !specs.includes(s)).map((s) => s.suite);
+  const vectors = new Map(specs.map((s) => [s.suite, readVectors(vectorPath(s.suite))]));
+  const traces = new Map<string, Trace[]>();
+  const kernels = new Map<string, Kernels>();
+  for (const b of builds) {
+    if (b in TIER_FLAGS) traces.set(b, tracesInChild(b, specs, vectors));
+    else {
+      const k = loadNamedBuild(b as BuildName);
+      kernels.set(b, k);
+      traces.set(b, specs.map((s) => traceSuite(s, k, vectors.get(s.suite)!)));
+    }
+  }
+  const base = builds[0]!;
+  const comparisons: BuildComparison[] = [];
+  const physical: PhysicalError[] = [];
+  specs.forEach((s, i) => {
+    const v = vectors.get(s.suite)!;
+    for (const b of builds.slice(1)) comparisons.push(compareTraces(s, v, traces.get(base)![i]!, traces.get(b)![i]!));
+    for (const b of builds) {
+      const t = traces.get(b)![i]!;
+      if (t.realBytes === 4) physical.push(...physicalErrors(s, v, t).filter((p) => p.cases > 0));
+    }
+  });
+  const states: StateError[] = [];
+  const baseK = kernels.get(base) ?? loadNamedBuild("f64");
+  for (const [name, k] of kernels) {
+    if (name === base || k.realBytes !== 4) continue;
+    const e = leoStateError(baseK, k);
+    if (e) states.push(e);
+  }
+  return { builds, comparisons, physical, states, missing };
+}
+
+function fig(x: number): string {
+  if (x === 0) return "0";
+  if (!Number.isFinite(x)) return String(x);
+  if (Number.isInteger(x) && Math.abs(x) < 1e9) return String(x);
+  return x.toPrecision(3);
+}
+
+function table(head: string[], rows: string[][]): string[] {
+  const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i]!.length)));
+  const line = (cells: string[]): string => cells.map((c, i) => c.padEnd(widths[i]!)).join("  ").trimEnd();
+  return [line(head), line(widths.map((w) => "-".repeat(w))), ...rows.map(line)];
+}
+
+function diffText(d: Difference | undefined): string {
+  if (!d) return "-";
+  const ins = Object.entries(d.inputs).map(([k, v]) => `${k}=${v}`).join(" ");
+  return `row ${d.row} (${d.tag}) ${ins}: ${d.output} ${d.a} vs ${d.b}`;
+}
+
+/** The text report of a build comparison. */
+export function formatBuildsReport(rep: BuildsReport): string {
+  const out = [`areal compare: baseline ${rep.builds[0]}; compared ${rep.builds.slice(1).join(", ")}`];
+  out.push(...table(
+    ["suite", "build", "cases", "bit-identical", "max ulp", "max abs", "first difference"],
+    rep.comparisons.map((c) => [c.suite, c.build, String(c.cases), String(c.identical) + (c.statusDiffers ? ` (${c.statusDiffers} status)` : ""), `${fig(c.maxUlp)}${c.ulpUnit === "f32" ? " (f32)" : ""}`, fig(c.maxAbs), diffText(c.first)]),
+  ));
+  if (rep.physical.length) {
+    out.push("", "single precision against the references (absolute error in the output's units):");
+    out.push(...table(
+      ["suite", "build", "output", "cases", "max error", "within |ref| <= pi", "unit", "worst case"],
+      rep.physical.map((p) => [p.suite, p.build, p.output, String(p.cases), fig(p.maxAbs), fig(p.maxAbsOneTurn), p.unit,
+        p.worst ? `${Object.entries(p.worst.inputs).map(([k, v]) => `${k}=${v}`).join(" ")} got ${p.worst.got} want ${p.worst.want}` : "-"]),
+    ));
+  }
+  for (const s of rep.states) {
+    out.push("", `${s.build}: low-orbit state after one orbit (400 km, 51.6 deg; ${s.note}, routine ${s.routine}) differs from ${rep.builds[0]} by ${fig(s.positionM)} m in position and ${fig(s.velocityMmS)} mm/s in velocity`);
+  }
+  if (rep.missing.length) out.push("", `left out (no vector file; run 'areal vectors --suite NAME'): ${rep.missing.join(", ")}`);
+  const ids = rep.comparisons.filter((c) => c.identical !== c.cases);
+  out.push("", ids.length === 0 ? "every compared build is bit-identical to the baseline on every case." : `${ids.length} suite/build pair(s) differ from the baseline (expected for js and f32; not for native, baseline, optimizing).`);
+  return out.join("\n") + "\n";
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// two CSV files
+
+export interface ColumnDiff {
+  readonly column: string;
+  readonly numeric: boolean;
+  readonly maxAbs: number;
+  readonly maxRel: number;
+  readonly maxUlp: number;
+  /** Rows whose cells differ at all (bits, or text). */
+  readonly differing: number;
+}
+
+export interface CsvComparison {
+  readonly rows: number;
+  readonly columns: readonly ColumnDiff[];
+  readonly tol: number;
+  /** The first row (1-based data row, with its line in each file) with a cell beyond the tolerance. */
+  readonly firstBeyond?: { readonly row: number; readonly lineA: number; readonly lineB: number; readonly column: string; readonly a: string; readonly b: string };
+}
+
+/** Compare two CSV texts of the same cases. Throws CsvError on different rows or columns. */
+export function compareCsv(textA: string, nameA: string, textB: string, nameB: string, tol = 0): CsvComparison {
+  const a = parseCsv(textA, nameA);
+  const b = parseCsv(textB, nameB);
+  const onlyA = a.columns.filter((c) => !b.columns.includes(c));
+  const onlyB = b.columns.filter((c) => !a.columns.includes(c));
+  if (onlyA.length || onlyB.length) {
+    throw new CsvError(`the files have different columns: ${onlyA.length ? `only in ${nameA}: ${onlyA.join(", ")}` : ""}${onlyA.length && onlyB.length ? "; " : ""}${onlyB.length ? `only in ${nameB}: ${onlyB.join(", ")}` : ""}`);
+  }
+  if (a.rows.length !== b.rows.length) throw new CsvError(`the files have different numbers of rows: ${nameA} has ${a.rows.length}, ${nameB} has ${b.rows.length}`);
+  let firstBeyond: CsvComparison["firstBeyond"];
+  const columns = a.columns.map((name, ca) => {
+    const cb = b.columns.indexOf(name);
+    let numeric = true;
+    let maxAbs = 0;
+    let maxRel = 0;
+    let maxUlp = 0;
+    let differing = 0;
+    for (let r = 0; r < a.rows.length; r++) {
+      const sa = a.rows[r]![ca]!;
+      const sb = b.rows[r]![cb]!;
+      const x = parseNumber(sa);
+      const y = parseNumber(sb);
+      let beyond = false;
+      if (x === undefined || y === undefined) {
+        if (x === undefined && y === undefined) numeric = false;
+        if (sa !== sb) {
+          differing++;
+          beyond = true;
+        }
+      } else if (!sameBits(x, y)) {
+        differing++;
+        const d = Number.isNaN(x) !== Number.isNaN(y) ? Infinity : Math.abs(x - y);
+        const dd = Number.isNaN(d) ? Infinity : d; // inf vs -inf
+        if (dd > maxAbs) maxAbs = dd;
+        const rel = x === 0 ? dd : dd / Math.abs(x);
+        if (rel > maxRel) maxRel = rel;
+        const u = ulpDistance(x, y);
+        if (u > maxUlp) maxUlp = u;
+        beyond = dd > tol;
+      }
+      if (beyond && (firstBeyond === undefined || r < firstBeyond.row - 1)) {
+        firstBeyond = { row: r + 1, lineA: a.lines[r]!, lineB: b.lines[r]!, column: name, a: sa, b: sb };
+      }
+    }
+    return { column: name, numeric, maxAbs, maxRel, maxUlp, differing };
+  });
+  return { rows: a.rows.length, columns, tol, firstBeyond };
+}
+
+export function formatCsvComparison(c: CsvComparison, nameA: string, nameB: string): string {
+  const out = [`areal compare: ${nameA} vs ${nameB}: ${c.rows} rows, ${c.columns.length} columns, tolerance ${c.tol} (absolute)`];
+  out.push(...table(["column", "differing rows", "max abs", "max rel", "max ulp"], c.columns.map((d) =>
+    [d.column, String(d.differing), d.numeric ? fig(d.maxAbs) : "(text)", d.numeric ? fig(d.maxRel) : "-", d.numeric ? fig(d.maxUlp) : "-"])));
+  const f = c.firstBeyond;
+  out.push("", f ? `first row beyond the tolerance: row ${f.row} (line ${f.lineA} of ${nameA}, line ${f.lineB} of ${nameB}), column ${f.column}: ${f.a} vs ${f.b}` : "no row differs beyond the tolerance.");
+  return out.join("\n") + "\n";
+}
+
+/** The `compare` command (cli.ts hands over its positionals and options). */
+export function compareCommand(pos: readonly string[], values: Record<string, unknown>, usage: (m: string) => Error): number {
+  const tolText = values.tol as string | undefined;
+  if (pos.length > 0) {
+    if (pos.length !== 2) throw usage(`compare takes two CSV files (got ${pos.length} names), or --builds`);
+    if (values.builds !== undefined) throw usage("compare: give either two CSV files or --builds, not both");
+    const tol = tolText === undefined ? 0 : Number(tolText);
+    if (tolText !== undefined && (!Number.isFinite(tol) || tol < 0 || tolText.trim() === "")) throw usage(`--tol: '${tolText}' is not a non-negative number`);
+    const [fa, fb] = pos as [string, string];
+    for (const f of [fa, fb]) if (!existsSync(f)) throw usage(`compare: no such file: ${f}`);
+    const c = compareCsv(readFileSync(fa, "utf8"), fa, readFileSync(fb, "utf8"), fb, tol);
+    process.stdout.write(formatCsvComparison(c, fa, fb));
+    if (values.json !== undefined) writeAtomic(values.json as string, JSON.stringify(c, null, 2) + "\n");
+    return c.firstBeyond ? 1 : 0;
+  }
+  if (tolText !== undefined) throw usage("--tol applies to comparing two CSV files");
+  const list = ((values.builds as string | undefined) ?? "f64,native,js,f32").split(",").map((s) => s.trim()).filter(Boolean);
+  for (const b of list) if (!isCompareBuild(b)) throw usage(`--builds: '${b}' is not one of f64, f32, js, native, debug, baseline, optimizing`);
+  if (list.length < 2) throw usage("--builds needs at least two builds (the first is the baseline)");
+  const suites = (values.suite as string[] | undefined) ?? [];
+  const specs = suites.length === 0 ? SPECS : suites.map((s) => {
+    const spec = SPECS.find((x) => x.suite === s);
+    if (!spec) throw usage(`--suite: unknown suite '${s}' (known: ${SPECS.map((x) => x.suite).join(", ")})`);
+    return spec;
+  });
+  const rep = compareBuilds(list as CompareBuild[], specs);
+  process.stdout.write(formatBuildsReport(rep));
+  if (values.json !== undefined) writeAtomic(values.json as string, JSON.stringify(rep, null, 2) + "\n");
+  // The release module under any engine tier and its native translation must agree bit for bit: exit 1 if not.
+  const exact = new Set(["f64", "native", "baseline", "optimizing"]);
+  const broken = exact.has(rep.builds[0]!) ? rep.comparisons.filter((c) => exact.has(c.build) && c.identical !== c.cases) : [];
+  for (const c of broken) process.stderr.write(`areal: ${c.build} is not bit-identical to ${c.baseline} on ${c.suite} (${c.cases - c.identical} case(s))\n`);
+  return broken.length ? 1 : 0;
+}
