@@ -7,6 +7,7 @@ export { true_to_anomaly, anomaly_to_true, true_to_mean, mean_to_true, time_of_f
 export { propagate } from "./universal";
 export { transition } from "./transition";
 export { lambert } from "./lambert";
+export { lambert_partials } from "./lambert_partials";
 export { elements, state, state_p } from "./elements";
 export { equinoctial, from_equinoctial } from "./equinoctial";
 export { invariants } from "./invariants";

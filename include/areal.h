@@ -165,6 +165,55 @@ typedef double areal_real;
 #define AREAL_SLOT_LAMBERT_V2Y 4 /* length/time */
 #define AREAL_SLOT_LAMBERT_V2Z 5 /* length/time */
 #define AREAL_SLOT_LAMBERT_ITERATIONS 6 /* count */
+#define AREAL_SLOT_LAMBERT_PARTIALS_V1X 0 /* length/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_V1Y 1 /* length/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_V1Z 2 /* length/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_V2X 3 /* length/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_V2Y 4 /* length/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_V2Z 5 /* length/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_R1X 6 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_R1Y 7 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_R1Z 8 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_R2X 9 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_R2Y 10 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_R2Z 11 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_TOF 12 /* length/time^2 */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_R1X 13 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_R1Y 14 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_R1Z 15 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_R2X 16 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_R2Y 17 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_R2Z 18 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_TOF 19 /* length/time^2 */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_R1X 20 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_R1Y 21 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_R1Z 22 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_R2X 23 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_R2Y 24 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_R2Z 25 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_TOF 26 /* length/time^2 */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_R1X 27 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_R1Y 28 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_R1Z 29 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_R2X 30 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_R2Y 31 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_R2Z 32 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_TOF 33 /* length/time^2 */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_R1X 34 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_R1Y 35 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_R1Z 36 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_R2X 37 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_R2Y 38 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_R2Z 39 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_TOF 40 /* length/time^2 */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_R1X 41 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_R1Y 42 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_R1Z 43 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_R2X 44 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_R2Y 45 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_R2Z 46 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_TOF 47 /* length/time^2 */
+#define AREAL_SLOT_LAMBERT_PARTIALS_ITERATIONS 48 /* count */
 #define AREAL_SLOT_GRAVITY_ZONAL_AX 0 /* length/time^2 */
 #define AREAL_SLOT_GRAVITY_ZONAL_AY 1 /* length/time^2 */
 #define AREAL_SLOT_GRAVITY_ZONAL_AZ 2 /* length/time^2 */
@@ -243,6 +292,8 @@ AREAL_API(from_equinoctial) int32_t from_equinoctial(areal_real mu, areal_real p
 AREAL_API(invariants) int32_t invariants(areal_real mu, areal_real rx, areal_real ry, areal_real rz, areal_real vx, areal_real vy, areal_real vz);
 /* Lambert's problem (Izzo 2015): v1, v2 from r1, r2, time of flight, complete revolutions, direction, branch. Slots: v1x, v1y, v1z, v2x, v2y, v2z, iterations. Returns a status. */
 AREAL_API(lambert) int32_t lambert(areal_real mu, areal_real r1x, areal_real r1y, areal_real r1z, areal_real r2x, areal_real r2y, areal_real r2z, areal_real tof, int32_t revs, int32_t retrograde, int32_t branch);
+/* Lambert's solution with its partials d(v1, v2) / d(r1, r2, tof) through the state transition matrix. Slots: v1x, v1y, v1z, v2x, v2y, v2z, d_v1x_d_r1x, d_v1x_d_r1y, d_v1x_d_r1z, d_v1x_d_r2x, d_v1x_d_r2y, d_v1x_d_r2z, d_v1x_d_tof, d_v1y_d_r1x, d_v1y_d_r1y, d_v1y_d_r1z, d_v1y_d_r2x, d_v1y_d_r2y, d_v1y_d_r2z, d_v1y_d_tof, d_v1z_d_r1x, d_v1z_d_r1y, d_v1z_d_r1z, d_v1z_d_r2x, d_v1z_d_r2y, d_v1z_d_r2z, d_v1z_d_tof, d_v2x_d_r1x, d_v2x_d_r1y, d_v2x_d_r1z, d_v2x_d_r2x, d_v2x_d_r2y, d_v2x_d_r2z, d_v2x_d_tof, d_v2y_d_r1x, d_v2y_d_r1y, d_v2y_d_r1z, d_v2y_d_r2x, d_v2y_d_r2y, d_v2y_d_r2z, d_v2y_d_tof, d_v2z_d_r1x, d_v2z_d_r1y, d_v2z_d_r1z, d_v2z_d_r2x, d_v2z_d_r2y, d_v2z_d_r2z, d_v2z_d_tof, iterations. Returns a status. */
+AREAL_API(lambert_partials) int32_t lambert_partials(areal_real mu, areal_real r1x, areal_real r1y, areal_real r1z, areal_real r2x, areal_real r2y, areal_real r2z, areal_real tof, int32_t revs, int32_t retrograde, int32_t branch);
 /* acceleration and potential energy of a point mass plus zonal J2, J3 (z along the symmetry axis). Slots: ax, ay, az, potential. Returns a status. */
 AREAL_API(gravity_zonal) int32_t gravity_zonal(areal_real mu, areal_real j2, areal_real j3, areal_real radius, areal_real x, areal_real y, areal_real z);
 /* fixed-step propagation (rk4, verlet, yoshida4, butcher6) with the invariants monitored on every step. Slots: rx, ry, rz, vx, vy, vz, energy_dev, h_dev, ecc_dev, areal_dev, energy_step, h_step, ecc_step, areal_step, k, t, energy, hx, hy, hz, ex, ey, ez, areal_velocity, energy_dev_now, h_dev_now, ecc_dev_now, areal_dev_now. Returns a status. */

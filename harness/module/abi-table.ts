@@ -1208,6 +1208,311 @@ export const ABI_TABLE: AbiTable = {
    ]
   },
   {
+   "name": "lambert_partials",
+   "group": "targeting",
+   "routine": "lambert-partials",
+   "summary": "Lambert's solution with its partials d(v1, v2) / d(r1, r2, tof) through the state transition matrix",
+   "params": [
+    {
+     "name": "mu",
+     "unit": "length^3/time^2"
+    },
+    {
+     "name": "r1x",
+     "unit": "length"
+    },
+    {
+     "name": "r1y",
+     "unit": "length"
+    },
+    {
+     "name": "r1z",
+     "unit": "length"
+    },
+    {
+     "name": "r2x",
+     "unit": "length"
+    },
+    {
+     "name": "r2y",
+     "unit": "length"
+    },
+    {
+     "name": "r2z",
+     "unit": "length"
+    },
+    {
+     "name": "tof",
+     "unit": "time",
+     "doc": "time of flight, > 0"
+    },
+    {
+     "name": "revs",
+     "type": "i32",
+     "unit": "count",
+     "default": 0,
+     "doc": "complete revolutions, >= 0"
+    },
+    {
+     "name": "retrograde",
+     "type": "i32",
+     "unit": "flag",
+     "default": 0,
+     "doc": "0: prograde (h_z > 0), 1: retrograde"
+    },
+    {
+     "name": "branch",
+     "type": "i32",
+     "enum": "branch",
+     "default": 0,
+     "doc": "revs >= 1: which of the two solutions"
+    }
+   ],
+   "outputs": [
+    {
+     "name": "v1x",
+     "unit": "length/time",
+     "doc": "lambert's v1"
+    },
+    {
+     "name": "v1y",
+     "unit": "length/time"
+    },
+    {
+     "name": "v1z",
+     "unit": "length/time"
+    },
+    {
+     "name": "v2x",
+     "unit": "length/time",
+     "doc": "lambert's v2"
+    },
+    {
+     "name": "v2y",
+     "unit": "length/time"
+    },
+    {
+     "name": "v2z",
+     "unit": "length/time"
+    },
+    {
+     "name": "d_v1x_d_r1x",
+     "unit": "1/time",
+     "doc": "partials row-major: rows v1x .. v2z, columns r1x, r1y, r1z, r2x, r2y, r2z, tof"
+    },
+    {
+     "name": "d_v1x_d_r1y",
+     "unit": "1/time",
+     "doc": "d v1x / d r1y"
+    },
+    {
+     "name": "d_v1x_d_r1z",
+     "unit": "1/time",
+     "doc": "d v1x / d r1z"
+    },
+    {
+     "name": "d_v1x_d_r2x",
+     "unit": "1/time",
+     "doc": "d v1x / d r2x"
+    },
+    {
+     "name": "d_v1x_d_r2y",
+     "unit": "1/time",
+     "doc": "d v1x / d r2y"
+    },
+    {
+     "name": "d_v1x_d_r2z",
+     "unit": "1/time",
+     "doc": "d v1x / d r2z"
+    },
+    {
+     "name": "d_v1x_d_tof",
+     "unit": "length/time^2",
+     "doc": "d v1x / d tof"
+    },
+    {
+     "name": "d_v1y_d_r1x",
+     "unit": "1/time",
+     "doc": "d v1y / d r1x"
+    },
+    {
+     "name": "d_v1y_d_r1y",
+     "unit": "1/time",
+     "doc": "d v1y / d r1y"
+    },
+    {
+     "name": "d_v1y_d_r1z",
+     "unit": "1/time",
+     "doc": "d v1y / d r1z"
+    },
+    {
+     "name": "d_v1y_d_r2x",
+     "unit": "1/time",
+     "doc": "d v1y / d r2x"
+    },
+    {
+     "name": "d_v1y_d_r2y",
+     "unit": "1/time",
+     "doc": "d v1y / d r2y"
+    },
+    {
+     "name": "d_v1y_d_r2z",
+     "unit": "1/time",
+     "doc": "d v1y / d r2z"
+    },
+    {
+     "name": "d_v1y_d_tof",
+     "unit": "length/time^2",
+     "doc": "d v1y / d tof"
+    },
+    {
+     "name": "d_v1z_d_r1x",
+     "unit": "1/time",
+     "doc": "d v1z / d r1x"
+    },
+    {
+     "name": "d_v1z_d_r1y",
+     "unit": "1/time",
+     "doc": "d v1z / d r1y"
+    },
+    {
+     "name": "d_v1z_d_r1z",
+     "unit": "1/time",
+     "doc": "d v1z / d r1z"
+    },
+    {
+     "name": "d_v1z_d_r2x",
+     "unit": "1/time",
+     "doc": "d v1z / d r2x"
+    },
+    {
+     "name": "d_v1z_d_r2y",
+     "unit": "1/time",
+     "doc": "d v1z / d r2y"
+    },
+    {
+     "name": "d_v1z_d_r2z",
+     "unit": "1/time",
+     "doc": "d v1z / d r2z"
+    },
+    {
+     "name": "d_v1z_d_tof",
+     "unit": "length/time^2",
+     "doc": "d v1z / d tof"
+    },
+    {
+     "name": "d_v2x_d_r1x",
+     "unit": "1/time",
+     "doc": "d v2x / d r1x"
+    },
+    {
+     "name": "d_v2x_d_r1y",
+     "unit": "1/time",
+     "doc": "d v2x / d r1y"
+    },
+    {
+     "name": "d_v2x_d_r1z",
+     "unit": "1/time",
+     "doc": "d v2x / d r1z"
+    },
+    {
+     "name": "d_v2x_d_r2x",
+     "unit": "1/time",
+     "doc": "d v2x / d r2x"
+    },
+    {
+     "name": "d_v2x_d_r2y",
+     "unit": "1/time",
+     "doc": "d v2x / d r2y"
+    },
+    {
+     "name": "d_v2x_d_r2z",
+     "unit": "1/time",
+     "doc": "d v2x / d r2z"
+    },
+    {
+     "name": "d_v2x_d_tof",
+     "unit": "length/time^2",
+     "doc": "d v2x / d tof"
+    },
+    {
+     "name": "d_v2y_d_r1x",
+     "unit": "1/time",
+     "doc": "d v2y / d r1x"
+    },
+    {
+     "name": "d_v2y_d_r1y",
+     "unit": "1/time",
+     "doc": "d v2y / d r1y"
+    },
+    {
+     "name": "d_v2y_d_r1z",
+     "unit": "1/time",
+     "doc": "d v2y / d r1z"
+    },
+    {
+     "name": "d_v2y_d_r2x",
+     "unit": "1/time",
+     "doc": "d v2y / d r2x"
+    },
+    {
+     "name": "d_v2y_d_r2y",
+     "unit": "1/time",
+     "doc": "d v2y / d r2y"
+    },
+    {
+     "name": "d_v2y_d_r2z",
+     "unit": "1/time",
+     "doc": "d v2y / d r2z"
+    },
+    {
+     "name": "d_v2y_d_tof",
+     "unit": "length/time^2",
+     "doc": "d v2y / d tof"
+    },
+    {
+     "name": "d_v2z_d_r1x",
+     "unit": "1/time",
+     "doc": "d v2z / d r1x"
+    },
+    {
+     "name": "d_v2z_d_r1y",
+     "unit": "1/time",
+     "doc": "d v2z / d r1y"
+    },
+    {
+     "name": "d_v2z_d_r1z",
+     "unit": "1/time",
+     "doc": "d v2z / d r1z"
+    },
+    {
+     "name": "d_v2z_d_r2x",
+     "unit": "1/time",
+     "doc": "d v2z / d r2x"
+    },
+    {
+     "name": "d_v2z_d_r2y",
+     "unit": "1/time",
+     "doc": "d v2z / d r2y"
+    },
+    {
+     "name": "d_v2z_d_r2z",
+     "unit": "1/time",
+     "doc": "d v2z / d r2z"
+    },
+    {
+     "name": "d_v2z_d_tof",
+     "unit": "length/time^2",
+     "doc": "d v2z / d tof"
+    },
+    {
+     "name": "iterations",
+     "unit": "count",
+     "doc": "lambert's iterations"
+    }
+   ]
+  },
+  {
    "name": "gravity_zonal",
    "group": "force",
    "routine": "gravity-zonal",
