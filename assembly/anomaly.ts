@@ -16,9 +16,25 @@
 // I = integral of dnu / (1 + e cos nu)^2 from nu1 to nu2, which is
 //   (M2 - M1) / (1 - e^2)^(3/2) (ellipse), (M2 - M1) / (e^2 - 1)^(3/2) (hyperbola), (M2 - M1) / 2 (parabola).
 //
-// Output slot 0 holds the result; time_of_flight also writes slot 1 = swept area, slot 2 = h/2.
+// Sources: the half-angle relations and Kepler's second law are textbook material (e.g. R. R. Bate, D. D.
+// Mueller, J. E. White, "Fundamentals of Astrodynamics", Dover 1971, ch. 4; recalled from memory); the exact
+// reduction is reduce.ts's, the series are series.ts's.
+//
+// Special cases, in order: NaN or infinite input -> ERR_NONFINITE; e < 0 (time_of_flight: also mu <= 0 or
+// p <= 0) -> ERR_DOMAIN; on a hyperbola or parabola |nu| at or beyond the asymptote -> ERR_UNREACHABLE.
 // time_of_flight returns ERR_DOMAIN on the ellipse when |nu1| or |nu2| >= 2^53 (the turn count is not
-// determined there) and ERR_OVERFLOW when the time, the area or h/2 is beyond the floating-point range.
+// determined there) and ERR_OVERFLOW when the time, the area or h/2 is beyond the floating-point range;
+// true_to_mean returns ERR_OVERFLOW when e sinh H overflows.
+// Iteration cap: none here (closed forms); mean_to_true inherits the Kepler solvers' caps (ELLIPTIC_MAX_ITER 6,
+// HYPERBOLIC_MAX_ITER 8, Barker's one polish) and their statuses.
+// Output slot 0 holds the result; mean_to_true also writes slot 1 = iterations; time_of_flight writes slot 1 =
+// swept area, slot 2 = h/2.
+// Accuracy (release f64 build, vectors/*.csv, 1,000-1,500 cases each over every conic, 70-digit references;
+// `areal check -v`, 2026-12): true_to_anomaly 9 ulp, within twice the problem's conditioning (worst seen:
+// e = 9.03680388991795, nu = -1.6487896477726522, got -4.1032408612312405, want ...2326); anomaly_to_true 2 ulp;
+// true_to_mean 111 ulp next to a hyperbola's asymptote, within twice the conditioning (e = 24.508161904222696,
+// nu = -1.4741854072017657, got -174.88953838346464, want ...427); time_of_flight 1.37e-14 relative
+// (e = 1.0000000080959615). Limits in vectors/limits.json.
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_UNREACHABLE, ERR_OVERFLOW, FIRST_ERROR } from "./status";
 import { put, got } from "./io";

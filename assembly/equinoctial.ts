@@ -27,7 +27,11 @@
 // gave ERR_DEGENERATE before). from_equinoctial: sqrt(mu / p) from mu and p scaled by powers of two where mu / p is not
 // a normal number (invariants.ts speedScale); r or v whose largest component is below the normal range -> ERR_OVERFLOW.
 // Output slots: equinoctial 0 p, 1 f, 2 g, 3 h, 4 k, 5 L; from_equinoctial 0..2 r, 3..5 v.
-// Accuracy (f64, vectors/equinoctial.csv, vectors/from-equinoctial.csv): see vectors/limits.json.
+// Iteration cap: none (closed forms).
+// Accuracy (release f64 build, vectors/equinoctial.csv 1,200 cases, vectors/from-equinoctial.csv 1,000 cases,
+// 50-digit references; `areal check -v`, 2026-12): equinoctial p 2.3e-15 relative, f 3.6e-15, g 2.7e-15,
+// h 3.6e-15, k 1.8e-15, L 8.9e-16 absolute (worst L: a hyperbola, got -4.6620396677793075, want ...304 in an
+// intermediate angle); from_equinoctial r 2.6e-15 and v 4.9e-16 relative. Limits in vectors/limits.json.
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE, ERR_UNREACHABLE, ERR_OVERFLOW } from "./status";
 import { put } from "./io";

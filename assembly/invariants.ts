@@ -36,7 +36,12 @@
 // 9 areal velocity, 10 flight-path angle.
 // Accuracy: each output is a short sum of products, a few ulp of its largest term; energy and the
 // eccentricity vector are differences (v^2/2 against mu/r), so near e = 1 (energy) or e = 0 (e vector) the
-// error is a few ulp of v^2/2, absolute, which is the conditioning of the quantity itself.
+// error is a few ulp of v^2/2, absolute, which is the conditioning of the quantity itself. Checked on 150
+// states of every orbit class against decimal.js (tests/twobody-conservation.test.ts): energy within
+// 4e-16 (v^2/2 + mu/r), h and |h| within 1e-15 relative, e vector within 2e-15 v^2 r / mu, flight-path angle
+// within 1e-15 rad.
+// Iteration cap: none; the loops are the fixed ladders of pow2 (POW2_BITS), scale2 (SCALE_STEPS) and exponent2
+// (EXP_RUNGS plus two).
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE, ERR_OVERFLOW } from "./status";
 import { put } from "./io";

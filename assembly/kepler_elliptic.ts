@@ -44,7 +44,8 @@ export const ELLIPTIC_MAX_ITER: i32 = 6;
  * and a second step happens only for a starter worse than any seen.
  */
 const ELLIPTIC_STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>0.00048828125; // 2^-9, 2^-11; f64 0x3F40000000000000, f32 0x3B000000
-// Markley's constants: 3 pi^2, 1.6 pi, pi^2 - 6.
+// Markley's constants: 3 pi^2, 1.6 pi, pi^2 - 6 (the first and last one ulp from the correctly rounded values,
+// tests/kernels-constants.test.ts; they only shape the starter, which the correction step polishes).
 const THREE_PI_SQ: real = <real>29.608813203268074; // f64 0x403D9BDB2E9D68CD, f32 0x41ECDED9
 const PI_1_6: real = <real>5.026548245743669; // f64 0x40141B2F769CF0E0, f32 0x40A0D97C
 const PI_SQ_MINUS_6: real = <real>3.869604401089358; // f64 0x400EF4F326F91778, f32 0x4077A799

@@ -21,6 +21,11 @@
 //  4. Stop when the step is below HYPERBOLIC_STOP_REL * H; at most HYPERBOLIC_MAX_ITER steps, else ERR_NOT_CONVERGED.
 //
 // Output slots: 0 = H, 1 = iterations.
+// Iteration cap: HYPERBOLIC_MAX_ITER (8) steps, else ERR_NOT_CONVERGED (never reached on the vectors or in fuzzing).
+// Accuracy (release f64 build, vectors/kepler-hyperbolic.csv: 5,000 cases, e from 1 + 2^-52 to 1e6, |M| to
+// 1.8e308, 60-digit references; `areal check -v`, 2026-12): at most 2 ulp from the correctly rounded root (worst
+// seen: e = 1.0000369030829606, M = -3.2156613529525255e-8, got -0.0008684221608916435, want ...437); at most
+// 4 steps, mean 1.23 (histogram 0:442 1:3142 2:1247 3:153 4:16). Limits in vectors/limits.json.
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED } from "./status";
 import { put, got } from "./io";

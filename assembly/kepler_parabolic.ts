@@ -13,7 +13,12 @@
 //  3. One Newton step on D^3 + 3 D - 3 M polishes the last bits (iterations = 1).
 //  4. nu = 2 atan(D).
 //
+// Source: Barker's equation and its cubic solution in closed form are textbook material (e.g. R. H. Battin,
+// "An Introduction to the Mathematics and Methods of Astrodynamics", AIAA 1987, 4.3; recalled from memory).
 // Output slots: 0 = D, 1 = iterations, 2 = nu (radians, in (-pi, pi)).
+// Iteration cap: none, a closed form plus exactly one Newton polish (none above HUGE_M).
+// Accuracy (release f64 build, vectors/kepler-parabolic.csv: 1,000 cases, 70-digit references; `areal check -v`,
+// 2026-12): at most 1 ulp (worst seen: M = 3.022314549036573e+23, got 96787730.26781829, want 96787730.2678183).
 
 import { OK, ERR_NONFINITE } from "./status";
 import { put } from "./io";

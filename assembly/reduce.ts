@@ -1,7 +1,9 @@
-// Exact reduction of an angle by whole turns: m = x - 2 pi k, k = nearest(x / 2 pi), |m| <= pi (up to a
-// rounding of the quotient). 2 pi is carried as three reals (about 160 bits for f64) and every product
-// k * part is formed exactly (Dekker's two-product with Veltkamp's split, no fused multiply-add needed),
-// so the remainder is a double-real (hi + lo) good to about 2^-100 absolute for |x| < 2^53.
+// Reduction of an angle by whole turns: m = x - 2 pi k, k = nearest(x / 2 pi), |m| <= pi (up to a rounding of
+// the quotient). 2 pi is carried as three reals (real.ts) and every product k * part is formed exactly
+// (Dekker's two-product with Veltkamp's split, exact.ts; no fused multiply-add needed), so the remainder is a
+// double-real (hi + lo) whose error is k times the error of the three-part 2 pi: k 8.9e-33 absolute with the f64
+// parts as committed (below 1.3e-17 for |x| < 2^53; see the known defect of TWO_PI_3 in real.ts), about
+// k 4e-23 with the f32 parts.
 // Source: T. J. Dekker, "A floating-point technique for extending the available precision",
 // Numer. Math. 18 (1971); W. J. Cody and W. Waite, "Software Manual for the Elementary Functions" (1980)
 // for the split-constant idea. Valid for |x| < INTEGER_LIMIT (2^53, 2^24 for f32); callers treat larger

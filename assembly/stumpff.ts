@@ -20,6 +20,9 @@
 //     whereas c2 formed from cosh would overflow at x = 710.5 with a true value near 1e300.
 //  psi NaN gives NaN (callers check their inputs). Relative accuracy on every branch: a few ulp; the
 //  conditioning of c_k in psi (|psi c_k'/c_k|, large near the zeros of c0, c1, c2 at psi > 0) comes on top.
+//  Not measured on its own (no export): measured through propagate (universal.ts) and the ends of the range in
+//  tests/twobody-conservation.test.ts.
+// Iteration cap: none (fixed 13-term Horner sums, no loop).
 
 import { IS_F32 } from "./real";
 import { F2, F3, F4, F5, F6, F7, F8, F9, F10, F11, F12, F13, F14, F15, F16, F17, F18, F19, F20, F21, F22, F23, F24, F25, F26, F27 } from "./factorials";
