@@ -124,7 +124,7 @@ function runJob(job, runs, seed, hangMs) {
 }
 
 /**
- * The very large input of issue 8: a CSV of `mb` megabytes through `areal eval kepler-elliptic`, streamed;
+ * The very large input: a CSV of `mb` megabytes through `areal eval kepler-elliptic`, streamed;
  * reports the child's peak resident memory (getrusage maxRSS, printed by the child at exit) and checks the
  * output has one row per input row. Skipped, with a line saying so, while eval does not stream.
  */

@@ -6,7 +6,7 @@ import { fileURLToPath, pathToFileURL } from "node:url";
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const dist = (p) => import(pathToFileURL(join(root, "dist", "harness", p)).href);
 const { SPECS } = await dist("verify/specs/index.js");
-const { traceSuite } = await dist("verify/compare.js");
+const { traceSuite } = await dist("verify/compare-builds.js");
 const { loadBuild } = await dist("module/load.js");
 const { writeGolden } = await dist("verify/golden.js");
 const { vectorPath } = await dist("verify/vectors.js");

@@ -12,9 +12,12 @@ import { ROOT, BUILD_FILES } from "../harness/core/paths.js";
 import { ABI_TABLE } from "../harness/module/abi-table.js";
 import { readSignatures } from "../harness/module/signatures.js";
 import { ROUTINES, slotsOf } from "../harness/module/routines.js";
+import { noteSkip } from "./support/skips.js";
 
 const GEN = join(ROOT, "scripts", "gen-abi.mjs");
 const has = (cmd: string): boolean => spawnSync("sh", ["-c", `command -v ${cmd}`]).status === 0;
+if (!has("gcc")) noteSkip("C header, native (tests/abi-generated)", "no gcc on PATH", "apt-get install gcc");
+if (!has("clang")) noteSkip("C header, wasm32 (tests/abi-generated)", "no clang on PATH", "apt-get install clang lld");
 
 describe("files generated from the ABI table", () => {
   it("are current (npm run abi writes them)", () => {
@@ -56,7 +59,8 @@ describe("the built module against the table", () => {
 
   it("names each slot once and the routines follow the table", () => {
     for (const x of ABI_TABLE.exports) expect(new Set(x.outputs.map((o) => o.name)).size).toBe(x.outputs.length);
-    expect(slotsOf("integrate").t).toBe(15); // the layout documented in docs/abi.md
+    expect(slotsOf("integrate", "t").t).toBe(15);
+    expect(() => slotsOf("integrate", "nope")).toThrow(/no output nope/); // the layout documented in docs/abi.md
     expect(ROUTINES.map((r) => r.exportName)).toEqual(ABI_TABLE.exports.filter((x) => x.routine).map((x) => x.name));
   });
 });

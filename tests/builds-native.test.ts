@@ -12,7 +12,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { ROOT } from "../harness/core/paths.js";
 import { SPECS } from "../harness/verify/specs/index.js";
-import { compareBuilds, type CompareBuild } from "../harness/verify/compare.js";
+import { compareBuilds, type CompareBuild } from "../harness/verify/compare-builds.js";
 import { nativeUnavailable, closeNative, NATIVE_EXE } from "../harness/module/builds.js";
 import { readVectors, vectorPath } from "../harness/verify/vectors.js";
 import { evaluateCsv } from "../harness/run/evaluate.js";
@@ -20,6 +20,7 @@ import { findRoutine } from "../harness/module/routines.js";
 import { loadBuild } from "../harness/module/load.js";
 import { formatCsv } from "../harness/core/csv.js";
 import { nativeToolchainMissing, REQUIRE_NATIVE } from "./builds-helpers.js";
+import { noteSkip } from "./support/skips.js";
 
 const run = promisify(execFile);
 
@@ -35,7 +36,7 @@ function prepareNative(): string | undefined {
 let nativeWhy: string | undefined;
 beforeAll(() => {
   // The forced-tier runs load the compiled harness (dist/, made by `npm run build`) in child processes.
-  if (!existsSync(join(ROOT, "dist", "harness", "verify", "compare.js"))) try {
+  if (!existsSync(join(ROOT, "dist", "harness", "verify", "compare-builds.js"))) try {
     execFileSync(process.execPath, [join(ROOT, "node_modules", "typescript", "bin", "tsc"), "-p", "tsconfig.json"], { cwd: ROOT, stdio: "pipe" });
   } catch {
     // type errors elsewhere in the tree still emit JavaScript; the runs below fail loudly if it is missing
@@ -44,6 +45,7 @@ beforeAll(() => {
   if (nativeWhy) {
     if (REQUIRE_NATIVE) throw new Error(`AREAL_REQUIRE_NATIVE=1 but the native build cannot run: ${nativeWhy}`);
     process.stderr.write(`builds-native: native build skipped: ${nativeWhy}\n`);
+    noteSkip("native build (tests/builds-native)", nativeWhy, "apt-get install wabt gcc, then npm run build:native");
   }
   return () => closeNative();
 });

@@ -7,6 +7,12 @@ import { release, mutant } from "./helpers.js";
 import { runSuite } from "../harness/verify/check.js";
 import { findSpec } from "../harness/verify/specs/index.js";
 import { fromBits, toBits } from "../harness/core/float.js";
+import { slotsOf } from "../harness/module/routines.js";
+
+const KE = slotsOf("kepler_elliptic", "E");
+const KH = slotsOf("kepler_hyperbolic", "iterations");
+const AT = slotsOf("anomaly_to_true", "nu");
+const TOF = slotsOf("time_of_flight", "tof");
 
 const bumpUlps = (x: number, n: number): number => fromBits(toBits(x) + BigInt(n));
 
@@ -23,7 +29,7 @@ describe("the checks catch wrong builds", () => {
 
   it("5 ulp off, only in the corner (e >= 0.99, tiny |M|): kepler-elliptic fails and names a corner case", () => {
     const m = mutant(release(), (name, [e, M], out, st) => {
-      if (name === "kepler_elliptic" && e! >= 0.99 && Math.abs(M!) < 0.0045 && M !== 0) out[0] = bumpUlps(out[0]!, 5);
+      if (name === "kepler_elliptic" && e! >= 0.99 && Math.abs(M!) < 0.0045 && M !== 0) out[KE.E] = bumpUlps(out[KE.E]!, 5);
       return st;
     });
     const r = runSuite(spec("kepler-elliptic"), m);
@@ -34,7 +40,7 @@ describe("the checks catch wrong builds", () => {
 
   it("one iteration too many: the iteration limit fails", () => {
     const m = mutant(release(), (name, _a, out, st) => {
-      if (name === "kepler_hyperbolic") out[1] = 5;
+      if (name === "kepler_hyperbolic") out[KH.iterations] = 5;
       return st;
     });
     const r = runSuite(spec("kepler-hyperbolic"), m);
@@ -52,7 +58,7 @@ describe("the checks catch wrong builds", () => {
 
   it("a NaN output with ok fails", () => {
     const m = mutant(release(), (name, _a, out, st) => {
-      if (name === "anomaly_to_true") out[0] = NaN;
+      if (name === "anomaly_to_true") out[AT.nu] = NaN;
       return st;
     });
     expect(runSuite(spec("anomaly-to-true"), m).pass).toBe(false);
@@ -60,7 +66,7 @@ describe("the checks catch wrong builds", () => {
 
   it("a relative error of 1e-11 in the time of flight fails", () => {
     const m = mutant(release(), (name, _a, out, st) => {
-      if (name === "time_of_flight") out[0] = out[0]! * (1 + 1e-11);
+      if (name === "time_of_flight") out[TOF.tof] = out[TOF.tof]! * (1 + 1e-11);
       return st;
     });
     expect(runSuite(spec("time-of-flight"), m).pass).toBe(false);
@@ -75,7 +81,7 @@ describe("the checks catch wrong builds", () => {
         E -= d;
         if (Math.abs(d) < 1e-10) break;
       }
-      out[0] = E;
+      out[KE.E] = E;
       return st;
     });
     const r = runSuite(spec("kepler-elliptic"), m);

@@ -86,6 +86,12 @@ describe("areal eval", () => {
     expect(r.out).toBe("e,M,E,iterations,status\n");
   });
 
+  it("a typo in a routine, a command or a value gets a suggestion (did you mean)", () => {
+    expect(areal("eval", "kepler-eliptic", "-i", "x.csv").err).toMatch(/unknown routine 'kepler-eliptic' \(did you mean 'kepler-elliptic'\?\)/);
+    expect(areal("evl").err).toMatch(/unknown command 'evl' \(did you mean 'eval'\?\)/);
+    expect(areal("check", "--build", "f46").err).toMatch(/--build: 'f46' is not one of .*did you mean 'f64'/);
+  });
+
   it("bad option values name the flag", () => {
     expect(areal("eval", "kepler-elliptic", "-i", file("y.csv", "e,M\n0,1\n"), "--build", "f16").err).toMatch(/--build: 'f16' is not one of/);
     expect(areal("eval", "kepler-elliptic", "--bogus").err).toMatch(/bogus/);

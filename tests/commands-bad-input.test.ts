@@ -13,7 +13,7 @@ import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { arealIn } from "./helpers.js";
 
-const SCENARIO = fileURLToPath(new URL("../examples/scenarios/kestrel-survey.json", import.meta.url));
+const SCENARIO = fileURLToPath(new URL("../examples/plans/marrowfield-survey.json", import.meta.url));
 let dir: string;
 const table: string[] = [];
 
@@ -253,31 +253,31 @@ describe("areal compare (two result files)", () => {
   });
 });
 
-describe("areal propagate", () => {
-  it("empty scenario", () => {
+describe("areal trajectory", () => {
+  it("empty plan", () => {
     const csv = join(dir, "p1.csv");
-    bad("propagate", "empty scenario file", ["propagate", "-s", file("empty.json", ""), "--csv", csv, "--oem", `${csv}.oem`], /empty\.json: not valid JSON/, [csv, `${csv}.oem`]);
+    bad("trajectory", "empty plan file", ["trajectory", "-p", file("empty.json", ""), "--csv", csv, "--oem", `${csv}.oem`], /empty\.json: not valid JSON/, [csv, `${csv}.oem`]);
   });
 
-  it("scenario with a missing field", () => {
+  it("plan with a missing field", () => {
     const csv = join(dir, "p2.csv");
     const sc = JSON.parse(readFileSync(SCENARIO, "utf8")) as Record<string, unknown>;
     delete sc.mu;
-    bad("propagate", "scenario without mu", ["propagate", "-s", file("nomu.json", JSON.stringify(sc)), "--csv", csv, "--oem", `${csv}.oem`], /field 'mu'/, [csv, `${csv}.oem`]);
+    bad("trajectory", "plan without mu", ["trajectory", "-p", file("nomu.json", JSON.stringify(sc)), "--csv", csv, "--oem", `${csv}.oem`], /field 'mu'/, [csv, `${csv}.oem`]);
   });
 
-  it("scenario with a non-numeric value", () => {
+  it("plan with a non-numeric value", () => {
     const csv = join(dir, "p3.csv");
     const sc = JSON.parse(readFileSync(SCENARIO, "utf8")) as Record<string, unknown>;
     sc.mu = "398600.4418";
-    bad("propagate", "scenario mu as text", ["propagate", "-s", file("textmu.json", JSON.stringify(sc)), "--csv", csv, "--oem", `${csv}.oem`], /field 'mu' must be a finite number/, [csv, `${csv}.oem`]);
+    bad("trajectory", "plan mu as text", ["trajectory", "-p", file("textmu.json", JSON.stringify(sc)), "--csv", csv, "--oem", `${csv}.oem`], /field 'mu' must be a finite number/, [csv, `${csv}.oem`]);
   });
 
-  it("scenario with CRLF line ends: accepted", () => {
+  it("plan with CRLF line ends: accepted", () => {
     const csv = join(dir, "p4.csv");
     const crlf = file("crlf.json", readFileSync(SCENARIO, "utf8").replace(/\n/g, "\r\n"));
-    const r = areal("propagate", "-s", crlf, "--csv", csv, "--oem", `${csv}.oem`);
-    table.push(`| propagate | scenario with CRLF line ends | ${r.code} | (accepted) trajectory and OEM written |`);
+    const r = areal("trajectory", "-p", crlf, "--csv", csv, "--oem", `${csv}.oem`);
+    table.push(`| trajectory | plan with CRLF line ends | ${r.code} | (accepted) trajectory and OEM written |`);
     expect([0, 1]).toContain(r.code); // 1 only if a budget of the scenario breaks, which is not about the input
     expect(existsSync(csv)).toBe(true);
   });
@@ -285,19 +285,19 @@ describe("areal propagate", () => {
   it("unwritable trajectory path", () => {
     const csv = unwritable("traj.csv");
     const oem = join(dir, "traj.oem");
-    bad("propagate", "unwritable --csv", ["propagate", "-s", SCENARIO, "--csv", csv, "--oem", oem], /traj\.csv.*(ENOTDIR|EEXIST)|(ENOTDIR|EEXIST).*traj\.csv/, [csv, oem]);
+    bad("trajectory", "unwritable --csv", ["trajectory", "-p", SCENARIO, "--csv", csv, "--oem", oem], /traj\.csv.*(ENOTDIR|EEXIST)|(ENOTDIR|EEXIST).*traj\.csv/, [csv, oem]);
   });
 
   it("module that is not WebAssembly", () => {
     const csv = join(dir, "p5.csv");
-    bad("propagate", "--module is a text file", ["propagate", "-s", SCENARIO, "--module", file("notwasm3.wasm", "hello"), "--csv", csv, "--oem", `${csv}.oem`], /not a WebAssembly module/, [csv, `${csv}.oem`]);
+    bad("trajectory", "--module is a text file", ["trajectory", "-p", SCENARIO, "--module", file("notwasm3.wasm", "hello"), "--csv", csv, "--oem", `${csv}.oem`], /not a WebAssembly module/, [csv, `${csv}.oem`]);
   });
 
   it("module that traps", () => {
     const csv = join(dir, "p6.csv");
     // integrate_begin(mu, r0 (3), v0 (3), step, method: i32, j2, j3, radius, 4 budgets), integrate_step(n: i32)
     const m = file("trap3.wasm", trappingModule("integrate_begin", 16, [8], [["integrate_step", 1, [0]]]));
-    bad("propagate", "--module whose kernel traps", ["propagate", "-s", SCENARIO, "--module", m, "--csv", csv, "--oem", `${csv}.oem`], /module trapped/, [csv, `${csv}.oem`]);
+    bad("trajectory", "--module whose kernel traps", ["trajectory", "-p", SCENARIO, "--module", m, "--csv", csv, "--oem", `${csv}.oem`], /module trapped/, [csv, `${csv}.oem`]);
   });
 });
 

@@ -1,7 +1,6 @@
 /** The exact-float helpers every comparison depends on, against facts of IEEE 754 binary64 (common practice). */
 import { describe, it, expect } from "vitest";
-import { ulpDistance, ulpDistance32, exactHex, toBitsHex, fromBitsHex, parseNumber, shortest, sameBits, ulpOf } from "../harness/core/float.js";
-import { Decimal } from "decimal.js";
+import { ulpDistance, ulpDistance32, exactHex, toBits, toBitsHex, fromBitsHex, parseNumber, shortest, sameBits, ulpOf } from "../harness/core/float.js";
 import { exact, decimalAt, toDouble } from "../harness/verify/reference/decimal.js";
 
 describe("float helpers", () => {
@@ -17,11 +16,23 @@ describe("float helpers", () => {
     expect(ulpDistance32(1, 1 + 2 ** -23)).toBe(1);
   });
 
-  it("exactHex gives the exact value (decimal.js parses it without rounding)", () => {
-    const D = Decimal.clone({ precision: 80 });
-    expect(new D(exactHex(0.1)).toFixed(60)).toBe("0.100000000000000005551115123125782702118158340454101562500000");
-    expect(new D(exactHex(5e-324)).toExponential(5)).toBe("4.94066e-324");
+  it("exactHex gives the C hex-float literal of a double", () => {
     expect(exactHex(-1.5)).toBe("-0x1.8000000000000p0");
+    expect(exactHex(0.1)).toBe("0x1.999999999999ap-4");
+  });
+
+  it("the one exact conversion: the fuzz properties' old hex path was off for M = 8.564242880876716e-8, exact() is not", () => {
+    // M is the worst case named in assembly/kepler_elliptic.ts. Through decimal.js's hex parser it read 8.4e-17
+    // relative off; exact() reproduces the double's integer significand times 2^-76 to the last digit.
+    const D = decimalAt(60);
+    const M = 8.564242880876716e-8;
+    const sig = Number(toBits(M) & ((1n << 52n) - 1n)) + 2 ** 52;
+    const e = Number((toBits(M) >> 52n) & 0x7ffn) - 1075;
+    const back = exact(D, M).times(new D(2).pow(-e));
+    expect(back.toFixed(0)).toBe(String(sig));
+    expect(back.minus(sig).abs().toNumber()).toBeLessThan(1e-40);
+    const viaHex = new D(exactHex(M));
+    expect(viaHex.minus(exact(D, M)).abs().div(exact(D, M)).toNumber()).toBeGreaterThan(1e-17); // the drift this replaced
   });
 
   it("the references read every double exactly, including exponents where decimal.js's hex parser is off", () => {
@@ -47,6 +58,11 @@ describe("float helpers", () => {
     expect(parseNumber("")).toBeUndefined();
     expect(parseNumber("abc")).toBeUndefined();
     expect(ulpOf(1)).toBe(2 ** -52);
+    expect(ulpOf(-1.5)).toBe(2 ** -52);
+    expect(ulpOf(Number.MAX_VALUE)).toBe(2 ** 971);
+    expect(ulpOf(0)).toBe(5e-324);
+    expect(ulpOf(2 ** -1022)).toBe(5e-324);
+    expect(ulpOf(Infinity)).toBeNaN();
     expect(sameBits(0, -0)).toBe(false);
   });
 });

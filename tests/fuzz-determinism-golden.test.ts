@@ -8,11 +8,12 @@ import { describe, it, expect } from "vitest";
 import { existsSync } from "node:fs";
 import { SPECS } from "../harness/verify/specs/index.js";
 import { readVectors, vectorPath } from "../harness/verify/vectors.js";
-import { traceSuite, tracesInChild, type Trace } from "../harness/verify/compare.js";
+import { traceSuite, tracesInChild, type Trace } from "../harness/verify/compare-builds.js";
 import { goldenDifferences, goldenPath } from "../harness/verify/golden.js";
 import { nativeUnavailable, loadNative, closeNative } from "../harness/module/builds.js";
 import { release } from "./helpers.js";
 import { toBits, fromBits } from "../harness/core/float.js";
+import { noteSkip } from "./support/skips.js";
 
 const specs = SPECS.filter((s) => existsSync(vectorPath(s.suite)));
 const vectors = new Map(specs.map((s) => [s.suite, readVectors(vectorPath(s.suite))]));
@@ -44,7 +45,7 @@ describe("determinism golden files", () => {
   it("native build (wasm2c): the golden bits, when it is built", (ctx) => {
     const why = nativeUnavailable();
     if (why) {
-      process.stdout.write(`native build not compared: ${why}\n`);
+      noteSkip("native golden bits (tests/fuzz-determinism-golden)", why, "apt-get install wabt gcc, then npm run build:native");
       ctx.skip();
       return;
     }

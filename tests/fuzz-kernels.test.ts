@@ -12,6 +12,10 @@ import { loadBuild, type Kernels } from "../harness/module/load.js";
 import { fuzzTargets, fuzzTarget, targetsFromSignatures, Caller, PropertyError, KNOWN_DEFECTS, checkCase, PROPERTIES, type FuzzTarget } from "./support/fuzz-props.js";
 import { ROUTINES } from "../harness/module/routines.js";
 import { readSignatures } from "../harness/module/signatures.js";
+import { slotsOf } from "../harness/module/routines.js";
+
+/** Output slots of kepler_elliptic, from the ABI table. */
+const KE = slotsOf("kepler_elliptic", "E", "iterations");
 
 /** Fixed seed: the same cases on every run (the long run takes another seed each time it is asked to). */
 const SEED = 20261202;
@@ -86,8 +90,8 @@ const KEPLER: FuzzTarget = { exportName: "kepler_elliptic", params: [{ name: "e"
 describe("the properties can fail (mutants)", () => {
   it("a success with a NaN output is caught", () => {
     const k = fakeModule((_e, _M, out) => {
-      out[0] = NaN;
-      out[1] = 0;
+      out[KE.E] = NaN;
+      out[KE.iterations] = 0;
       return 0;
     });
     expect(() => new Caller(k).call(KEPLER, [0.5, 1])).toThrow(PropertyError);
@@ -110,8 +114,8 @@ describe("the properties can fail (mutants)", () => {
     const off = fakeModule((e, M, out) => {
       if (!Number.isFinite(e) || !Number.isFinite(M)) return 16;
       if (!(e >= 0 && e < 0.9)) return 17;
-      out[0] = solve(e, M) + 1e-9;
-      out[1] = 1;
+      out[KE.E] = solve(e, M) + 1e-9;
+      out[KE.iterations] = 1;
       return 0;
     });
     const r = fuzzTarget(off, [KEPLER], "kepler_elliptic", { numRuns: 200, seed: SEED, math: true });
@@ -120,8 +124,8 @@ describe("the properties can fail (mutants)", () => {
     expect(r.failure).toMatch(/ulp from the root|farther than e from M/);
     let n = 0;
     const flaky = fakeModule((_e, M, out) => {
-      out[0] = M + (n++ % 2) * 1e-12;
-      out[1] = 0;
+      out[KE.E] = M + (n++ % 2) * 1e-12;
+      out[KE.iterations] = 0;
       return 0;
     });
     expect(fuzzTarget(flaky, [KEPLER], "kepler_elliptic", { numRuns: 50, seed: SEED, math: false }).failure).toMatch(/on the same inputs/);

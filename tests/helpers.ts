@@ -2,6 +2,7 @@
 import { spawnSync } from "node:child_process";
 import { fileURLToPath } from "node:url";
 import { loadBuild, type Kernels } from "../harness/module/load.js";
+import { abiExport, slotsOf } from "../harness/module/routines.js";
 
 /** The `areal` entry point a user runs. */
 export const BIN = fileURLToPath(new URL("../bin/areal.mjs", import.meta.url));
@@ -46,10 +47,24 @@ export function single(): Kernels {
   return f32;
 }
 
-/** Call a kernel and return [status, slot0, slot1, ...] (a copy of the first n slots). */
-export function run(k: Kernels, name: string, args: readonly number[], n = 4): [number, ...number[]] {
+/**
+ * Call a kernel and return [status, ...its outputs in the ABI table's slot order] (a copy; only the `first`
+ * ones when given, for a state to pass on to another kernel). Tests read the
+ * region through this, `outs` or `slotsOf` (harness/module/routines.ts): never by a bare slot number.
+ */
+export function run(k: Kernels, name: string, args: readonly number[], first?: number): [number, ...number[]] {
   const st = k.call(name, args);
-  return [st, ...Array.from(k.out.slice(0, n))];
+  return [st, ...Array.from(k.out.slice(0, first ?? abiExport(name).outputs.length))];
 }
+
+/** The named outputs of the last call of `name`, in the order asked. */
+export function outs(k: Kernels, name: string, ...names: string[]): number[] {
+  const s = slotsOf(name, ...names);
+  return names.map((n) => k.out[s[n]!]!);
+}
+
+/** Position, velocity and the like: the names of a three-vector output. */
+export const R = ["rx", "ry", "rz"] as const;
+export const V = ["vx", "vy", "vz"] as const;
 
 export const DEG = Math.PI / 180;

@@ -1,4 +1,35 @@
 /** Helpers shared by tests/integrate-*.test.ts: plain-double element conversions used to make inputs and read results. */
+import { ABI_TABLE } from "../harness/module/abi-table.js";
+import { enumValue } from "../harness/module/routines.js";
+import type { Kernels } from "../harness/module/load.js";
+
+/** The integrators by name, from the ABI table's method enumeration. */
+export const METHODS = {
+  rk4: enumValue("method", "rk4"),
+  verlet: enumValue("method", "verlet"),
+  yoshida4: enumValue("method", "yoshida4"),
+  butcher6: enumValue("method", "butcher6"),
+} as const;
+export type Method = keyof typeof METHODS;
+
+/** Every slot of the integration calls by name (the ABI table's integration layout). */
+export const S: Readonly<Record<string, number>> = Object.fromEntries(
+  ABI_TABLE.exports.find((x) => x.name === "integrate_step")!.outputs.map((o, i) => [o.name, i]),
+);
+/** Slot of a named integration output (throws for a name the layout does not have). */
+export function slot(name: string): number {
+  const i = S[name];
+  if (i === undefined) throw new Error(`the integration layout has no slot ${name}`);
+  return i;
+}
+/** Named integration outputs of the last call, in the order asked. */
+export function read(k: Kernels, ...names: string[]): number[] {
+  return names.map((n) => k.out[slot(n)]!);
+}
+export const POS = ["rx", "ry", "rz"];
+export const VEL = ["vx", "vy", "vz"];
+export const STATE = [...POS, ...VEL];
+export const FIRSTS = ["energy_step", "h_step", "ecc_step", "areal_step"];
 
 export type Vec = [number, number, number];
 

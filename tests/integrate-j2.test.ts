@@ -13,15 +13,13 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, DEG } from "./helpers.js";
-import { stateFromElements, elementsOf, unwrap, slope, type Vec } from "./integrate-helpers.js";
+import { stateFromElements, elementsOf, unwrap, slope, METHODS, slot, read, POS, VEL, type Vec, type Method } from "./integrate-helpers.js";
 import type { Kernels } from "../harness/module/load.js";
 
 const MU = 398600.4418;
 const RE = 6378.137;
 const J2 = 1.0826266836e-3;
 const DAY = 86400;
-const METHODS = { rk4: 0, verlet: 1, yoshida4: 2, butcher6: 3 } as const;
-type Method = keyof typeof METHODS;
 
 function rates(a: number, e: number, inc: number): { raan: number; argp: number } {
   const n = Math.sqrt(MU / a ** 3);
@@ -46,7 +44,7 @@ function runJ2(k: Kernels, r0: Vec, v0: Vec, method: Method, step: number, days:
   const N = Math.round((days * DAY) / step);
   expect(k.call("integrate_begin", [MU, ...r0, ...v0, step, METHODS[method], J2, 0, RE, 0, 0, 0, 0])).toBe(0);
   const out = k.out;
-  const e0 = out[16]!;
+  const e0 = out[slot("energy")]!;
   const energyJ2 = (r: Vec, v: Vec): number => {
     const rm = Math.hypot(...r);
     const s = r[2] / rm;
@@ -63,20 +61,20 @@ function runJ2(k: Kernels, r0: Vec, v0: Vec, method: Method, step: number, days:
   const step1 = k.exports.integrate_step as (n: number) => number;
   for (let i = 0; i <= N; i += every) {
     if (i > 0) expect(step1(every)).toBe(0);
-    const r: Vec = [out[0]!, out[1]!, out[2]!];
-    const v: Vec = [out[3]!, out[4]!, out[5]!];
+    const r = read(k, ...POS) as Vec;
+    const v = read(k, ...VEL) as Vec;
     const el = elementsOf(MU, r, v);
-    t.push(out[15]!);
+    t.push(out[slot("t")]!);
     raan.push(el.raan);
     argp.push(el.argp);
-    agree = Math.max(agree, Math.abs(out[16]! - energyJ2(r, v)) / Math.abs(e0));
+    agree = Math.max(agree, Math.abs(out[slot("energy")]! - energyJ2(r, v)) / Math.abs(e0));
     pmDev = Math.max(pmDev, Math.abs(energyPm(r, v) - epm0) / Math.abs(e0));
   }
   return {
     raan: slope(t, unwrap(raan)),
     argp: slope(t, unwrap(argp)),
-    energyDev: out[6]!,
-    hzDev: out[7]!,
+    energyDev: out[slot("energy_dev")]!,
+    hzDev: out[slot("h_dev")]!,
     pointMassEnergyDev: pmDev,
     energyAgreement: agree,
   };

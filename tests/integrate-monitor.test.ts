@@ -13,14 +13,20 @@ import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { release, single, run, DEG } from "./helpers.js";
 import { instantiate, type Kernels } from "../harness/module/load.js";
-import { stateFromElements, type Vec } from "./integrate-helpers.js";
+import { stateFromElements, METHODS, S, slot, read, STATE, FIRSTS, type Vec } from "./integrate-helpers.js";
 
 const MU = 398600.4418;
 const A = 7200;
 const [R0, V0] = stateFromElements(MU, A, 0.1, 28.5 * DEG, 40 * DEG, 75 * DEG, 0);
 const STEP = 10; // s, about 600 steps an orbit
-const YOSHIDA4 = 2;
-const VERLET = 1;
+const YOSHIDA4 = METHODS.yoshida4;
+const VERLET = METHODS.verlet;
+/** The slots of the integration layout, all of them (the monitor test reads every one). */
+const NSLOTS = Object.keys(S).length;
+const DEVS_NOW = ["energy_dev_now", "h_dev_now", "ecc_dev_now", "areal_dev_now"].map(slot);
+const DEVS_MAX = ["energy_dev", "h_dev", "ecc_dev", "areal_dev"].map(slot);
+const HV = ["hx", "hy", "hz"].map(slot);
+const EV = ["ex", "ey", "ez"].map(slot);
 
 interface StepInv {
   energy: number;
@@ -46,8 +52,9 @@ function trace(k: Kernels, method: number, steps: number, budgets: [number, numb
   const rows: { kernel: number[]; dev: [number, number, number, number]; inv: StepInv }[] = [];
   for (let s = 1; s <= steps; s++) {
     expect(k.call("integrate_step", [1])).toBe(0);
-    const o = Array.from(k.out.slice(0, 28));
-    const inv = invariantsOf([o[0]!, o[1]!, o[2]!], [o[3]!, o[4]!, o[5]!]);
+    const o = Array.from(k.out.slice(0, NSLOTS));
+    const [x, y, z, vx, vy, vz] = read(k, ...STATE) as [number, number, number, number, number, number];
+    const inv = invariantsOf([x, y, z], [vx, vy, vz]);
     const dE = Math.abs(inv.energy - i0.energy) / Math.abs(i0.energy);
     const dH = Math.hypot(...inv.h.map((x, i) => x - i0.h[i]!)) / h0;
     const dC = Math.hypot(...inv.ecc.map((x, i) => x - i0.ecc[i]!));
@@ -68,19 +75,19 @@ describe("the monitor's invariants agree with those recomputed from the state of
     const rows = trace(release(), YOSHIDA4, 2000, [0, 0, 0, 0]);
     const running = [0, 0, 0, 0];
     for (const { kernel: o, dev, inv } of rows) {
-      expect(Math.abs(o[16]! - inv.energy) / Math.abs(inv.energy)).toBeLessThan(1e-15);
+      expect(Math.abs(o[slot("energy")]! - inv.energy) / Math.abs(inv.energy)).toBeLessThan(1e-15);
       for (let i = 0; i < 3; i++) {
-        expect(Math.abs(o[17 + i]! - inv.h[i]!)).toBeLessThan(1e-15 * Math.hypot(...inv.h));
-        expect(Math.abs(o[20 + i]! - inv.ecc[i]!)).toBeLessThan(1e-14);
+        expect(Math.abs(o[HV[i]!]! - inv.h[i]!)).toBeLessThan(1e-15 * Math.hypot(...inv.h));
+        expect(Math.abs(o[EV[i]!]! - inv.ecc[i]!)).toBeLessThan(1e-14);
       }
-      expect(Math.abs(o[23]! - inv.areal) / inv.areal).toBeLessThan(1e-15);
+      expect(Math.abs(o[slot("areal_velocity")]! - inv.areal) / inv.areal).toBeLessThan(1e-15);
       // The deviations are differences of nearly equal numbers: compare at the scale of their inputs.
-      expect(Math.abs(o[24]! - dev[0])).toBeLessThan(1e-15);
-      expect(Math.abs(o[25]! - dev[1])).toBeLessThan(1e-15);
-      expect(Math.abs(o[26]! - dev[2])).toBeLessThan(1e-14);
-      expect(Math.abs(o[27]! - dev[3])).toBeLessThan(1e-15);
-      for (let i = 0; i < 4; i++) running[i] = Math.max(running[i]!, o[24 + i]!);
-      expect(o.slice(6, 10)).toEqual(running); // the running maximum is over every step, not a sample
+      expect(Math.abs(o[DEVS_NOW[0]!]! - dev[0])).toBeLessThan(1e-15);
+      expect(Math.abs(o[DEVS_NOW[1]!]! - dev[1])).toBeLessThan(1e-15);
+      expect(Math.abs(o[DEVS_NOW[2]!]! - dev[2])).toBeLessThan(1e-14);
+      expect(Math.abs(o[DEVS_NOW[3]!]! - dev[3])).toBeLessThan(1e-15);
+      for (let i = 0; i < 4; i++) running[i] = Math.max(running[i]!, o[DEVS_NOW[i]!]!);
+      expect(DEVS_MAX.map((j) => o[j])).toEqual(running); // the running maximum is over every step, not a sample
     }
   });
 
@@ -94,10 +101,10 @@ describe("the monitor's invariants agree with those recomputed from the state of
     const bC = median(devC);
     const again = trace(release(), VERLET, 3000, [bE, 0, bC, 0]);
     const last = again[again.length - 1]!.kernel;
-    expect(last[10]).toBe(firstOver(devE, bE));
-    expect(last[12]).toBe(firstOver(devC, bC));
-    expect(last[10]).toBeGreaterThan(1);
-    expect(last[11]).toBe(-1); // no h budget
+    expect(last[slot("energy_step")]).toBe(firstOver(devE, bE));
+    expect(last[slot("ecc_step")]).toBe(firstOver(devC, bC));
+    expect(last[slot("energy_step")]).toBeGreaterThan(1);
+    expect(last[slot("h_step")]).toBe(-1); // no h budget
   });
 });
 
@@ -142,16 +149,13 @@ describe("mutant integrators are caught at the right step", () => {
     const budgets: [number, number, number, number] = [1e-8, 1e-10, 1e-6, 1e-10]; // the good run stays below all four
     const good = release();
     expect(good.call("integrate", [MU, ...R0, ...V0, STEP, 2000, YOSHIDA4, 0, 0, 1, ...budgets])).toBe(0);
-    expect(Array.from(good.out.slice(10, 14))).toEqual([-1, -1, -1, -1]);
+    expect(read(good, ...FIRSTS)).toEqual([-1, -1, -1, -1]);
     expect(kick.call("integrate", [MU, ...R0, ...V0, STEP, 2000, YOSHIDA4, 0, 0, 1, ...budgets])).toBe(0);
-    expect(kick.out[10]).toBe(KICK_STEP);
-    expect(kick.out[11]).toBe(KICK_STEP);
-    expect(kick.out[12]).toBe(KICK_STEP);
-    expect(kick.out[13]).toBe(KICK_STEP);
+    expect(read(kick, ...FIRSTS)).toEqual([KICK_STEP, KICK_STEP, KICK_STEP, KICK_STEP]);
     // Before the fault the mutant is the good build, bit for bit.
     expect(kick.call("integrate", [MU, ...R0, ...V0, STEP, KICK_STEP - 1, YOSHIDA4, 0, 0, 1, ...budgets])).toBe(0);
     expect(good.call("integrate", [MU, ...R0, ...V0, STEP, KICK_STEP - 1, YOSHIDA4, 0, 0, 1, ...budgets])).toBe(0);
-    expect(Array.from(kick.out.slice(0, 6))).toEqual(Array.from(good.out.slice(0, 6)));
+    expect(read(kick, ...STATE)).toEqual(read(good, ...STATE));
   });
 
   it("a non-conservative (dragging) Verlet step: caught at the first step where the recomputed energy error exceeds the budget", () => {
@@ -165,14 +169,14 @@ describe("mutant integrators are caught at the right step", () => {
     expect(wantE).toBeGreaterThan(1);
     expect(wantH).toBeGreaterThan(1);
     expect(drag.call("integrate", [MU, ...R0, ...V0, STEP, 4000, VERLET, 0, 0, 1, budgetE, budgetH, 0, 0])).toBe(0);
-    expect(drag.out[10]).toBe(wantE);
-    expect(drag.out[11]).toBe(wantH);
+    expect(drag.out[slot("energy_step")]).toBe(wantE);
+    expect(drag.out[slot("h_step")]).toBe(wantH);
     console.log(`drag mutant: energy budget ${budgetE} broken at step ${wantE}, h budget ${budgetH} at step ${wantH}`);
     // The good build keeps h at round-off and the energy error bounded: no budget broken.
     const good = release();
     expect(good.call("integrate", [MU, ...R0, ...V0, STEP, 4000, VERLET, 0, 0, 1, budgetE, budgetH, 0, 0])).toBe(0);
-    expect(good.out[10]).toBe(-1);
-    expect(good.out[11]).toBe(-1);
+    expect(good.out[slot("energy_step")]).toBe(-1);
+    expect(good.out[slot("h_step")]).toBe(-1);
   });
 });
 
@@ -191,11 +195,11 @@ describe("integrate statuses", () => {
       expect(run(k(), "integrate", withArg(13, -1e-9))[0]).toBe(17); // budget
       expect(run(k(), "integrate", [MU, 0, 0, 0, ...V0, STEP, 10, YOSHIDA4, 0, 0, 1, 0, 0, 0, 0])[0]).toBe(19); // r0 = 0
       expect(run(k(), "integrate", [MU, 7000, 0, 0, 1, 0, 0, STEP, 10, YOSHIDA4, 0, 0, 1, 0, 0, 0, 0])[0]).toBe(19); // h0 = 0
-      // A run that overflows: ERR_OVERFLOW, slot 14 names the step; further steps return the same.
+      // A run that overflows: ERR_OVERFLOW, slot k names the step; further steps return the same.
       const [v, h] = k().realBytes === 8 ? [1e100, 1e250] : [1e10, 1e30];
-      const r = run(k(), "integrate", [MU, 1e3, 0, 0, v, v, 0, h, 10, VERLET, 0, 0, 1, 0, 0, 0, 0], 16);
+      const r = run(k(), "integrate", [MU, 1e3, 0, 0, v, v, 0, h, 10, VERLET, 0, 0, 1, 0, 0, 0, 0]);
       expect(r[0]).toBe(21);
-      expect(r[15]).toBe(1);
+      expect(r[1 + slot("k")]).toBe(1);
       expect(k().call("integrate_step", [1])).toBe(21);
     });
   }

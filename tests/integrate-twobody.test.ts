@@ -9,12 +9,10 @@ import { describe, it, expect } from "vitest";
 import { release, single, DEG } from "./helpers.js";
 import { decimalAt, exact, toDouble, type Dec } from "../harness/verify/reference/decimal.js";
 import type { Kernels } from "../harness/module/load.js";
-import { stateFromElements, type Vec } from "./integrate-helpers.js";
+import { stateFromElements, METHODS, slot, read, POS, VEL, STATE, type Vec, type Method } from "./integrate-helpers.js";
 import { referencePropagate } from "../harness/verify/reference/twobody.js";
 
 const MU = 398600.4418; // WGS 84 (NIMA TR8350.2)
-const METHODS = { rk4: 0, verlet: 1, yoshida4: 2, butcher6: 3 } as const;
-type Method = keyof typeof METHODS;
 const ORDER: Record<Method, number> = { rk4: 4, verlet: 2, yoshida4: 4, butcher6: 6 };
 
 /** Two-body state after time N * h (the product taken exactly), by Kepler's equation in Delta E; ellipses only. */
@@ -55,7 +53,7 @@ function keplerReference(mu: number, r0: Vec, v0: Vec, h: number, N: number): [V
 
 function run(k: Kernels, r0: Vec, v0: Vec, h: number, N: number, method: Method): [number, Vec, Vec] {
   const st = k.call("integrate", [MU, ...r0, ...v0, h, N, METHODS[method], 0, 0, 1, 0, 0, 0, 0]);
-  const o = Array.from(k.out.slice(0, 6));
+  const o = read(k, ...STATE);
   return [st, o.slice(0, 3) as Vec, o.slice(3, 6) as Vec];
 }
 
@@ -117,8 +115,8 @@ describe("two-body final state against the decimal Kepler reference", () => {
     const N = 800;
     const [, r, v] = run(k, R0, V0, SPAN / N, N, "butcher6");
     expect(k.call("propagate", [MU, ...R0, ...V0, (SPAN / N) * N])).toBeLessThan(16);
-    const ru = Array.from(k.out.slice(0, 3)) as Vec;
-    const vu = Array.from(k.out.slice(3, 6)) as Vec;
+    const ru = read(k, ...POS) as Vec;
+    const vu = read(k, ...VEL) as Vec;
     expect(dist(r, ru)).toBeLessThan(1e-6);
     expect(dist(v, vu)).toBeLessThan(1e-9);
   });
@@ -135,9 +133,9 @@ describe("determinism and the stepping interface", () => {
       expect(b).toEqual(a);
       expect(k.call("integrate_begin", [MU, ...R0, ...V0, h, METHODS[method], 0, 0, 1, 0, 0, 0, 0])).toBe(0);
       for (let i = 0; i < N; i++) expect(k.call("integrate_step", [1])).toBe(0);
-      expect(Array.from(k.out.slice(0, 6))).toEqual([...a[1], ...a[2]]);
-      expect(k.out[14]).toBe(N);
-      expect(k.out[15]).toBe(N * h);
+      expect(read(k, ...STATE)).toEqual([...a[1], ...a[2]]);
+      expect(k.out[slot("k")]).toBe(N);
+      expect(k.out[slot("t")]).toBe(N * h);
     }
   });
 

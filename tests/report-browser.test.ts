@@ -9,11 +9,12 @@ import { spawnSync } from "node:child_process";
 import { existsSync, mkdtempSync, readFileSync, writeFileSync, mkdirSync, statSync, copyFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { delimiter, join } from "node:path";
-import { writeReport } from "../harness/report/index.js";
+import { writeReport } from "../harness/report/html.js";
 import { runSuite } from "../harness/verify/check.js";
 import { findSpec } from "../harness/verify/specs/index.js";
 import { ROOT } from "../harness/core/paths.js";
 import { release } from "./helpers.js";
+import { noteSkip } from "./support/skips.js";
 
 function findChromium(): string | undefined {
   for (const dir of (process.env.PATH ?? "").split(delimiter)) {
@@ -26,7 +27,7 @@ function findChromium(): string | undefined {
 }
 
 const CHROMIUM = findChromium();
-if (!CHROMIUM) console.warn("report-browser: no Chromium on PATH (Debian: apt-get install -y chromium); the browser checks are skipped");
+if (!CHROMIUM) noteSkip("report in a browser (tests/report-browser)", "no Chromium on PATH", "apt-get install chromium");
 
 interface Seen {
   plots: number;

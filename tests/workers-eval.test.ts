@@ -208,7 +208,7 @@ describe("generated CSV texts (fast-check, seeded): the streamed evaluation equa
   );
   const pad = fc.constantFrom("", "", "", " ", "\t", "  ");
   const cellArb = fc.tuple(pad, num, pad).map(([a, x, b]) => a + x + b);
-  const id = fc.constantFrom("a", "Tern-1", "r\u00e9gion", "\u5c0f", "7", "x y");
+  const id = fc.constantFrom("a", "Wren-1", "r\u00e9gion", "\u5c0f", "7", "x y");
   const row = fc.tuple(id, cellArb, cellArb, fc.constantFrom("\n", "\r\n")).map(([i, e, m, end]) => `${i},${e},${m}${end}`);
   const filler = fc.constantFrom("\n", "# note\n", "  \n", "\t\r\n", "#,,\n");
   const body = fc.array(fc.oneof({ weight: 6, arbitrary: row }, { weight: 1, arbitrary: filler }), { maxLength: 40 });

@@ -31,8 +31,9 @@ export function fromBits(b: bigint): number {
 }
 
 /**
- * The exact value of a finite double as a binary-exponent hex string (`-0x1.8p-3`), which decimal.js parses
- * exactly (its decimal constructor would take the shortest round-trip string instead, which is not the value).
+ * The exact value of a finite double as a binary-exponent hex string (`-0x1.8p-3`), for C source (a hex float
+ * literal). Not for decimal.js: it parses binary exponents through Math.pow and a shortest decimal, which is off
+ * by up to half an ulp below 2^-23 or so; build decimals with verify/reference/decimal.ts exact().
  */
 export function exactHex(x: number): string {
   if (!Number.isFinite(x)) throw new Error(`exactHex needs a finite value, got ${x}`);
@@ -43,6 +44,7 @@ export function exactHex(x: number): string {
   if (exp === 0) return `${sign}0x0.${man}p-1022`;
   return `${sign}0x1.${man}p${exp - 1023}`;
 }
+
 
 /** Map a double to an integer that is monotone in its value (-0 and +0 map to the same point). */
 function ordinal(x: number): bigint {
@@ -80,11 +82,22 @@ export function sameBits(a: number, b: number): boolean {
   return Object.is(a, b);
 }
 
-/** The spacing of doubles at x (the ULP of x): the gap to the next double away from zero. */
+const ULP_F64 = new Float64Array(1);
+const ULP_U32 = new Uint32Array(ULP_F64.buffer);
+const ULP_HI = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 1 : 0; // index of the high word
+/** ULP by biased exponent: 2^(ex - 1075) for normal numbers, the smallest subnormal for ex = 0. */
+const ULP_BY_EXPONENT = new Float64Array(2048);
+for (let ex = 0; ex < 2047; ex++) ULP_BY_EXPONENT[ex] = Math.pow(2, Math.max(ex, 1) - 1075);
+ULP_BY_EXPONENT[2047] = NaN;
+
+/**
+ * The ULP of x: the spacing of doubles in x's binade, 2^(exponent - 52) (2^971 at the largest double, 2^-1074
+ * for subnormals and zero), NaN for NaN and infinities. The one ULP function of the harness: a table lookup on
+ * the exponent bits, cheap enough for the sweep's inner loop.
+ */
 export function ulpOf(x: number): number {
-  const ax = Math.abs(x);
-  if (!Number.isFinite(ax)) return NaN;
-  return fromBits(toBits(ax) + 1n) - ax;
+  ULP_F64[0] = x;
+  return ULP_BY_EXPONENT[(ULP_U32[ULP_HI]! >>> 20) & 0x7ff]!;
 }
 
 /** The shortest decimal string that parses back to the same double (JavaScript's own algorithm). */

@@ -1660,53 +1660,57 @@ export const ABI_TABLE: AbiTable = {
     {
      "name": "rx",
      "unit": "length",
-     "doc": "position at the last step"
+     "doc": "position x at step k"
     },
     {
      "name": "ry",
-     "unit": "length"
+     "unit": "length",
+     "doc": "position y at step k"
     },
     {
      "name": "rz",
-     "unit": "length"
+     "unit": "length",
+     "doc": "position z at step k"
     },
     {
      "name": "vx",
      "unit": "length/time",
-     "doc": "velocity at the last step"
+     "doc": "velocity x at step k"
     },
     {
      "name": "vy",
-     "unit": "length/time"
+     "unit": "length/time",
+     "doc": "velocity y at step k"
     },
     {
      "name": "vz",
-     "unit": "length/time"
+     "unit": "length/time",
+     "doc": "velocity z at step k"
     },
     {
      "name": "energy_dev",
      "unit": "1",
-     "doc": "largest relative energy deviation so far"
+     "doc": "largest energy deviation |E - E0| / |E0| over steps 0..k"
     },
     {
      "name": "h_dev",
      "unit": "1",
-     "doc": "largest relative angular momentum deviation so far"
+     "doc": "largest angular momentum deviation over steps 0..k: |h - h0| / |h0| (point mass), |h_z - h_z0| / |h0| (zonal field)"
     },
     {
      "name": "ecc_dev",
      "unit": "1",
-     "doc": "largest eccentricity vector deviation so far"
+     "doc": "largest eccentricity vector deviation |e - e0| over steps 0..k (not an invariant in a zonal field)"
     },
     {
      "name": "areal_dev",
      "unit": "1",
-     "doc": "largest relative areal velocity deviation so far"
+     "doc": "largest areal velocity deviation over steps 0..k: ||h| - |h0|| / |h0| (point mass), |h_z - h_z0| / |h0| (zonal field)"
     },
     {
      "name": "energy_step",
      "unit": "count",
-     "doc": "first step over the energy budget (-1: none)"
+     "doc": "first step over the energy budget (-1: none, or no budget)"
     },
     {
      "name": "h_step",
@@ -1716,7 +1720,7 @@ export const ABI_TABLE: AbiTable = {
     {
      "name": "ecc_step",
      "unit": "count",
-     "doc": "first step over the eccentricity budget (-1: none)"
+     "doc": "first step over the eccentricity budget (-1: none; ignored in a zonal field)"
     },
     {
      "name": "areal_step",
@@ -1736,52 +1740,62 @@ export const ABI_TABLE: AbiTable = {
     {
      "name": "energy",
      "unit": "length^2/time^2",
-     "doc": "specific energy at this step"
+     "doc": "specific energy v.v/2 + V(r) at step k (V with the zonal terms when on)"
     },
     {
      "name": "hx",
-     "unit": "length^2/time"
+     "unit": "length^2/time",
+     "doc": "angular momentum r x v, x"
     },
     {
      "name": "hy",
-     "unit": "length^2/time"
+     "unit": "length^2/time",
+     "doc": "angular momentum r x v, y"
     },
     {
      "name": "hz",
-     "unit": "length^2/time"
+     "unit": "length^2/time",
+     "doc": "angular momentum r x v, z"
     },
     {
      "name": "ex",
-     "unit": "1"
+     "unit": "1",
+     "doc": "eccentricity vector, x"
     },
     {
      "name": "ey",
-     "unit": "1"
+     "unit": "1",
+     "doc": "eccentricity vector, y"
     },
     {
      "name": "ez",
-     "unit": "1"
+     "unit": "1",
+     "doc": "eccentricity vector, z"
     },
     {
      "name": "areal_velocity",
-     "unit": "length^2/time"
+     "unit": "length^2/time",
+     "doc": "areal velocity: |h|/2 (point mass); h_z/2 in a zonal field (that of the projection on the equator, the conserved part)"
     },
     {
      "name": "energy_dev_now",
      "unit": "1",
-     "doc": "relative energy deviation at this step"
+     "doc": "energy deviation at step k"
     },
     {
      "name": "h_dev_now",
-     "unit": "1"
+     "unit": "1",
+     "doc": "angular momentum deviation at step k"
     },
     {
      "name": "ecc_dev_now",
-     "unit": "1"
+     "unit": "1",
+     "doc": "eccentricity vector deviation at step k"
     },
     {
      "name": "areal_dev_now",
-     "unit": "1"
+     "unit": "1",
+     "doc": "areal velocity deviation at step k"
     }
    ],
    "columns": [
@@ -1877,53 +1891,57 @@ export const ABI_TABLE: AbiTable = {
     {
      "name": "rx",
      "unit": "length",
-     "doc": "position at the last step"
+     "doc": "position x at step k"
     },
     {
      "name": "ry",
-     "unit": "length"
+     "unit": "length",
+     "doc": "position y at step k"
     },
     {
      "name": "rz",
-     "unit": "length"
+     "unit": "length",
+     "doc": "position z at step k"
     },
     {
      "name": "vx",
      "unit": "length/time",
-     "doc": "velocity at the last step"
+     "doc": "velocity x at step k"
     },
     {
      "name": "vy",
-     "unit": "length/time"
+     "unit": "length/time",
+     "doc": "velocity y at step k"
     },
     {
      "name": "vz",
-     "unit": "length/time"
+     "unit": "length/time",
+     "doc": "velocity z at step k"
     },
     {
      "name": "energy_dev",
      "unit": "1",
-     "doc": "largest relative energy deviation so far"
+     "doc": "largest energy deviation |E - E0| / |E0| over steps 0..k"
     },
     {
      "name": "h_dev",
      "unit": "1",
-     "doc": "largest relative angular momentum deviation so far"
+     "doc": "largest angular momentum deviation over steps 0..k: |h - h0| / |h0| (point mass), |h_z - h_z0| / |h0| (zonal field)"
     },
     {
      "name": "ecc_dev",
      "unit": "1",
-     "doc": "largest eccentricity vector deviation so far"
+     "doc": "largest eccentricity vector deviation |e - e0| over steps 0..k (not an invariant in a zonal field)"
     },
     {
      "name": "areal_dev",
      "unit": "1",
-     "doc": "largest relative areal velocity deviation so far"
+     "doc": "largest areal velocity deviation over steps 0..k: ||h| - |h0|| / |h0| (point mass), |h_z - h_z0| / |h0| (zonal field)"
     },
     {
      "name": "energy_step",
      "unit": "count",
-     "doc": "first step over the energy budget (-1: none)"
+     "doc": "first step over the energy budget (-1: none, or no budget)"
     },
     {
      "name": "h_step",
@@ -1933,7 +1951,7 @@ export const ABI_TABLE: AbiTable = {
     {
      "name": "ecc_step",
      "unit": "count",
-     "doc": "first step over the eccentricity budget (-1: none)"
+     "doc": "first step over the eccentricity budget (-1: none; ignored in a zonal field)"
     },
     {
      "name": "areal_step",
@@ -1953,52 +1971,62 @@ export const ABI_TABLE: AbiTable = {
     {
      "name": "energy",
      "unit": "length^2/time^2",
-     "doc": "specific energy at this step"
+     "doc": "specific energy v.v/2 + V(r) at step k (V with the zonal terms when on)"
     },
     {
      "name": "hx",
-     "unit": "length^2/time"
+     "unit": "length^2/time",
+     "doc": "angular momentum r x v, x"
     },
     {
      "name": "hy",
-     "unit": "length^2/time"
+     "unit": "length^2/time",
+     "doc": "angular momentum r x v, y"
     },
     {
      "name": "hz",
-     "unit": "length^2/time"
+     "unit": "length^2/time",
+     "doc": "angular momentum r x v, z"
     },
     {
      "name": "ex",
-     "unit": "1"
+     "unit": "1",
+     "doc": "eccentricity vector, x"
     },
     {
      "name": "ey",
-     "unit": "1"
+     "unit": "1",
+     "doc": "eccentricity vector, y"
     },
     {
      "name": "ez",
-     "unit": "1"
+     "unit": "1",
+     "doc": "eccentricity vector, z"
     },
     {
      "name": "areal_velocity",
-     "unit": "length^2/time"
+     "unit": "length^2/time",
+     "doc": "areal velocity: |h|/2 (point mass); h_z/2 in a zonal field (that of the projection on the equator, the conserved part)"
     },
     {
      "name": "energy_dev_now",
      "unit": "1",
-     "doc": "relative energy deviation at this step"
+     "doc": "energy deviation at step k"
     },
     {
      "name": "h_dev_now",
-     "unit": "1"
+     "unit": "1",
+     "doc": "angular momentum deviation at step k"
     },
     {
      "name": "ecc_dev_now",
-     "unit": "1"
+     "unit": "1",
+     "doc": "eccentricity vector deviation at step k"
     },
     {
      "name": "areal_dev_now",
-     "unit": "1"
+     "unit": "1",
+     "doc": "areal velocity deviation at step k"
     }
    ],
    "layout": "integration"
@@ -2018,53 +2046,57 @@ export const ABI_TABLE: AbiTable = {
     {
      "name": "rx",
      "unit": "length",
-     "doc": "position at the last step"
+     "doc": "position x at step k"
     },
     {
      "name": "ry",
-     "unit": "length"
+     "unit": "length",
+     "doc": "position y at step k"
     },
     {
      "name": "rz",
-     "unit": "length"
+     "unit": "length",
+     "doc": "position z at step k"
     },
     {
      "name": "vx",
      "unit": "length/time",
-     "doc": "velocity at the last step"
+     "doc": "velocity x at step k"
     },
     {
      "name": "vy",
-     "unit": "length/time"
+     "unit": "length/time",
+     "doc": "velocity y at step k"
     },
     {
      "name": "vz",
-     "unit": "length/time"
+     "unit": "length/time",
+     "doc": "velocity z at step k"
     },
     {
      "name": "energy_dev",
      "unit": "1",
-     "doc": "largest relative energy deviation so far"
+     "doc": "largest energy deviation |E - E0| / |E0| over steps 0..k"
     },
     {
      "name": "h_dev",
      "unit": "1",
-     "doc": "largest relative angular momentum deviation so far"
+     "doc": "largest angular momentum deviation over steps 0..k: |h - h0| / |h0| (point mass), |h_z - h_z0| / |h0| (zonal field)"
     },
     {
      "name": "ecc_dev",
      "unit": "1",
-     "doc": "largest eccentricity vector deviation so far"
+     "doc": "largest eccentricity vector deviation |e - e0| over steps 0..k (not an invariant in a zonal field)"
     },
     {
      "name": "areal_dev",
      "unit": "1",
-     "doc": "largest relative areal velocity deviation so far"
+     "doc": "largest areal velocity deviation over steps 0..k: ||h| - |h0|| / |h0| (point mass), |h_z - h_z0| / |h0| (zonal field)"
     },
     {
      "name": "energy_step",
      "unit": "count",
-     "doc": "first step over the energy budget (-1: none)"
+     "doc": "first step over the energy budget (-1: none, or no budget)"
     },
     {
      "name": "h_step",
@@ -2074,7 +2106,7 @@ export const ABI_TABLE: AbiTable = {
     {
      "name": "ecc_step",
      "unit": "count",
-     "doc": "first step over the eccentricity budget (-1: none)"
+     "doc": "first step over the eccentricity budget (-1: none; ignored in a zonal field)"
     },
     {
      "name": "areal_step",
@@ -2094,52 +2126,62 @@ export const ABI_TABLE: AbiTable = {
     {
      "name": "energy",
      "unit": "length^2/time^2",
-     "doc": "specific energy at this step"
+     "doc": "specific energy v.v/2 + V(r) at step k (V with the zonal terms when on)"
     },
     {
      "name": "hx",
-     "unit": "length^2/time"
+     "unit": "length^2/time",
+     "doc": "angular momentum r x v, x"
     },
     {
      "name": "hy",
-     "unit": "length^2/time"
+     "unit": "length^2/time",
+     "doc": "angular momentum r x v, y"
     },
     {
      "name": "hz",
-     "unit": "length^2/time"
+     "unit": "length^2/time",
+     "doc": "angular momentum r x v, z"
     },
     {
      "name": "ex",
-     "unit": "1"
+     "unit": "1",
+     "doc": "eccentricity vector, x"
     },
     {
      "name": "ey",
-     "unit": "1"
+     "unit": "1",
+     "doc": "eccentricity vector, y"
     },
     {
      "name": "ez",
-     "unit": "1"
+     "unit": "1",
+     "doc": "eccentricity vector, z"
     },
     {
      "name": "areal_velocity",
-     "unit": "length^2/time"
+     "unit": "length^2/time",
+     "doc": "areal velocity: |h|/2 (point mass); h_z/2 in a zonal field (that of the projection on the equator, the conserved part)"
     },
     {
      "name": "energy_dev_now",
      "unit": "1",
-     "doc": "relative energy deviation at this step"
+     "doc": "energy deviation at step k"
     },
     {
      "name": "h_dev_now",
-     "unit": "1"
+     "unit": "1",
+     "doc": "angular momentum deviation at step k"
     },
     {
      "name": "ecc_dev_now",
-     "unit": "1"
+     "unit": "1",
+     "doc": "eccentricity vector deviation at step k"
     },
     {
      "name": "areal_dev_now",
-     "unit": "1"
+     "unit": "1",
+     "doc": "areal velocity deviation at step k"
     }
    ],
    "layout": "integration"

@@ -72,11 +72,18 @@ export function abiExport(exportName: string): AbiExport {
 }
 
 /**
- * The output slot of each named output of an export, e.g. `slotsOf("integrate").t`: the harness and tests read
- * slots by these names, never by bare numbers.
+ * The output slots of the named outputs of an export, e.g. `slotsOf("integrate", "t", "k").t`: the harness and
+ * tests read slots by these names, never by bare numbers. A name the table does not list throws.
  */
-export function slotsOf(exportName: string): Readonly<Record<string, number>> {
-  return Object.fromEntries(abiExport(exportName).outputs.map((o, i) => [o.name, i]));
+export function slotsOf<N extends string>(exportName: string, ...names: N[]): Readonly<Record<N, number>> {
+  const outs = abiExport(exportName).outputs;
+  const r = {} as Record<N, number>;
+  for (const n of names) {
+    const i = outs.findIndex((o) => o.name === n);
+    if (i < 0) throw new Error(`abi table: ${exportName} has no output ${n}`);
+    r[n] = i;
+  }
+  return r;
 }
 
 /** The value of an enumeration word, e.g. `enumValue("method", "rk4")`. */

@@ -19,7 +19,8 @@ import { existsSync, readdirSync, statSync } from "node:fs";
 import { execFileSync } from "node:child_process";
 import { join } from "node:path";
 import { cpus, arch } from "node:os";
-import { ROUTINES, type Routine } from "../module/routines.js";
+import { ROUTINES, slotsOf, type Routine } from "../module/routines.js";
+import { isOk } from "../module/status.js";
 import { SPECS } from "../verify/specs/index.js";
 import { readVectors, vectorPath, col } from "../verify/vectors.js";
 import { BUILD_DIR, ROOT } from "../core/paths.js";
@@ -27,6 +28,9 @@ import { loadBuild, loadFile, type Kernels } from "../module/load.js";
 import { Rng } from "../core/rng.js";
 import { ulpDistance } from "../core/float.js";
 import { loadCounting, countOps, predict, OP_NAMES, type OpStats, type Profile, type Prediction, type OpName, readProfile, ProfileError } from "./opcount.js";
+
+/** Output slots of kepler_elliptic (ABI table). */
+const KE = slotsOf("kepler_elliptic", "E", "iterations");
 
 export const BASELINE_FILE = join(BUILD_DIR, "bench", "baseline.wasm");
 export const EXAMPLE_PROFILE = join(ROOT, "bench", "profiles", "example-target.json");
@@ -180,7 +184,7 @@ export function routineInputs(r: Routine, k: Kernels, max = CASES_PER_KERNEL): {
     }
   });
   if (cols.some((c) => c < 0)) return { suite: spec.suite, rows: [] };
-  const all = v.values.map((row) => cols.map((c) => row[c]!)).filter((args) => k.call(r.exportName, args) < 16);
+  const all = v.values.map((row) => cols.map((c) => row[c]!)).filter((args) => isOk(k.call(r.exportName, args)));
   const stride = Math.max(1, all.length / max);
   const rows: number[][] = [];
   for (let x = 0; rows.length < max && Math.floor(x) < all.length; x += stride) rows.push(all[Math.floor(x)]!);
@@ -257,7 +261,7 @@ export function iterationCounts(k: Kernels, base: WebAssembly.Exports, ne: numbe
   for (const ei of e) {
     for (const mj of M) {
       const st = k.call("kepler_elliptic", [ei, mj]);
-      solver.push(st < 16 ? k.out[1]! : -1);
+      solver.push(isOk(st) ? k.out[KE.iterations]! : -1);
       nwt(ei, mj);
       newton.push(nIt());
     }
@@ -366,11 +370,11 @@ export async function runBench(settings: BenchSettings = DEFAULT_SETTINGS, hooks
   let newtonUlp = 0;
   for (const [e, M] of dom) {
     wasm.call("kepler_elliptic", [e!, M!]);
-    solverIt += wasm.out[1]!;
+    solverIt += wasm.out[KE.iterations]!;
     const En = (base.newton_elliptic as (e: number, M: number) => number)(e!, M!);
     const it = (base.newton_iterations as () => number)();
     if (it < 0) newtonFail++;
-    else newtonUlp = Math.max(newtonUlp, ulpDistance(En, wasm.out[0]!));
+    else newtonUlp = Math.max(newtonUlp, ulpDistance(En, wasm.out[KE.E]!));
     newtonIt += it < 0 ? 100 : it;
   }
   const loop = (name: string) => (base[name] as (n: number) => number).bind(null, DOMAIN_CASES);

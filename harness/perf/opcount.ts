@@ -25,6 +25,7 @@ import { existsSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { BUILD_DIR } from "../core/paths.js";
 import { instantiate, type Kernels } from "../module/load.js";
+import { isOk } from "../module/status.js";
 
 /** The operation kinds, in report order. */
 export const OP_NAMES = ["add", "mul", "fma", "div", "sqrt", "cbrt", "sin", "cos", "tan", "invtrig", "atan2", "log", "exp", "pow", "hyperbolic", "hypot"] as const;
@@ -92,7 +93,7 @@ export function countOps(cm: CountingModule, routine: string, exportName: string
   let heavyTotal = -1;
   for (const args of rows) {
     const { status, counts } = cm.count(exportName, args);
-    if (status >= 16) continue;
+    if (!isOk(status)) continue;
     perCase.push({ inputs: args, counts });
     let total = 0;
     for (const n of OP_NAMES) {

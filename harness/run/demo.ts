@@ -1,16 +1,16 @@
 /**
- * The built-in scenario shown by `npm start`: an invented spacecraft on an invented mission, used only to
+ * The built-in demo shown by `npm start`: an invented spacecraft on an invented mission, used only to
  * show what the kernels do. Nothing here is reference data.
  *
- * Scenario "Tern Relay": the relay spacecraft HALCYON-3 on a high, eccentric Earth orbit
+ * Demo "Brackenfold Relay": the relay spacecraft OSSICLE-3 on a high, eccentric Earth orbit
  * (periapsis 7,000 km, apoapsis 46,000 km from Earth's centre), Earth's GM 398600.4418 km^3/s^2 (WGS 84).
  */
 import type { Kernels } from "../module/load.js";
-import { statusWord } from "../module/status.js";
+import { statusWord, isOk } from "../module/status.js";
 
 export const SCENARIO = {
-  mission: "Tern Relay",
-  spacecraft: "HALCYON-3",
+  mission: "Brackenfold Relay",
+  spacecraft: "OSSICLE-3",
   mu: 398600.4418,
   periapsis: 7000,
   apoapsis: 46000,
@@ -18,7 +18,7 @@ export const SCENARIO = {
 
 function call(k: Kernels, name: string, args: number[]): number[] {
   const st = k.call(name, args);
-  if (st >= 16) throw new Error(`${name}(${args.join(", ")}) returned ${statusWord(st)}`);
+  if (!isOk(st)) throw new Error(`${name}(${args.join(", ")}) returned ${statusWord(st)}`);
   return Array.from(k.out.slice(0, 4));
 }
 
@@ -31,7 +31,7 @@ export function demoLines(k: Kernels): string[] {
   const n = Math.sqrt(mu / (a * a * a));
   const period = (2 * Math.PI) / n;
   const lines: string[] = [];
-  lines.push(`Scenario ${SCENARIO.mission}: ${SCENARIO.spacecraft}, periapsis ${rp} km, apoapsis ${ra} km (invented demo data)`);
+  lines.push(`Demo ${SCENARIO.mission}: ${SCENARIO.spacecraft}, periapsis ${rp} km, apoapsis ${ra} km (invented demo data)`);
   lines.push(`  a = ${a.toFixed(1)} km, e = ${e.toFixed(6)}, period = ${(period / 3600).toFixed(4)} h, build ${k.label}`);
   lines.push("  Twelve equal time steps from periapsis: Kepler's equation gives E, then nu and r;");
   lines.push("  the area swept in each step (from the areal velocity h/2) is the same, as the second law says.");

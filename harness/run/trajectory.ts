@@ -1,41 +1,34 @@
 /**
- * `areal propagate --scenario FILE`: run a fixed-step propagation described by a small JSON scenario, monitor the
+ * `areal trajectory --plan FILE`: run a fixed-step integration described by a small JSON trajectory plan, monitor the
  * invariants on every step (the kernels integrate_begin / integrate_step, assembly/integrators.ts), and write
  *  - a trajectory CSV with the state and the invariants of every step, and
  *  - a CCSDS Orbit Ephemeris Message in KVN form (CCSDS 502.0-B, OEM version 2.0) that other tools can read.
  * A budget broken is reported with the invariant, the first step over it and its time; the caller exits non-zero.
  *
- * Scenario fields (JSON object; units km, s, km^3/s^2):
- *   mission, spacecraft        names written into the files (text)
- *   object_id                  OEM OBJECT_ID (text, default "UNKNOWN")
- *   epoch                      start time, YYYY-MM-DDThh:mm:ss[.fff] (no zone suffix)
- *   time_system                OEM TIME_SYSTEM: UTC, TAI, TT, GPS, TDB or TCB (default UTC). Epochs are written
- *                              as epoch + k * step on a uniform scale: no leap second is inserted.
- *   center_name, ref_frame     OEM CENTER_NAME (default EARTH) and REF_FRAME (default EME2000). The zonal field
- *                              takes z of this frame as the body's symmetry axis.
- *   mu, radius, j2, j3         force model (radius, j2, j3 optional: defaults 1, 0, 0)
- *   r, v                       initial position [km] and velocity [km/s], three numbers each
- *   method                     rk4 | verlet | yoshida4 | butcher6
- *   step                       step [s] (negative: backwards)
- *   duration or steps          length of the run: seconds (a whole number of steps) or a step count
- *   budgets                    optional {energy, h, ecc, areal}: relative deviations; absent or 0 means none
- *   oem_every                  write every n-th step to the OEM (default 1; the CSV always has every step)
+ * The plan's fields are documented in docs/trajectory-plan.md.
  */
 import type { Kernels } from "../module/load.js";
 import { statusWord } from "../module/status.js";
 import { shortest } from "../core/float.js";
+import { ABI_TABLE } from "../module/abi-table.js";
+import { slotsOf } from "../module/routines.js";
 
-export class ScenarioError extends Error {}
+export class PlanError extends Error {}
 
-export const METHODS = { rk4: 0, verlet: 1, yoshida4: 2, butcher6: 3 } as const;
-export type MethodName = keyof typeof METHODS;
+/** The integrators by name (the ABI table's method enumeration). */
+export const METHODS: Readonly<Record<string, number>> = Object.fromEntries(ABI_TABLE.enums.find((e) => e.name === "method")!.values.map((v) => [v.word, v.value]));
+export type MethodName = string;
+/** Output slots of the integration calls (the ABI table's integration layout). */
+const S = slotsOf("integrate_step", "rx", "ry", "rz", "vx", "vy", "vz", "energy_dev", "h_dev", "ecc_dev", "areal_dev",
+  "energy_step", "h_step", "ecc_step", "areal_step", "k", "t", "energy", "hx", "hy", "hz", "ex", "ey", "ez", "areal_velocity",
+  "energy_dev_now", "h_dev_now", "ecc_dev_now", "areal_dev_now");
 const TIME_SYSTEMS = ["UTC", "TAI", "TT", "GPS", "TDB", "TCB"] as const;
 const INVARIANTS = ["energy", "h", "ecc", "areal"] as const;
 export type InvariantName = (typeof INVARIANTS)[number];
-/** Largest step count a scenario may ask for (the kernels take up to 1e9 a call; files would be too large). */
-export const MAX_SCENARIO_STEPS = 5_000_000;
+/** Largest step count a plan may ask for (the kernels take up to 1e9 a call; files would be too large). */
+export const MAX_PLAN_STEPS = 5_000_000;
 
-export interface Scenario {
+export interface Plan {
   readonly mission: string;
   readonly spacecraft: string;
   readonly objectId: string;
@@ -59,20 +52,20 @@ export interface Scenario {
 const KNOWN_FIELDS = new Set(["mission", "spacecraft", "object_id", "epoch", "time_system", "center_name", "ref_frame",
   "mu", "radius", "j2", "j3", "r", "v", "method", "step", "duration", "steps", "budgets", "oem_every", "comment"]);
 
-/** Parse and check a scenario. Errors name the file and the field. */
-export function parseScenario(text: string, source: string): Scenario {
+/** Parse and check a trajectory plan. Errors name the file and the field. */
+export function parsePlan(text: string, source: string): Plan {
   let raw: unknown;
   try {
     raw = JSON.parse(text);
   } catch (err) {
-    throw new ScenarioError(`${source}: not valid JSON (${(err as Error).message})`);
+    throw new PlanError(`${source}: not valid JSON (${(err as Error).message})`);
   }
-  if (typeof raw !== "object" || raw === null || Array.isArray(raw)) throw new ScenarioError(`${source}: expected a JSON object`);
+  if (typeof raw !== "object" || raw === null || Array.isArray(raw)) throw new PlanError(`${source}: expected a JSON object`);
   const o = raw as Record<string, unknown>;
   const bad = (field: string, what: string): never => {
-    throw new ScenarioError(`${source}: field '${field}' ${what}`);
+    throw new PlanError(`${source}: field '${field}' ${what}`);
   };
-  for (const key of Object.keys(o)) if (!KNOWN_FIELDS.has(key)) bad(key, `is not a scenario field (known: ${[...KNOWN_FIELDS].join(", ")})`);
+  for (const key of Object.keys(o)) if (!KNOWN_FIELDS.has(key)) bad(key, `is not a plan field (known: ${[...KNOWN_FIELDS].join(", ")})`);
   const text_ = (f: string, def?: string): string => {
     const v = o[f];
     if (v === undefined) return def ?? bad(f, "is required");
@@ -125,7 +118,7 @@ export function parseScenario(text: string, source: string): Scenario {
       bad("duration", `(${duration} s) is not a whole number of steps of ${step} s in the step's direction`);
     }
   }
-  if (steps > MAX_SCENARIO_STEPS) bad(o.steps !== undefined ? "steps" : "duration", `asks for ${steps} steps; at most ${MAX_SCENARIO_STEPS}`);
+  if (steps > MAX_PLAN_STEPS) bad(o.steps !== undefined ? "steps" : "duration", `asks for ${steps} steps; at most ${MAX_PLAN_STEPS}`);
   const budgets = { energy: 0, h: 0, ecc: 0, areal: 0 };
   if (o.budgets !== undefined) {
     const b = o.budgets;
@@ -150,13 +143,13 @@ interface Epoch {
 
 function parseEpoch(s: string, source: string): Epoch {
   const m = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2}):(\d{2}(?:\.\d+)?)$/.exec(s);
-  if (!m) throw new ScenarioError(`${source}: field 'epoch' is '${s}'; expected YYYY-MM-DDThh:mm:ss[.fff] (no zone suffix)`);
+  if (!m) throw new PlanError(`${source}: field 'epoch' is '${s}'; expected YYYY-MM-DDThh:mm:ss[.fff] (no zone suffix)`);
   const [y, mo, d, hh, mm] = [m[1], m[2], m[3], m[4], m[5]].map(Number) as [number, number, number, number, number];
   const ss = Number(m[6]);
   const ms = Date.UTC(y, mo - 1, d);
   const back = new Date(ms);
   if (back.getUTCFullYear() !== y || back.getUTCMonth() !== mo - 1 || back.getUTCDate() !== d || hh > 23 || mm > 59 || ss >= 60) {
-    throw new ScenarioError(`${source}: field 'epoch' is '${s}', which is not a valid date and time`);
+    throw new PlanError(`${source}: field 'epoch' is '${s}', which is not a valid date and time`);
   }
   return { day: Math.round(ms / 86400000), sec: hh * 3600 + mm * 60 + ss };
 }
@@ -193,8 +186,8 @@ export interface Breach {
   readonly max: number;
 }
 
-export interface PropagateResult {
-  /** Steps done (equal to the scenario's unless the kernel failed). */
+export interface TrajectoryResult {
+  /** Steps done (equal to the plan's unless the kernel failed). */
   readonly steps: number;
   /** Kernel status of the run: 0 when every step went through. */
   readonly status: number;
@@ -207,8 +200,11 @@ export interface PropagateResult {
 
 export const CSV_COLUMNS = ["step", "t", "rx", "ry", "rz", "vx", "vy", "vz", "energy", "hx", "hy", "hz", "ex", "ey", "ez",
   "areal_velocity", "energy_dev", "h_dev", "ecc_dev", "areal_dev"] as const;
+/** The slot behind each CSV column (the deviations are this step's, the *_now slots). */
+const CSV_SLOTS: readonly number[] = [S.k, S.t, S.rx, S.ry, S.rz, S.vx, S.vy, S.vz, S.energy, S.hx, S.hy, S.hz, S.ex, S.ey, S.ez,
+  S.areal_velocity, S.energy_dev_now, S.h_dev_now, S.ecc_dev_now, S.areal_dev_now];
 
-export interface PropagateOptions {
+export interface TrajectoryOptions {
   /** Called now and then with (steps done, total); the CLI draws its progress bar with it. */
   readonly progress?: (done: number, total: number) => void;
   /** CREATION_DATE of the OEM (YYYY-MM-DDThh:mm:ss); pass a fixed value for reproducible files. */
@@ -219,35 +215,44 @@ export interface PropagateOptions {
 
 const ROWS_PER_CHUNK = 20_000;
 
-/** Run a scenario on a loaded module. Pure apart from calling the kernels: files are the caller's job. */
-export function propagate(k: Kernels, sc: Scenario, opts: PropagateOptions): PropagateResult {
+/** One header line per CSV column: its meaning and unit, from the ABI table's integration layout. */
+function columnNotes(): string[] {
+  const outs = ABI_TABLE.exports.find((x) => x.name === "integrate_step")!.outputs;
+  const unit = (u: string): string => u.replace(/length/g, "km").replace(/time/g, "s");
+  return CSV_COLUMNS.map((c, i) => {
+    const o = outs[CSV_SLOTS[i]!]!;
+    const doc = o.doc ?? (c.length <= 2 ? `component ${c}` : c);
+    return `# column ${c}: ${doc} [${unit(o.unit)}]`;
+  });
+}
+
+/** Run a plan on a loaded module. Pure apart from calling the kernels: files are the caller's job. */
+export function runTrajectory(k: Kernels, sc: Plan, opts: TrajectoryOptions): TrajectoryResult {
   for (const name of ["integrate_begin", "integrate_step"]) {
-    if (!k.has(name)) throw new ScenarioError(`${k.label}: the module has no export ${name} (docs/abi.md)`);
+    if (!k.has(name)) throw new PlanError(`${k.label}: the module has no export ${name} (docs/abi.md)`);
   }
   const b = sc.budgets;
-  const st0 = k.call("integrate_begin", [sc.mu, ...sc.r, ...sc.v, sc.step, METHODS[sc.method], sc.j2, sc.j3, sc.radius, b.energy, b.h, b.ecc, b.areal]);
-  if (st0 !== 0) throw new ScenarioError(`the initial state is rejected by integrate_begin: ${statusWord(st0)}`);
+  const st0 = k.call("integrate_begin", [sc.mu, ...sc.r, ...sc.v, sc.step, METHODS[sc.method]!, sc.j2, sc.j3, sc.radius, b.energy, b.h, b.ecc, b.areal]);
+  if (st0 !== 0) throw new PlanError(`the initial state is rejected by integrate_begin: ${statusWord(st0)}`);
   const out = k.out;
   const chunks: Buffer[] = [];
   const enc = (s: string): void => void chunks.push(Buffer.from(s, "utf8"));
   const header = [
-    `# areal propagate: mission ${sc.mission}, spacecraft ${sc.spacecraft}, module ${opts.source}`,
+    `# areal trajectory: mission ${sc.mission}, spacecraft ${sc.spacecraft}, module ${opts.source}`,
     `# method ${sc.method}, step ${shortest(sc.step)} s, ${sc.steps} steps, mu ${shortest(sc.mu)} km^3/s^2, radius ${shortest(sc.radius)} km, j2 ${shortest(sc.j2)}, j3 ${shortest(sc.j3)}`,
     `# epoch ${sc.epoch} ${sc.timeSystem}, frame ${sc.refFrame}, centre ${sc.centerName}; t in s from the epoch, km, km/s`,
-    `# invariants of every step; deviations from step 0 as defined in assembly/monitor.ts`,
+    ...columnNotes(),
     `# budgets: ${INVARIANTS.map((n) => `${n} ${b[n] > 0 ? shortest(b[n]) : "none"}`).join(", ")}`,
     CSV_COLUMNS.join(","),
   ];
   enc(header.join("\n") + "\n");
   const oemLines: string[] = [];
   const row = (): string => {
-    const cells = [out[14]!, out[15]!, out[0]!, out[1]!, out[2]!, out[3]!, out[4]!, out[5]!, out[16]!, out[17]!, out[18]!, out[19]!,
-      out[20]!, out[21]!, out[22]!, out[23]!, out[24]!, out[25]!, out[26]!, out[27]!];
-    return cells.map(shortest).join(",");
+    return CSV_SLOTS.map((i) => shortest(out[i]!)).join(",");
   };
   const oemRow = (): string => {
-    const t = out[15]!;
-    return `${epochPlus(sc.epoch, t)} ${[out[0]!, out[1]!, out[2]!, out[3]!, out[4]!, out[5]!].map(shortest).join(" ")}`;
+    const t = out[S.t]!;
+    return `${epochPlus(sc.epoch, t)} ${[S.rx, S.ry, S.rz, S.vx, S.vy, S.vz].map((i) => shortest(out[i]!)).join(" ")}`;
   };
   let lines: string[] = [row()];
   oemLines.push(oemRow());
@@ -269,8 +274,8 @@ export function propagate(k: Kernels, sc: Scenario, opts: PropagateOptions): Pro
   if (lines.length > 0) enc(lines.join("\n") + "\n");
   if (opts.progress) opts.progress(done, sc.steps);
   // A failing integrate_step writes only slot 14 (the failed step): slots 6..13 still hold the last good step's.
-  const maxDev = { energy: out[6]!, h: out[7]!, ecc: out[8]!, areal: out[9]! };
-  const firsts = { energy: out[10]!, h: out[11]!, ecc: out[12]!, areal: out[13]! };
+  const maxDev = { energy: out[S.energy_dev]!, h: out[S.h_dev]!, ecc: out[S.ecc_dev]!, areal: out[S.areal_dev]! };
+  const firsts = { energy: out[S.energy_step]!, h: out[S.h_step]!, ecc: out[S.ecc_step]!, areal: out[S.areal_step]! };
   const breaches: Breach[] = [];
   for (const n of INVARIANTS) {
     const f = firsts[n];
@@ -281,7 +286,7 @@ export function propagate(k: Kernels, sc: Scenario, opts: PropagateOptions): Pro
 }
 
 /** The OEM text (KVN): header, one metadata block, the ephemeris lines. */
-export function formatOem(sc: Scenario, data: readonly string[], opts: PropagateOptions, steps: number): string {
+export function formatOem(sc: Plan, data: readonly string[], opts: TrajectoryOptions, steps: number): string {
   const start = epochPlus(sc.epoch, 0);
   const stop = epochPlus(sc.epoch, steps * sc.step);
   const [first, last] = sc.step > 0 ? [start, stop] : [stop, start];
@@ -307,18 +312,4 @@ export function formatOem(sc: Scenario, data: readonly string[], opts: Propagate
     ...ordered,
     "",
   ].join("\n");
-}
-
-/** A one-line progress bar on a terminal stream: returns the callback for PropagateOptions.progress. */
-export function progressBar(stream: NodeJS.WriteStream, label: string): (done: number, total: number) => void {
-  const WIDTH = 30;
-  let shown = -1;
-  return (done, total) => {
-    const pct = total === 0 ? 100 : Math.floor((100 * done) / total);
-    if (pct === shown) return;
-    shown = pct;
-    const fill = Math.round((WIDTH * pct) / 100);
-    stream.write(`\r${label} [${"#".repeat(fill)}${".".repeat(WIDTH - fill)}] ${String(pct).padStart(3)}% ${done}/${total}`);
-    if (done === total) stream.write("\n");
-  };
 }

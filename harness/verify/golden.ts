@@ -20,7 +20,7 @@ import { vectorPath, readVectors } from "./vectors.js";
 import { toBitsHex } from "../core/float.js";
 import { isOk } from "../module/status.js";
 import { writeAtomic } from "../core/atomic.js";
-import type { Trace } from "./compare.js";
+import type { Trace } from "./compare-builds.js";
 
 export const GOLDEN_DIR = join(ROOT, "vectors", "golden");
 

@@ -40,7 +40,8 @@ import { ROUTINES, type Routine } from "../../harness/module/routines.js";
 import { readSignatures, kernelExports, CORE_EXPORTS, type ExportInfo } from "../../harness/module/signatures.js";
 import { STATUS_WORDS, isOk, FIRST_ERROR } from "../../harness/module/status.js";
 import type { Kernels } from "../../harness/module/load.js";
-import { exactHex, toBits } from "../../harness/core/float.js";
+import { toBits, ulpOf } from "../../harness/core/float.js";
+import { exact } from "../../harness/verify/reference/decimal.js";
 import { VECTORS_DIR } from "../../harness/core/paths.js";
 
 // ---------------------------------------------------------------------------------------------------------
@@ -382,20 +383,12 @@ export class Caller {
 // mathematical properties
 
 const EPS = 2 ** -52;
-const ulpView = new DataView(new ArrayBuffer(8));
-/** Unit in the last place of a double: the gap from |x| to the next double up (2^971 at the largest). */
-export function ulp(x: number): number {
-  const ax = Math.abs(x);
-  if (!Number.isFinite(ax)) return NaN;
-  if (ax === Number.MAX_VALUE) return 2 ** 971;
-  ulpView.setFloat64(0, ax);
-  ulpView.setBigUint64(0, ulpView.getBigUint64(0) + 1n);
-  return ulpView.getFloat64(0) - ax;
-}
+/** Unit in the last place of a double (2^971 at the largest): core/float.ts ulpOf. */
+export const ulp = ulpOf;
 
 const D50 = Decimal.clone({ precision: 50, rounding: Decimal.ROUND_HALF_EVEN, toExpNeg: -9e15, toExpPos: 9e15, minE: -9e15, maxE: 9e15 });
 type D = InstanceType<typeof D50>;
-const dx = (x: number): D => (x === 0 ? new D50(0) : new D50(exactHex(x)));
+const dx = (x: number): D => exact(D50, x);
 
 /** Everything a property hook needs: the case, its outcome, and checked calls of other exports. */
 export interface Ctx {

@@ -3,7 +3,7 @@
  * configuration leaks between generators), exact conversion from doubles, and round-to-nearest back.
  */
 import { Decimal as DecimalJs } from "decimal.js";
-import { toBits } from "../../core/float.js";
+import { toBits, ulpOf } from "../../core/float.js";
 
 /** Working precision of the references, in significant decimal digits. */
 export const REFERENCE_DIGITS = 60;
@@ -17,9 +17,11 @@ export function decimalAt(digits: number): typeof Dec {
 }
 
 /**
- * The value of a double, exact up to the clone's precision: integer significand times a power of two.
- * (decimal.js 10.6.0 parses binary-exponent hex strings through Math.pow(2, p) taken as its shortest decimal
- * string, which is not exact for p below about -23: 0x1.086bced637035p-24 reads 0.5 ulp off. So no hex here.)
+ * The value of a double, exact up to the clone's precision: integer significand times a power of two. The one
+ * conversion from a double to a decimal in the project (the vectors, the references and the fuzz properties use
+ * it). Never `new Decimal(x)` (the shortest round-trip string, not the value) and never a hex-float string
+ * (decimal.js 10.6.0 parses binary exponents through Math.pow(2, p) taken as its shortest decimal string, which
+ * is not exact for p below about -23: 0x1.086bced637035p-24 reads 0.5 ulp off).
  */
 export function exact(D: typeof Dec, x: number): Dec {
   if (x === 0) return new D(0);
@@ -56,7 +58,7 @@ export function conditionUlps(D: typeof Dec, f: (xs: Dec[]) => Dec | undefined, 
   const base = f(xs);
   if (base === undefined) return NaN;
   const rounded = toDouble(base);
-  const ulp = Math.abs(rounded) === 0 ? 5e-324 : ulpOfDouble(rounded);
+  const ulp = Math.abs(rounded) === 0 ? 5e-324 : ulpOf(rounded);
   let worst = 0;
   inputs.forEach((x, i) => {
     for (const dir of [1, -1]) {
@@ -83,10 +85,6 @@ function neighbour(x: number, dir: number): number {
   return b.getFloat64(0);
 }
 
-function ulpOfDouble(x: number): number {
-  const ax = Math.abs(x);
-  return neighbour(ax, 1) - ax;
-}
 
 /** x - sin x (or sinh x - x when `hyperbolic`) by its series, for |x| <= 1: no cancellation near 0. */
 export function oddRemainder(D: typeof Dec, x: Dec, hyperbolic: boolean): Dec {

@@ -8,15 +8,13 @@
  *    single-precision build is compared where its inputs are exact f32 values (as `areal check` does), in f32 ULP,
  *    and its error against the references is given in physical units (radians for anomalies; metres and mm/s
  *    for a low-orbit state after one orbit).
- *  - `areal compare a.csv b.csv [--tol X]`: two result files of the same cases, aligned by row and column name:
- *    max absolute, relative and ULP difference per column, the first row beyond the tolerance; exit 1 if any.
+ * Two result files of the same cases are compared by compare-files.ts.
  */
 import { execFileSync } from "node:child_process";
-import { existsSync, readFileSync } from "node:fs";
+import { existsSync } from "node:fs";
 import { join } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
-import { parseCsv, CsvError } from "../core/csv.js";
-import { parseNumber, sameBits, ulpDistance, ulpDistance32 } from "../core/float.js";
+import { sameBits, ulpDistance, ulpDistance32 } from "../core/float.js";
 import { readVectors, vectorPath, col, type VectorSet } from "./vectors.js";
 import { findRoutine, ROUTINES, type Routine } from "../module/routines.js";
 import { SPECS } from "./specs/index.js";
@@ -25,9 +23,7 @@ import type { Kernels } from "../module/load.js";
 import { isBuildName, loadNamedBuild, type BuildName } from "../module/builds.js";
 import { isOk } from "../module/status.js";
 import { ROOT } from "../core/paths.js";
-import { writeAtomic } from "../core/atomic.js";
 
-export const COMPARE_USAGE = "areal compare --builds f64,native,js,f32[,baseline,optimizing] [--suite NAME]... [--json FILE]\n       areal compare a.csv b.csv [--tol X]";
 
 /** Engine tiers of the release module, run in a child process with the tier forced. */
 export const TIER_FLAGS: Readonly<Record<string, readonly string[]>> = {
@@ -99,7 +95,7 @@ export function traceChild(): void {
 /** The compiled harness module to load in a child engine (dist/, also when this file runs from source). */
 function childModuleUrl(): string {
   const here = fileURLToPath(import.meta.url);
-  const path = here.endsWith(".js") ? here : join(ROOT, "dist", "harness", "verify", "compare.js");
+  const path = here.endsWith(".js") ? here : join(ROOT, "dist", "harness", "verify", "compare-builds.js");
   if (!existsSync(path)) throw new Error(`the tier comparison runs the compiled harness (${path}); run 'npm run build'`);
   return pathToFileURL(path).href;
 }
@@ -354,14 +350,14 @@ export function compareBuilds(builds: readonly CompareBuild[], allSpecs: readonl
   return { builds, comparisons, physical, states, missing };
 }
 
-function fig(x: number): string {
+export function fig(x: number): string {
   if (x === 0) return "0";
   if (!Number.isFinite(x)) return String(x);
   if (Number.isInteger(x) && Math.abs(x) < 1e9) return String(x);
   return x.toPrecision(3);
 }
 
-function table(head: string[], rows: string[][]): string[] {
+export function table(head: string[], rows: string[][]): string[] {
   const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i]!.length)));
   const line = (cells: string[]): string => cells.map((c, i) => c.padEnd(widths[i]!)).join("  ").trimEnd();
   return [line(head), line(widths.map((w) => "-".repeat(w))), ...rows.map(line)];
@@ -397,117 +393,3 @@ export function formatBuildsReport(rep: BuildsReport): string {
   return out.join("\n") + "\n";
 }
 
-// ---------------------------------------------------------------------------------------------------------
-// two CSV files
-
-export interface ColumnDiff {
-  readonly column: string;
-  readonly numeric: boolean;
-  readonly maxAbs: number;
-  readonly maxRel: number;
-  readonly maxUlp: number;
-  /** Rows whose cells differ at all (bits, or text). */
-  readonly differing: number;
-}
-
-export interface CsvComparison {
-  readonly rows: number;
-  readonly columns: readonly ColumnDiff[];
-  readonly tol: number;
-  /** The first row (1-based data row, with its line in each file) with a cell beyond the tolerance. */
-  readonly firstBeyond?: { readonly row: number; readonly lineA: number; readonly lineB: number; readonly column: string; readonly a: string; readonly b: string };
-}
-
-/** Compare two CSV texts of the same cases. Throws CsvError on different rows or columns. */
-export function compareCsv(textA: string, nameA: string, textB: string, nameB: string, tol = 0): CsvComparison {
-  const a = parseCsv(textA, nameA);
-  const b = parseCsv(textB, nameB);
-  const onlyA = a.columns.filter((c) => !b.columns.includes(c));
-  const onlyB = b.columns.filter((c) => !a.columns.includes(c));
-  if (onlyA.length || onlyB.length) {
-    throw new CsvError(`the files have different columns: ${onlyA.length ? `only in ${nameA}: ${onlyA.join(", ")}` : ""}${onlyA.length && onlyB.length ? "; " : ""}${onlyB.length ? `only in ${nameB}: ${onlyB.join(", ")}` : ""}`);
-  }
-  if (a.rows.length !== b.rows.length) throw new CsvError(`the files have different numbers of rows: ${nameA} has ${a.rows.length}, ${nameB} has ${b.rows.length}`);
-  let firstBeyond: CsvComparison["firstBeyond"];
-  const columns = a.columns.map((name, ca) => {
-    const cb = b.columns.indexOf(name);
-    let numeric = true;
-    let maxAbs = 0;
-    let maxRel = 0;
-    let maxUlp = 0;
-    let differing = 0;
-    for (let r = 0; r < a.rows.length; r++) {
-      const sa = a.rows[r]![ca]!;
-      const sb = b.rows[r]![cb]!;
-      const x = parseNumber(sa);
-      const y = parseNumber(sb);
-      let beyond = false;
-      if (x === undefined || y === undefined) {
-        if (x === undefined && y === undefined) numeric = false;
-        if (sa !== sb) {
-          differing++;
-          beyond = true;
-        }
-      } else if (!sameBits(x, y)) {
-        differing++;
-        const d = Number.isNaN(x) !== Number.isNaN(y) ? Infinity : Math.abs(x - y);
-        const dd = Number.isNaN(d) ? Infinity : d; // inf vs -inf
-        if (dd > maxAbs) maxAbs = dd;
-        const rel = x === 0 ? dd : dd / Math.abs(x);
-        if (rel > maxRel) maxRel = rel;
-        const u = ulpDistance(x, y);
-        if (u > maxUlp) maxUlp = u;
-        beyond = dd > tol;
-      }
-      if (beyond && (firstBeyond === undefined || r < firstBeyond.row - 1)) {
-        firstBeyond = { row: r + 1, lineA: a.lines[r]!, lineB: b.lines[r]!, column: name, a: sa, b: sb };
-      }
-    }
-    return { column: name, numeric, maxAbs, maxRel, maxUlp, differing };
-  });
-  return { rows: a.rows.length, columns, tol, firstBeyond };
-}
-
-export function formatCsvComparison(c: CsvComparison, nameA: string, nameB: string): string {
-  const out = [`areal compare: ${nameA} vs ${nameB}: ${c.rows} rows, ${c.columns.length} columns, tolerance ${c.tol} (absolute)`];
-  out.push(...table(["column", "differing rows", "max abs", "max rel", "max ulp"], c.columns.map((d) =>
-    [d.column, String(d.differing), d.numeric ? fig(d.maxAbs) : "(text)", d.numeric ? fig(d.maxRel) : "-", d.numeric ? fig(d.maxUlp) : "-"])));
-  const f = c.firstBeyond;
-  out.push("", f ? `first row beyond the tolerance: row ${f.row} (line ${f.lineA} of ${nameA}, line ${f.lineB} of ${nameB}), column ${f.column}: ${f.a} vs ${f.b}` : "no row differs beyond the tolerance.");
-  return out.join("\n") + "\n";
-}
-
-/** The `compare` command (cli.ts hands over its positionals and options). */
-export function compareCommand(pos: readonly string[], values: Record<string, unknown>, usage: (m: string) => Error): number {
-  const tolText = values.tol as string | undefined;
-  if (pos.length > 0) {
-    if (pos.length !== 2) throw usage(`compare takes two CSV files (got ${pos.length} names), or --builds`);
-    if (values.builds !== undefined) throw usage("compare: give either two CSV files or --builds, not both");
-    const tol = tolText === undefined ? 0 : Number(tolText);
-    if (tolText !== undefined && (!Number.isFinite(tol) || tol < 0 || tolText.trim() === "")) throw usage(`--tol: '${tolText}' is not a non-negative number`);
-    const [fa, fb] = pos as [string, string];
-    for (const f of [fa, fb]) if (!existsSync(f)) throw usage(`compare: no such file: ${f}`);
-    const c = compareCsv(readFileSync(fa, "utf8"), fa, readFileSync(fb, "utf8"), fb, tol);
-    process.stdout.write(formatCsvComparison(c, fa, fb));
-    if (values.json !== undefined) writeAtomic(values.json as string, JSON.stringify(c, null, 2) + "\n");
-    return c.firstBeyond ? 1 : 0;
-  }
-  if (tolText !== undefined) throw usage("--tol applies to comparing two CSV files");
-  const list = ((values.builds as string | undefined) ?? "f64,native,js,f32").split(",").map((s) => s.trim()).filter(Boolean);
-  for (const b of list) if (!isCompareBuild(b)) throw usage(`--builds: '${b}' is not one of f64, f32, js, native, debug, baseline, optimizing`);
-  if (list.length < 2) throw usage("--builds needs at least two builds (the first is the baseline)");
-  const suites = (values.suite as string[] | undefined) ?? [];
-  const specs = suites.length === 0 ? SPECS : suites.map((s) => {
-    const spec = SPECS.find((x) => x.suite === s);
-    if (!spec) throw usage(`--suite: unknown suite '${s}' (known: ${SPECS.map((x) => x.suite).join(", ")})`);
-    return spec;
-  });
-  const rep = compareBuilds(list as CompareBuild[], specs);
-  process.stdout.write(formatBuildsReport(rep));
-  if (values.json !== undefined) writeAtomic(values.json as string, JSON.stringify(rep, null, 2) + "\n");
-  // The release module under any engine tier and its native translation must agree bit for bit: exit 1 if not.
-  const exact = new Set(["f64", "native", "baseline", "optimizing"]);
-  const broken = exact.has(rep.builds[0]!) ? rep.comparisons.filter((c) => exact.has(c.build) && c.identical !== c.cases) : [];
-  for (const c of broken) process.stderr.write(`areal: ${c.build} is not bit-identical to ${c.baseline} on ${c.suite} (${c.cases - c.identical} case(s))\n`);
-  return broken.length ? 1 : 0;
-}

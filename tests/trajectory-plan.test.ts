@@ -1,7 +1,7 @@
 /**
- * `areal propagate --scenario FILE` and `areal eval integrate` through the real entry point (bin/areal.mjs as a
+ * `areal trajectory --plan FILE` and `areal eval integrate` through the real entry point (bin/areal.mjs as a
  * child process): the trajectory CSV, the CCSDS OEM (KVN form; layout per CCSDS 502.0-B-2, "Orbit Data Messages",
- * section on the OEM, recalled from memory), the exit code and message when a budget is broken, and bad scenarios.
+ * section on the OEM, recalled from memory), the exit code and message when a budget is broken, and bad plans.
  */
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { mkdtempSync, writeFileSync, readFileSync, existsSync, rmSync } from "node:fs";
@@ -9,9 +9,9 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { release, areal } from "./helpers.js";
-import { parseScenario } from "../harness/run/trajectory.js";
+import { parsePlan } from "../harness/run/trajectory.js";
 
-const DEMO = fileURLToPath(new URL("../examples/scenarios/kestrel-survey.json", import.meta.url));
+const DEMO = fileURLToPath(new URL("../examples/plans/marrowfield-survey.json", import.meta.url));
 let dir: string;
 
 function csvRows(path: string): { cols: string[]; rows: number[][] } {
@@ -19,7 +19,7 @@ function csvRows(path: string): { cols: string[]; rows: number[][] } {
   return { cols: lines[0]!.split(","), rows: lines.slice(1).map((l) => l.split(",").map(Number)) };
 }
 
-function scenario(changes: Record<string, unknown>): string {
+function planFile(changes: Record<string, unknown>): string {
   const sc = { ...JSON.parse(readFileSync(DEMO, "utf8")), ...changes };
   const p = join(dir, `sc-${Object.keys(changes).join("-") || "demo"}.json`);
   writeFileSync(p, JSON.stringify(sc));
@@ -27,22 +27,22 @@ function scenario(changes: Record<string, unknown>): string {
 }
 
 beforeAll(() => {
-  dir = mkdtempSync(join(tmpdir(), "areal-propagate-"));
+  dir = mkdtempSync(join(tmpdir(), "areal-trajectory-"));
 });
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-describe("areal propagate on the demo scenario", () => {
+describe("areal trajectory on the demo plan", () => {
   let res: ReturnType<typeof areal>;
   const csv = () => join(dir, "demo.csv");
   const oem = () => join(dir, "demo.oem");
   beforeAll(() => {
-    res = areal("propagate", "--scenario", DEMO, "--csv", csv(), "--oem", oem(), "--date", "2026-12-02");
+    res = areal("trajectory", "--plan", DEMO, "--csv", csv(), "--oem", oem(), "--date", "2026-12-02");
   });
 
   it("exits 0, writes both files, and draws no progress bar when stderr is not a terminal", () => {
     expect(res.err).not.toContain("\r");
     expect(res.code, res.err).toBe(0);
-    expect(res.err).toMatch(/propagate: 4320 steps/);
+    expect(res.err).toMatch(/trajectory: 4320 steps/);
     expect(existsSync(csv()) && existsSync(oem())).toBe(true);
   });
 
@@ -72,7 +72,7 @@ describe("areal propagate on the demo scenario", () => {
     const at = order.map((key) => lines.findIndex((l) => l === key || l.startsWith(`${key} `)));
     expect(at.every((i) => i > 0)).toBe(true);
     expect([...at].sort((a, b) => a - b)).toEqual(at);
-    expect(kv("OBJECT_NAME")).toBe("PETREL-2");
+    expect(kv("OBJECT_NAME")).toBe("QUILLWORT-2");
     expect(kv("TIME_SYSTEM")).toBe("UTC");
     const data = lines.slice(at[at.length - 1]! + 1).filter((l) => !l.startsWith("COMMENT"));
     expect(data.length).toBe(4320 / 3 + 1);
@@ -91,11 +91,11 @@ describe("areal propagate on the demo scenario", () => {
   });
 });
 
-describe("budgets and bad scenarios", () => {
+describe("budgets and bad plans", () => {
   it("a broken budget exits 1 and names the invariant and the first step over it (from the CSV)", () => {
-    const p = scenario({ budgets: { energy: 1e-10 }, duration: 3600 });
+    const p = planFile({ budgets: { energy: 1e-10 }, duration: 3600 });
     const c = join(dir, "tight.csv");
-    const r = areal("propagate", "--scenario", p, "--csv", c, "--oem", join(dir, "tight.oem"));
+    const r = areal("trajectory", "--plan", p, "--csv", c, "--oem", join(dir, "tight.oem"));
     expect(r.code, r.err).toBe(1);
     const { rows } = csvRows(c);
     const first = rows.find((row) => row[16]! > 1e-10)![0]!;
@@ -105,7 +105,7 @@ describe("budgets and bad scenarios", () => {
 
   it("bad fields are named; exit 2", () => {
     const cases: [Record<string, unknown>, RegExp][] = [
-      [{ metod: "rk4" }, /field 'metod' is not a scenario field/],
+      [{ metod: "rk4" }, /field 'metod' is not a plan field/],
       [{ method: "rk5" }, /field 'method' is 'rk5'; expected one of rk4, verlet, yoshida4, butcher6/],
       [{ duration: 30 }, /field 'duration' \(30 s\) is not a whole number of steps of 20 s/],
       [{ r: [1, 2] }, /field 'r' must be an array of three finite numbers/],
@@ -113,11 +113,11 @@ describe("budgets and bad scenarios", () => {
       [{ budgets: { energy: -1 } }, /field 'budgets.energy' must be a finite number >= 0/],
     ];
     // In process for each case (fast), then once through the command line for the exit code.
-    for (const [change, msg] of cases) expect(() => parseScenario(readFileSync(scenario(change), "utf8"), "sc.json")).toThrow(msg);
-    const r = areal("propagate", "--scenario", scenario(cases[1]![0]), "--csv", join(dir, "x.csv"), "--oem", join(dir, "x.oem"));
+    for (const [change, msg] of cases) expect(() => parsePlan(readFileSync(planFile(change), "utf8"), "sc.json")).toThrow(msg);
+    const r = areal("trajectory", "--plan", planFile(cases[1]![0]), "--csv", join(dir, "x.csv"), "--oem", join(dir, "x.oem"));
     expect(r.code).toBe(2);
     expect(r.err).toMatch(cases[1]![1]);
-    expect(areal("propagate").err).toMatch(/propagate needs --scenario FILE/);
+    expect(areal("trajectory").err).toMatch(/trajectory needs --plan FILE/);
   });
 });
 

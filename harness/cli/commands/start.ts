@@ -1,0 +1,20 @@
+/** `areal start` (what `npm start` runs): every suite on the release build, the demo, the report. */
+import { loadBuild } from "../../module/load.js";
+import { demoLines } from "../../run/demo.js";
+import { formatCheckTable } from "../../verify/summary.js";
+import type { Command } from "../options.js";
+import { runChecks, writeReport } from "../shared.js";
+
+export const startCommand: Command = {
+  summary: "check the release build against every suite, show the demo and write the report (what `npm start` runs)",
+  options: ["verbose", "report"],
+  async run(_pos, values) {
+    const k = loadBuild("f64");
+    const results = runChecks(k, []);
+    process.stdout.write(formatCheckTable(results, k, Boolean(values.verbose)) + "\n");
+    process.stdout.write(demoLines(k).join("\n") + "\n");
+    const rep = await writeReport((values.report as string | undefined) ?? "out/report", results, k);
+    process.stdout.write(`\nreport: ${rep.html} (open it in a browser; machine-readable: ${rep.json})\n`);
+    return results.every((r) => r.pass) ? 0 : 1;
+  },
+};
