@@ -66,4 +66,21 @@ describe("areal sweep and merge", () => {
     expect(areal("sweep", "kepler-parabolic", "--out", out).err).toMatch(/--grid/);
     expect(existsSync(out)).toBe(false);
   });
+
+  it("--resume keeps a part that already holds its whole shard, and reruns a broken or foreign one", () => {
+    const grid = file("grid-r.json", GRID);
+    const part = join(dir, "resume-2.json");
+    const args = ["sweep", "kepler-parabolic", "--grid", grid, "--shard", "2/3", "--workers", "1", "--out", part, "--resume"];
+    expect(areal(...args).code).toBe(0);
+    const first = readFileSync(part, "utf8");
+    const again = areal(...args);
+    expect(again.code).toBe(0);
+    expect(again.err).toMatch(/already holds it \(1333 cases\); kept/);
+    writeFileSync(part, first.slice(0, first.length / 2)); // a half-written part (a task killed mid-write elsewhere)
+    const broken = areal(...args);
+    expect(broken.err).not.toMatch(/already holds it/);
+    expect(readFileSync(part, "utf8")).toBe(first);
+    const other = areal("sweep", "kepler-parabolic", "--grid", grid, "--shard", "3/3", "--workers", "1", "--out", part, "--resume");
+    expect(other.err).not.toMatch(/already holds it/); // shard 3's run replaces shard 2's file
+  });
 });

@@ -2,7 +2,7 @@
  * The `transition` suite passes its limits (vectors/limits.json) on the release build: r, v as for propagate, and
  * each 3x3 block of Phi within max(1e-9, 10 cond_phi) of the largest entry of the scale-free Phi~ = D^-1 Phi D
  * against the independent reference (harness/reference/transition.ts: central differences of the decimal.js
- * propagation). The suite covers the orbit classes of issue 20 over up to 25 revolutions both ways; output
+ * propagation). The suite covers low, geostationary, Molniya-like, transfer, e = 0.999, hyperbolic and near-parabolic orbits over up to 25 revolutions both ways; output
  * mutants (one entry of Phi wrong in a small way) are rejected, so the check can fail.
  */
 import { describe, it, expect } from "vitest";
@@ -21,7 +21,7 @@ describe("transition suite against the decimal.js reference", () => {
     expect(r.reasons).toEqual([]);
     expect(r.statusFailures).toBe(0);
     expect(r.skipped).toBe(0);
-    // The issue's target for Phi~: 1e-9 of its largest entry.
+    // The target for Phi~: 1e-9 of its largest entry.
     expect(limitsFor("transition", "f64").max_abs).toBeLessThanOrEqual(1e-9);
   });
 

@@ -8,12 +8,14 @@
  */
 import { join, resolve } from "node:path";
 import { writeAtomic } from "../core/atomic.js";
-import type { SuiteResult } from "../verify/check.js";
+import type { SuiteResult, MetricResult } from "../verify/check.js";
 import { formatFigure } from "../verify/check.js";
 import { CAUTION } from "../verify/summary.js";
 import type { Kernels } from "../module/load.js";
 import { renderSvg, heatmapSpec, driftSpec, ulpHistogramSpec } from "./plots.js";
 import { errorMap, iterationMap, drift, buildHistograms } from "./data.js";
+import { provenanceOf, type Provenance } from "./provenance.js";
+import { ABI_TABLE } from "../module/abi-table.js";
 
 export interface ReportOptions {
   /** Builds compared with the release build in the ULP histograms (default js, and native when built). */
@@ -33,16 +35,73 @@ interface Section {
   readonly absent?: string;
 }
 
+/** The provenance as a two-column table. */
+function provenanceTable(p: Provenance, k: Kernels): string {
+  const rows: [string, string][] = [
+    ["module", `${p.module} (${k.realBytes === 8 ? "f64" : "f32"} reals)${p.module_file ? `, file ${p.module_file}` : ""}`],
+    ["module SHA-256", p.module_sha256 ?? "not a file (no digest)"],
+    ["commit", p.commit === null ? "not in a git checkout" : `${p.commit}${p.commit_dirty ? " with uncommitted changes" : ""}`],
+    ["areal version", p.areal_version],
+    ["Node.js / V8", `${p.node} / ${p.v8}`],
+    ["host", p.host],
+    ["generated", p.generated],
+  ];
+  return `<table class="prov"><tbody>${rows.map(([a, b]) => `<tr><th>${esc(a)}</th><td>${esc(b)}</td></tr>`).join("")}</tbody></table>`;
+}
+
 const esc = (s: string): string => s.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;");
 
-function suiteTable(results: readonly SuiteResult[]): string {
-  const rows = results.map((r) => {
-    const err = r.metrics.map((m) => `${esc(m.output)} ${formatFigure(m.max)} ${m.metric}`).join("; ");
-    const it = r.maxIterations !== undefined ? `${r.maxIterations} / ${r.meanIterations?.toFixed(2)}` : "-";
-    const verdict = !r.applicable ? "n/a" : r.pass ? "pass" : "FAIL";
-    return `<tr class="${verdict === "FAIL" ? "fail" : ""}"><td>${esc(r.suite)}</td><td>${r.cases - r.skipped}</td><td>${err}</td><td>${it}</td><td>${esc(r.reasons.join("; ") || "")}</td><td>${verdict}</td></tr>`;
+/** The unit of a routine's output column (from the ABI table), for the tables. */
+function unitOf(routine: string, output: string): string {
+  const x = ABI_TABLE.exports.find((e) => e.routine === routine);
+  const u = x?.outputs.find((o) => o.name === output)?.unit;
+  return u === undefined || u === "1" ? "" : u;
+}
+
+/** The limit of a metric as a reviewer reads it: the flat limit, and how conditioning widens it. */
+function limitText(r: SuiteResult, m: MetricResult): string {
+  const L = r.limits;
+  const flat = m.metric === "ulp" ? `${L.max_ulp ?? "-"} ulp` : m.metric === "rel" ? `${formatFigure(L.max_rel ?? NaN)} relative` : `${formatFigure(L.max_abs ?? NaN)} absolute`;
+  return L.cond_factor !== undefined ? `max(${flat}, ${L.cond_factor} x cond)` : flat;
+}
+
+/** One suite as table rows: one per compared output, with the measured worst, its limit and the verdict. */
+function suiteRows(r: SuiteResult): string[] {
+  const verdict = !r.applicable ? "n/a" : r.pass ? "pass" : "FAIL";
+  const cls = verdict === "FAIL" ? ` class="fail"` : "";
+  const it = r.maxIterations !== undefined ? `${r.maxIterations} (mean ${r.meanIterations?.toFixed(2)}; limit ${r.limits.max_iterations ?? "none"})` : "-";
+  const head = `<td rowspan="${Math.max(1, r.metrics.length)}">${esc(r.suite)}</td><td rowspan="${Math.max(1, r.metrics.length)}">${r.cases - r.skipped}${r.skipped ? ` (${r.skipped} not exact in this precision)` : ""}</td>`;
+  const tail = (n: number): string => `<td rowspan="${n}">${it}</td><td rowspan="${n}">${esc(r.limits.why ?? "")}${r.reasons.length ? `<br><strong>${esc(r.reasons.join("; "))}</strong>` : ""}</td><td rowspan="${n}">${verdict}</td>`;
+  if (r.metrics.length === 0) return [`<tr${cls}>${head}<td colspan="5">no value compared</td>${tail(1)}</tr>`];
+  return r.metrics.map((m, i) => {
+    const unit = unitOf(r.routine, m.output);
+    const cells = `<td>${esc(m.output)}${unit ? ` [${esc(unit)}]` : ""}</td><td>${formatFigure(m.max)} ${m.metric === "ulp" ? "ulp" : m.metric === "rel" ? "rel" : esc(unit || "abs")}</td><td>${formatFigure(m.maxAbs)}${unit ? ` ${esc(unit)}` : ""}</td><td>${esc(limitText(r, m))}</td><td>${formatFigure(m.maxRatio)}</td>`;
+    return `<tr${cls}>${i === 0 ? head : ""}${cells}${i === 0 ? tail(r.metrics.length) : ""}</tr>`;
   });
-  return `<table><thead><tr><th>suite</th><th>cases</th><th>max error</th><th>iterations max / mean</th><th>reasons</th><th>result</th></tr></thead><tbody>${rows.join("")}</tbody></table>`;
+}
+
+/** The suites grouped by the ABI table's families, one table each. */
+function suiteTables(results: readonly SuiteResult[]): string {
+  const groupOf = (r: SuiteResult): string => ABI_TABLE.exports.find((e) => e.routine === r.routine)?.group ?? "other";
+  const th = "<tr><th>suite</th><th>cases</th><th>output [unit]</th><th>worst error</th><th>worst |got - want|</th><th>limit</th><th>worst / limit</th><th>iterations max</th><th>why this limit; failures</th><th>result</th></tr>";
+  const groups = [...ABI_TABLE.groups, { name: "other", title: "Other" }];
+  return groups.map((g) => {
+    const rs = results.filter((r) => groupOf(r) === g.name);
+    if (rs.length === 0) return "";
+    return `<h3>${esc(g.title)}</h3><table><thead>${th}</thead><tbody>${rs.flatMap(suiteRows).join("")}</tbody></table>`;
+  }).join("\n");
+}
+
+/** The plain-language conclusion at the top: what was checked, what passed, what failed and why. */
+function summaryText(results: readonly SuiteResult[], k: Kernels): string {
+  const ran = results.filter((r) => r.applicable);
+  const failed = ran.filter((r) => !r.pass);
+  const na = results.length - ran.length;
+  const cases = ran.reduce((n, r) => n + r.cases - r.skipped, 0);
+  const lines = [`The ${esc(k.label)} build was run on ${cases.toLocaleString("en")} reference cases in ${ran.length} vector suites, each compared with values computed independently at 50 to 60 significant digits; a case passes when its error is within the suite's limit (a flat limit, widened where the problem itself is ill-conditioned by a stated factor times its conditioning) and its iteration count within the cap.`];
+  lines.push(failed.length === 0 ? `<strong>All ${ran.length} suites passed.</strong>` : `<strong>${failed.length} of ${ran.length} suites FAILED:</strong> ${failed.map((r) => `${esc(r.suite)} (${esc(r.reasons.join("; "))})`).join("; ")}.`);
+  if (na) lines.push(`${na} suite(s) were not applicable to this build (no case has inputs exact in its precision): neither passed nor failed.`);
+  return lines.join(" ");
 }
 
 const STYLE = `body{font-family:Helvetica,Arial,sans-serif;max-width:1100px;margin:2em auto;padding:0 1em;color:#222}
@@ -97,15 +156,17 @@ export async function writeReport(dir: string, results: readonly SuiteResult[], 
   }
 
   const pass = results.every((r) => r.pass);
-  const generated = new Date().toISOString();
+  const prov = provenanceOf(k.label);
+  const generated = prov.generated;
   const body = sections.map((s) => `<section id="${s.id}"><h2>${esc(s.title)}</h2>${s.svg ? `<p>${s.intro}</p><figure class="plot" data-plot="${s.id}">${s.svg}</figure>` : `<p class="absent">Not shown: ${esc(s.absent ?? "")}.</p>`}</section>`).join("\n");
   const html = `<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8"><title>areal verification report</title>
 <style>${STYLE}</style></head><body>
 <h1>areal verification report</h1>
 <p class="caution"><strong>Caution.</strong> ${esc(CAUTION)}</p>
-<p>Build <strong>${esc(k.label)}</strong> (${k.realBytes === 8 ? "f64" : "f32"} reals), generated ${esc(generated)}. Result: <strong>${pass ? "every suite passed" : "at least one suite FAILED"}</strong>. The same results are in areal-report.json beside this file.</p>
-<section id="suites"><h2>Vector suites</h2>${suiteTable(results)}</section>
+<section id="summary"><h2>Summary</h2><p>${summaryText(results, k)}</p></section>
+<section id="provenance"><h2>What was checked, with what</h2>${provenanceTable(prov, k)}</section>
+<section id="suites"><h2>Vector suites</h2><p>Errors in ulp are distances to the correctly rounded reference; relative errors are |got - want| / |want| (of the vector, for grouped outputs); units are those of the inputs (km, s, km^3/s^2 in the built-in suites). The same results are in areal-report.json beside this file.</p>${suiteTables(results)}</section>
 ${body}
 <p class="caution">${esc(CAUTION)}</p>
 <script>${CHECK_SCRIPT}</script>
@@ -113,7 +174,7 @@ ${body}
 `;
   const htmlPath = resolve(join(dir, "areal-report.html"));
   const jsonPath = resolve(join(dir, "areal-report.json"));
-  const json = { tool: "areal report", generated, build: k.label, real_bytes: k.realBytes, pass, caution: CAUTION, suites: results, sections: sections.map((s) => ({ id: s.id, title: s.title, shown: s.svg !== undefined, ...(s.absent ? { absent: s.absent } : {}) })), ...data };
+  const json = { tool: "areal report", generated, provenance: prov, build: k.label, real_bytes: k.realBytes, pass, caution: CAUTION, suites: results, sections: sections.map((s) => ({ id: s.id, title: s.title, shown: s.svg !== undefined, ...(s.absent ? { absent: s.absent } : {}) })), ...data };
   writeAtomic(htmlPath, html);
   writeAtomic(jsonPath, JSON.stringify(json, null, 2) + "\n");
   return { html: htmlPath, json: jsonPath };

@@ -82,6 +82,8 @@ function sincos(x: Dec): [Dec, Dec] {
   return [c.neg(), s];
 }
 const sin = (x: Dec): Dec => sincos(x)[0];
+/** 1 - cos x as 2 sin^2(x / 2): full relative precision at small x. */
+const oneMinusCos = (x: Dec): Dec => sin(x.div(2)).pow(2).times(2);
 const cos = (x: Dec): Dec => sincos(x)[1];
 
 /**
@@ -325,8 +327,8 @@ function anomalyOf(mu: Dec, r: V3, v: V3): { A: Dec; es: Dec; n: Dec; elliptic: 
 export function familyMember(mu: Dec, r1: V3, r2: V3, theta: Dec, p: Dec): { v1: V3; v2: V3 } {
   const r1n = norm(r1);
   const r2n = norm(r2);
-  const [st, ct] = sincos(theta);
-  const omc = ONE.minus(ct);
+  const st = sin(theta);
+  const omc = oneMinusCos(theta);
   const f = ONE.minus(r2n.times(omc).div(p));
   const g = r1n.times(r2n).times(st).div(mu.times(p).sqrt());
   const gdot = ONE.minus(r1n.times(omc).div(p));
@@ -361,7 +363,7 @@ export function familyTime(mu: Dec, r1: V3, r2: V3, theta: Dec, N: number, p: De
 export function ellipticPRange(r1: V3, r2: V3, theta: Dec): [Dec, Dec] {
   const r1n = norm(r1);
   const r2n = norm(r2);
-  const k = r1n.times(r2n).times(ONE.minus(cos(theta)));
+  const k = r1n.times(r2n).times(oneMinusCos(theta));
   const l = r1n.plus(r2n);
   const m = r1n.times(r2n).times(ONE.plus(cos(theta)));
   const s = m.times(2).sqrt();
@@ -427,7 +429,8 @@ interface FamilyF {
   r1n: number;
   r2n: number;
   st: number;
-  ct: number;
+  /** 1 - cos theta, from 2 sin^2(theta / 2) at 50 digits (no cancellation at small transfer angles). */
+  omc: number;
   N: number;
 }
 
@@ -445,7 +448,7 @@ function anomalyF(mu: number, r: N3, rn: number, v: number[]): { A: number; es: 
 
 /** familyTime in double precision (NaN where undefined). */
 function familyTimeF(F: FamilyF, p: number): number {
-  const omc = 1 - F.ct;
+  const omc = F.omc;
   const f = 1 - (F.r2n * omc) / p;
   const g = (F.r1n * F.r2n * F.st) / Math.sqrt(F.mu * p);
   const gdot = 1 - (F.r1n * omc) / p;
@@ -550,6 +553,9 @@ export function motionNormal(r1: V3, r2: V3, retrograde: number): V3 {
   return scale(h, new D(sgn).div(norm(h)));
 }
 
+/** Within this many radians of 180 degrees solveByP evaluates the family time in decimal, not in doubles. */
+const NEAR_PI_DOUBLE = 1e-3;
+
 /**
  * Lambert's problem by the p-iteration, as a starting guess (no guess needed): the semi-latus rectum p of the
  * solution for revs complete revolutions in the direction asked for, on the branch asked for when revs >= 1, in
@@ -560,9 +566,14 @@ export function solveByP(mu: number, r1: N3, r2: N3, tof: number, revs: number, 
   const R2 = vecExact(r2);
   const nhat = motionNormal(R1, R2, retrograde);
   const theta = transferAngle(R1, R2, nhat);
-  const th = theta.toNumber();
-  const fam: FamilyF = { mu, r1, r2, r1n: Math.hypot(...r1), r2n: Math.hypot(...r2), st: Math.sin(th), ct: Math.cos(th), N: revs };
-  const T = (p: number): number => familyTimeF(fam, p);
+  const fam: FamilyF = { mu, r1, r2, r1n: Math.hypot(...r1), r2n: Math.hypot(...r2), st: toDouble(sin(theta)), omc: toDouble(oneMinusCos(theta)), N: revs };
+  // Within NEAR_PI_DOUBLE of 180 degrees the family members cancel in double precision (r2 - f r1 and g both
+  // shrink with sin theta, and the elliptic p range with them): evaluate the family time in decimal there.
+  const M = exact(D, mu);
+  const nearPi = theta.minus(PI).abs().lt(NEAR_PI_DOUBLE);
+  const T = nearPi
+    ? (p: number): number => familyTime(M, R1, R2, theta, revs, exact(D, p))?.toNumber() ?? NaN
+    : (p: number): number => familyTimeF(fam, p);
   const shortWay = theta.lt(PI);
   const [piD, piiD] = ellipticPRange(R1, R2, theta);
   const pi = piD.toNumber();

@@ -12,7 +12,7 @@ import { GM_WGS84, orbitOf, stateOf, type Orbit, type OrbitClass } from "./twobo
 import type { Case, Comparison, VectorSpec } from "./types.js";
 
 const TWO_PI = 2 * Math.PI;
-/** Largest arc of an ellipse in the suite, in revolutions (issue 20). */
+/** Largest arc of an ellipse in the suite, in revolutions. */
 export const MAX_REVS = 25;
 
 export const TRANSITION_CLASSES = ["leo", "geo", "molniya", "gto", "e0999", "hyperbolic", "near-parabolic"] as const;
