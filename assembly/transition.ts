@@ -37,12 +37,12 @@
 // row-major, components x, y, z, vx, vy, vz; 42 = iterations (propagate's).
 // File-private scratch (module-level scalars, no memory): the coefficients of step 5 for one or two solutions.
 // Accuracy (release f64 build, vectors/transition.csv: 280 cases, up to 25 revolutions both ways, against central
-// differences of the 80-digit propagation reference, harness/reference/transition.ts), as the error of the
+// differences of the 60-digit propagation reference, harness/verify/reference/transition.ts), as the error of the
 // scale-free Phi~ = D^-1 Phi D (D = diag(L, L, L, V, V, V), L = |r0|, V = sqrt(mu / L)) over its largest entry:
 // low orbits 4.9e-14, geostationary 7.5e-14, Molniya-like 7.9e-13, transfer 1.8e-13, hyperbolic 2.4e-15, and
 // e = 0.999 3.8e-11 (23 revolutions, max |Phi~| 6e7, cond_phi 1.6e-10); near-parabolic 1.0e-4 where cond_phi
-// reaches 4e-4 (2 - r v^2 / mu cancels, as for propagate). Every case within max(1e-9, 10 cond_phi), the worst at
-// 0.072 of it. Hairpin hyperbolas through the periapsis anchor (tests/transition-hairpin.test.ts): 2e-15 to
+// reaches 3.7e-4 (2 - r v^2 / mu cancels, as for propagate). Every case within max(1e-9, 10 cond_phi), the worst at
+// 0.076 of it. Hairpin hyperbolas through the periapsis anchor (tests/transition-hairpin.test.ts): 2e-15 to
 // 1.1e-13. Symplectic defect |Phi~^T J Phi~ - J| at most 8.5e-16 max |Phi~|^2 on the suite.
 // f32 build (the suite's inputs rounded to binary32): 273 of 280 ok, 7 ERR_OVERFLOW, never ok with a non-finite
 // output; Phi~ within 2.3e-5 of its largest entry from the f64 result where that entry is at most 100.

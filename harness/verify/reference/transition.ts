@@ -10,14 +10,15 @@
  * h^2 / 6 |x'''|, its rounding error about 10^-(W - G) |x| / h for W working digits with G lost (the Newton stop
  * and the digits lost near e = 1, which `digitsFor` adds back). With h = 10^-STEP_EXP times the scale of the
  * component (L = |r0| for positions, V = sqrt(mu / L) for velocities) and W = WORK_DIGITS plus the near-parabolic
- * extra, the truncation error is about 10^-70 times the third derivative in scale-free units (below 1e12 even
- * for e = 0.999 over 25 revolutions, so 1e-58) and the rounding error about 10^-(80 - 6 - 35) = 1e-39 relative to
- * the largest entry: some 20 digits beyond the 1e-16 of a double. tests/transition-reference.test.ts checks it
- * against the Kepler-orbit closed forms of a circle, and that halving the step changes nothing at 1e-30.
+ * extra, the truncation error is about 10^-50 times the third derivative in scale-free units (below 1e12 even
+ * for e = 0.999 over 25 revolutions, so 1e-38) and the rounding error about 10^-(60 - 6 - 25) = 1e-29 relative to
+ * the largest entry: some 12 digits beyond the 1e-16 of a double. tests/transition-reference.test.ts checks it,
+ * at these settings, against the monodromy matrix over whole periods (a closed form) and checks that halving the
+ * step changes nothing at 1e-25.
  *
  * The conditioning figures are computed as in the other two-body suites: each input double moved one ulp up in
- * turn, everything recomputed (at COND_DIGITS with a step of 10^-COND_STEP_EXP: rounding about 1e-26 of the
- * largest entry, far below the 1e-16 changes measured), and the largest change kept: cond_r, cond_v relative;
+ * turn, everything recomputed (at COND_DIGITS, forward differences with a step of 10^-COND_STEP_EXP: rounding
+ * about 1e-22 of the largest entry, far below the 1e-16 changes measured), and the largest change kept: cond_r, cond_v relative;
  * cond_phi = max |delta Phi~|_F / max |Phi~_ij| for the scale-free Phi~ = D^-1 Phi D, D = diag(L, L, L, V, V, V).
  */
 import { Dec, decimalAt, exact, toDouble } from "./decimal.js";
@@ -27,12 +28,16 @@ import { sub, norm, type V3 } from "./vec3.js";
 type D = typeof Dec;
 
 /** Working digits of the reference Phi (plus those lost near e = 1, as for the propagation reference). */
-const WORK_DIGITS = 80;
+export const WORK_DIGITS = 60;
 /** Central-difference step: 10^-STEP_EXP of L for positions, of V for velocities. */
-const STEP_EXP = 35;
-/** Digits and step of the conditioning figures (a one-ulp change moves Phi~ by about 1e-16 of its largest entry). */
-const COND_DIGITS = 56;
-const COND_STEP_EXP = 24;
+export const STEP_EXP = 25;
+/**
+ * Digits and step of the conditioning figures (a one-ulp change moves Phi~ by about 1e-16 of its largest entry):
+ * forward differences, whose truncation error (about 1e-12 of Phi) is the same at x and at x + 1 ulp to 1e-28,
+ * so it drops out of the change; rounding about 1e-34 / 1e-12 = 1e-22.
+ */
+const COND_DIGITS = 40;
+const COND_STEP_EXP = 12;
 
 /** A state after dt and its transition matrix (row-major, 36 entries), at the precision of the clone. */
 export interface TransitionDec {
@@ -45,8 +50,11 @@ export interface TransitionDec {
   base: PropagationResult;
 }
 
-/** Phi by central differences of the propagation reference: column j from x0 +- 10^-stepExp (L or V) e_j. */
-export function transitionDec(P: D, ins: readonly Dec[], stepExp: number, guess?: Dec): TransitionDec {
+/**
+ * Phi by central differences of the propagation reference: column j from x0 +- 10^-stepExp (L or V) e_j (forward
+ * differences, x0 + h e_j against x0, when `forward`: for the conditioning figures).
+ */
+export function transitionDec(P: D, ins: readonly Dec[], stepExp: number, guess?: Dec, forward = false): TransitionDec {
   const base = propagateDec(P, ins, guess);
   const L = norm([ins[1]!, ins[2]!, ins[3]!]);
   const V = ins[0]!.div(L).sqrt();
@@ -61,8 +69,9 @@ export function transitionDec(P: D, ins: readonly Dec[], stepExp: number, guess?
       return [...q.r, ...q.v];
     };
     const plus = at(1);
-    const minus = at(-1);
-    for (let i = 0; i < 6; i++) phi[6 * i + j] = plus[i]!.minus(minus[i]!).div(h.times(2));
+    const minus = forward ? [...base.r, ...base.v] : at(-1);
+    const span = forward ? h : h.times(2);
+    for (let i = 0; i < 6; i++) phi[6 * i + j] = plus[i]!.minus(minus[i]!).div(span);
   }
   return { r: base.r, v: base.v, phi, L, V, base };
 }
@@ -110,14 +119,14 @@ function conditionTransition(x: readonly number[], anomaly: Dec): Dec[] {
   const C = decimalAt(digitsFor(x[0]!, x.slice(1, 4), x.slice(4, 7), COND_DIGITS));
   const ins = x.map((v) => exact(C, v));
   const guess = new C(anomaly);
-  const low = transitionDec(C, ins, COND_STEP_EXP, guess);
+  const low = transitionDec(C, ins, COND_STEP_EXP, guess, true);
   const lowTilde = scaleFree(low);
   const big = maxAbs(lowTilde);
   let cond = [new C(0), new C(0), new C(0)];
   for (let j = 0; j < x.length; j++) {
     const pert = ins.slice();
     pert[j] = exact(C, ulpUp(x[j]!));
-    const q = transitionDec(C, pert, COND_STEP_EXP, low.base.anomaly);
+    const q = transitionDec(C, pert, COND_STEP_EXP, low.base.anomaly, true);
     const qt = scaleFree(q);
     const dPhi = qt.reduce((s, e, k) => s.plus(e.minus(lowTilde[k]!).pow(2)), new C(0)).sqrt().div(big);
     const d = [relChange(q.r, low.r), relChange(q.v, low.v), dPhi];

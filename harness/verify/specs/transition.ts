@@ -3,7 +3,7 @@
  * geostationary, Molniya-like e = 0.74, geostationary transfer, e = 0.999, hyperbolic escape, near-parabolic on
  * both sides of e = 1), each propagated over up to 25 revolutions (ellipses) forwards or backwards. The reference
  * (harness/reference/transition.ts) is the high-precision propagation of harness/reference/twobody.ts,
- * differentiated by central differences at 80 digits; it shares nothing with the kernel's closed form.
+ * differentiated by central differences at 60 digits; it shares nothing with the kernel's closed form.
  * Earth's GM is the WGS 84 value (NIMA TR8350.2), km and s.
  */
 import { Rng } from "../../core/rng.js";
@@ -94,8 +94,8 @@ export const transitionSpec: VectorSpec = {
     }),
   ],
   iterations: "iterations",
-  generator: "areal vectors: harness/reference/transition.ts (decimal.js: the propagation reference of twobody.ts, Phi by central differences, step 1e-35 L or V at 80+ digits, exact input doubles)",
-  precision: "80 significant digits (more near e = 1) for r, v and Phi, rounded to nearest double; conditioning at 56",
+  generator: "areal vectors: harness/reference/transition.ts (decimal.js: the propagation reference of twobody.ts, Phi by central differences, step 1e-25 L or V at 60+ digits, exact input doubles)",
+  precision: "60 significant digits (more near e = 1) for r, v and Phi, rounded to nearest double; conditioning at 40 (forward differences)",
   notes: [
     "phi_ij = d(final component i) / d(initial component j), components x, y, z, vx, vy, vz",
     "Phi~ = D^-1 Phi D, D = diag(L, L, L, V, V, V), L = |r0|, V = sqrt(mu / L); scale_rr = max |Phi~_ij|, scale_rv = scale_rr L / V, scale_vr = scale_rr V / L",
