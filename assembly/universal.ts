@@ -171,6 +171,10 @@ export const UV_BY: i32 = 17;
 export const UV_BZ: i32 = 18;
 /** p = |h|^2 / mu, the semi-latus rectum. */
 export const UV_P: i32 = 19;
+/** k, the whole revolutions of an ellipse removed in step 3 (dt' = dt - k T before any anchoring), a real. */
+export const UV_REVS: i32 = 20;
+/** After step 7 (UV_ANCHORED = 1): chi_a, the universal anomaly from periapsis to r0 (else 0). */
+export const UV_CHI_ANCHOR: i32 = 21;
 
 // The file-private scratch behind universalGet (names as the UV_ constants).
 let uvChi: real = 0;
@@ -193,8 +197,10 @@ let uvBx: real = 0;
 let uvBy: real = 0;
 let uvBz: real = 0;
 let uvP: real = 0;
+let uvRevs: real = 0;
+let uvChiAnchor: real = 0;
 
-/** Value i (UV_CHI .. UV_P) of the last solveUniversal call (meaningful when it returned OK; see there). */
+/** Value i (UV_CHI .. UV_CHI_ANCHOR) of the last solveUniversal call (meaningful when it returned OK; see there). */
 export function universalGet(i: i32): real {
   switch (i) {
     case UV_CHI: return uvChi;
@@ -216,7 +222,9 @@ export function universalGet(i: i32): real {
     case UV_BX: return uvBx;
     case UV_BY: return uvBy;
     case UV_BZ: return uvBz;
-    default: return uvP;
+    case UV_P: return uvP;
+    case UV_REVS: return uvRevs;
+    default: return uvChiAnchor;
   }
 }
 
@@ -231,6 +239,8 @@ const NEEDS_ANCHOR: i32 = -1;
  */
 export function solveUniversal(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, dt: real): i32 {
   uvIter = 0;
+  uvRevs = 0;
+  uvChiAnchor = 0;
   if (!isFinite(dt)) return ERR_NONFINITE;
   const st = checkState(mu, r0x, r0y, r0z, v0x, v0y, v0z);
   if (st != OK) return st;
@@ -271,7 +281,8 @@ function withoutRevolutions(sqmu: real, alpha: real, dt: real): real {
     const T = TWO_PI / (sqmu * alpha * RMath.sqrt(alpha));
     if (isFinite(T) && abs(dt) > <real>0.5 * T) {
       if (abs(dt) * EPS > PHASE_ULP_MAX * T) return NaN; // dt no longer says where on the orbit: the caller's ERR_OVERFLOW
-      return dt - nearest(dt / T) * T;
+      uvRevs = nearest(dt / T);
+      return dt - uvRevs * T;
     }
   }
   return dt;
@@ -398,6 +409,7 @@ function timeFromPeriapsis(sqmu: real, alpha: real, rp: real, u1: real): real {
     const sa = RMath.sqrt(-alpha);
     chi = RMath.asinh(u1 * sa) / sa;
   }
+  uvChiAnchor = chi;
   let u3: real;
   const psi = alpha * chi * chi;
   if (psi < -U3_DIFF_PSI) {

@@ -73,6 +73,49 @@ typedef double areal_real;
 #define AREAL_SLOT_PROPAGATE_VY 4 /* length/time */
 #define AREAL_SLOT_PROPAGATE_VZ 5 /* length/time */
 #define AREAL_SLOT_PROPAGATE_ITERATIONS 6 /* count */
+#define AREAL_SLOT_TRANSITION_RX 0 /* length */
+#define AREAL_SLOT_TRANSITION_RY 1 /* length */
+#define AREAL_SLOT_TRANSITION_RZ 2 /* length */
+#define AREAL_SLOT_TRANSITION_VX 3 /* length/time */
+#define AREAL_SLOT_TRANSITION_VY 4 /* length/time */
+#define AREAL_SLOT_TRANSITION_VZ 5 /* length/time */
+#define AREAL_SLOT_TRANSITION_PHI_11 6 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_12 7 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_13 8 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_14 9 /* time */
+#define AREAL_SLOT_TRANSITION_PHI_15 10 /* time */
+#define AREAL_SLOT_TRANSITION_PHI_16 11 /* time */
+#define AREAL_SLOT_TRANSITION_PHI_21 12 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_22 13 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_23 14 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_24 15 /* time */
+#define AREAL_SLOT_TRANSITION_PHI_25 16 /* time */
+#define AREAL_SLOT_TRANSITION_PHI_26 17 /* time */
+#define AREAL_SLOT_TRANSITION_PHI_31 18 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_32 19 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_33 20 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_34 21 /* time */
+#define AREAL_SLOT_TRANSITION_PHI_35 22 /* time */
+#define AREAL_SLOT_TRANSITION_PHI_36 23 /* time */
+#define AREAL_SLOT_TRANSITION_PHI_41 24 /* 1/time */
+#define AREAL_SLOT_TRANSITION_PHI_42 25 /* 1/time */
+#define AREAL_SLOT_TRANSITION_PHI_43 26 /* 1/time */
+#define AREAL_SLOT_TRANSITION_PHI_44 27 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_45 28 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_46 29 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_51 30 /* 1/time */
+#define AREAL_SLOT_TRANSITION_PHI_52 31 /* 1/time */
+#define AREAL_SLOT_TRANSITION_PHI_53 32 /* 1/time */
+#define AREAL_SLOT_TRANSITION_PHI_54 33 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_55 34 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_56 35 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_61 36 /* 1/time */
+#define AREAL_SLOT_TRANSITION_PHI_62 37 /* 1/time */
+#define AREAL_SLOT_TRANSITION_PHI_63 38 /* 1/time */
+#define AREAL_SLOT_TRANSITION_PHI_64 39 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_65 40 /* 1 */
+#define AREAL_SLOT_TRANSITION_PHI_66 41 /* 1 */
+#define AREAL_SLOT_TRANSITION_ITERATIONS 42 /* count */
 #define AREAL_SLOT_ELEMENTS_A 0 /* length */
 #define AREAL_SLOT_ELEMENTS_E 1 /* 1 */
 #define AREAL_SLOT_ELEMENTS_I 2 /* rad */
@@ -122,6 +165,55 @@ typedef double areal_real;
 #define AREAL_SLOT_LAMBERT_V2Y 4 /* length/time */
 #define AREAL_SLOT_LAMBERT_V2Z 5 /* length/time */
 #define AREAL_SLOT_LAMBERT_ITERATIONS 6 /* count */
+#define AREAL_SLOT_LAMBERT_PARTIALS_V1X 0 /* length/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_V1Y 1 /* length/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_V1Z 2 /* length/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_V2X 3 /* length/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_V2Y 4 /* length/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_V2Z 5 /* length/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_R1X 6 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_R1Y 7 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_R1Z 8 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_R2X 9 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_R2Y 10 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_R2Z 11 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1X_D_TOF 12 /* length/time^2 */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_R1X 13 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_R1Y 14 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_R1Z 15 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_R2X 16 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_R2Y 17 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_R2Z 18 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Y_D_TOF 19 /* length/time^2 */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_R1X 20 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_R1Y 21 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_R1Z 22 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_R2X 23 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_R2Y 24 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_R2Z 25 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V1Z_D_TOF 26 /* length/time^2 */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_R1X 27 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_R1Y 28 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_R1Z 29 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_R2X 30 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_R2Y 31 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_R2Z 32 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2X_D_TOF 33 /* length/time^2 */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_R1X 34 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_R1Y 35 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_R1Z 36 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_R2X 37 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_R2Y 38 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_R2Z 39 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Y_D_TOF 40 /* length/time^2 */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_R1X 41 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_R1Y 42 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_R1Z 43 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_R2X 44 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_R2Y 45 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_R2Z 46 /* 1/time */
+#define AREAL_SLOT_LAMBERT_PARTIALS_D_V2Z_D_TOF 47 /* length/time^2 */
+#define AREAL_SLOT_LAMBERT_PARTIALS_ITERATIONS 48 /* count */
 #define AREAL_SLOT_GRAVITY_ZONAL_AX 0 /* length/time^2 */
 #define AREAL_SLOT_GRAVITY_ZONAL_AY 1 /* length/time^2 */
 #define AREAL_SLOT_GRAVITY_ZONAL_AZ 2 /* length/time^2 */
@@ -209,6 +301,8 @@ AREAL_API(mean_to_true) int32_t mean_to_true(areal_real e, areal_real M);
 AREAL_API(time_of_flight) int32_t time_of_flight(areal_real mu, areal_real p, areal_real e, areal_real nu1, areal_real nu2);
 /* two-body propagation by universal variables, any conic, dt of either sign. Slots: rx, ry, rz, vx, vy, vz, iterations. Returns a status. */
 AREAL_API(propagate) int32_t propagate(areal_real mu, areal_real r0x, areal_real r0y, areal_real r0z, areal_real v0x, areal_real v0y, areal_real v0z, areal_real dt);
+/* propagation with the 6x6 state transition matrix d(r, v) / d(r0, v0), any conic, dt of either sign. Slots: rx, ry, rz, vx, vy, vz, phi_11, phi_12, phi_13, phi_14, phi_15, phi_16, phi_21, phi_22, phi_23, phi_24, phi_25, phi_26, phi_31, phi_32, phi_33, phi_34, phi_35, phi_36, phi_41, phi_42, phi_43, phi_44, phi_45, phi_46, phi_51, phi_52, phi_53, phi_54, phi_55, phi_56, phi_61, phi_62, phi_63, phi_64, phi_65, phi_66, iterations. Returns a status. */
+AREAL_API(transition) int32_t transition(areal_real mu, areal_real r0x, areal_real r0y, areal_real r0z, areal_real v0x, areal_real v0y, areal_real v0z, areal_real dt);
 /* state -> classical elements a, e, i, RAAN, argp, nu (radians) and p; a = 0 marks a parabola. Slots: a, e, i, raan, argp, nu, p. Returns a status. */
 AREAL_API(elements) int32_t elements(areal_real mu, areal_real rx, areal_real ry, areal_real rz, areal_real vx, areal_real vy, areal_real vz);
 /* classical elements (a, or p in place of a for any conic) -> state. Slots: rx, ry, rz, vx, vy, vz. Returns a status. */
@@ -223,6 +317,8 @@ AREAL_API(from_equinoctial) int32_t from_equinoctial(areal_real mu, areal_real p
 AREAL_API(invariants) int32_t invariants(areal_real mu, areal_real rx, areal_real ry, areal_real rz, areal_real vx, areal_real vy, areal_real vz);
 /* Lambert's problem (Izzo 2015): v1, v2 from r1, r2, time of flight, complete revolutions, direction, branch. Slots: v1x, v1y, v1z, v2x, v2y, v2z, iterations. Returns a status. */
 AREAL_API(lambert) int32_t lambert(areal_real mu, areal_real r1x, areal_real r1y, areal_real r1z, areal_real r2x, areal_real r2y, areal_real r2z, areal_real tof, int32_t revs, int32_t retrograde, int32_t branch);
+/* Lambert's solution with its partials d(v1, v2) / d(r1, r2, tof) through the state transition matrix. Slots: v1x, v1y, v1z, v2x, v2y, v2z, d_v1x_d_r1x, d_v1x_d_r1y, d_v1x_d_r1z, d_v1x_d_r2x, d_v1x_d_r2y, d_v1x_d_r2z, d_v1x_d_tof, d_v1y_d_r1x, d_v1y_d_r1y, d_v1y_d_r1z, d_v1y_d_r2x, d_v1y_d_r2y, d_v1y_d_r2z, d_v1y_d_tof, d_v1z_d_r1x, d_v1z_d_r1y, d_v1z_d_r1z, d_v1z_d_r2x, d_v1z_d_r2y, d_v1z_d_r2z, d_v1z_d_tof, d_v2x_d_r1x, d_v2x_d_r1y, d_v2x_d_r1z, d_v2x_d_r2x, d_v2x_d_r2y, d_v2x_d_r2z, d_v2x_d_tof, d_v2y_d_r1x, d_v2y_d_r1y, d_v2y_d_r1z, d_v2y_d_r2x, d_v2y_d_r2y, d_v2y_d_r2z, d_v2y_d_tof, d_v2z_d_r1x, d_v2z_d_r1y, d_v2z_d_r1z, d_v2z_d_r2x, d_v2z_d_r2y, d_v2z_d_r2z, d_v2z_d_tof, iterations. Returns a status. */
+AREAL_API(lambert_partials) int32_t lambert_partials(areal_real mu, areal_real r1x, areal_real r1y, areal_real r1z, areal_real r2x, areal_real r2y, areal_real r2z, areal_real tof, int32_t revs, int32_t retrograde, int32_t branch);
 /* acceleration and potential energy of a point mass plus zonal J2, J3 (z along the symmetry axis). Slots: ax, ay, az, potential. Returns a status. */
 AREAL_API(gravity_zonal) int32_t gravity_zonal(areal_real mu, areal_real j2, areal_real j3, areal_real radius, areal_real x, areal_real y, areal_real z);
 /* fixed-step propagation (rk4, verlet, yoshida4, butcher6) with the invariants monitored on every step. Slots: rx, ry, rz, vx, vy, vz, energy_dev, h_dev, ecc_dev, areal_dev, energy_step, h_step, ecc_step, areal_step, k, t, energy, hx, hy, hz, ex, ey, ez, areal_velocity, energy_dev_now, h_dev_now, ecc_dev_now, areal_dev_now. Returns a status. */

@@ -463,6 +463,261 @@ export const ABI_TABLE: AbiTable = {
    ]
   },
   {
+   "name": "transition",
+   "group": "twobody",
+   "routine": "transition",
+   "summary": "propagation with the 6x6 state transition matrix d(r, v) / d(r0, v0), any conic, dt of either sign",
+   "params": [
+    {
+     "name": "mu",
+     "unit": "length^3/time^2",
+     "doc": "gravitational parameter"
+    },
+    {
+     "name": "r0x",
+     "unit": "length"
+    },
+    {
+     "name": "r0y",
+     "unit": "length"
+    },
+    {
+     "name": "r0z",
+     "unit": "length"
+    },
+    {
+     "name": "v0x",
+     "unit": "length/time"
+    },
+    {
+     "name": "v0y",
+     "unit": "length/time"
+    },
+    {
+     "name": "v0z",
+     "unit": "length/time"
+    },
+    {
+     "name": "dt",
+     "unit": "time",
+     "doc": "time step, either sign"
+    }
+   ],
+   "outputs": [
+    {
+     "name": "rx",
+     "unit": "length",
+     "doc": "position at t0 + dt, the same bits as propagate"
+    },
+    {
+     "name": "ry",
+     "unit": "length"
+    },
+    {
+     "name": "rz",
+     "unit": "length"
+    },
+    {
+     "name": "vx",
+     "unit": "length/time",
+     "doc": "velocity at t0 + dt, the same bits as propagate"
+    },
+    {
+     "name": "vy",
+     "unit": "length/time"
+    },
+    {
+     "name": "vz",
+     "unit": "length/time"
+    },
+    {
+     "name": "phi_11",
+     "unit": "1",
+     "doc": "state transition matrix, row-major: phi_ij = d(final component i) / d(initial component j), components x, y, z, vx, vy, vz"
+    },
+    {
+     "name": "phi_12",
+     "unit": "1",
+     "doc": "d x / d y0"
+    },
+    {
+     "name": "phi_13",
+     "unit": "1",
+     "doc": "d x / d z0"
+    },
+    {
+     "name": "phi_14",
+     "unit": "time",
+     "doc": "d x / d vx0"
+    },
+    {
+     "name": "phi_15",
+     "unit": "time",
+     "doc": "d x / d vy0"
+    },
+    {
+     "name": "phi_16",
+     "unit": "time",
+     "doc": "d x / d vz0"
+    },
+    {
+     "name": "phi_21",
+     "unit": "1",
+     "doc": "d y / d x0"
+    },
+    {
+     "name": "phi_22",
+     "unit": "1",
+     "doc": "d y / d y0"
+    },
+    {
+     "name": "phi_23",
+     "unit": "1",
+     "doc": "d y / d z0"
+    },
+    {
+     "name": "phi_24",
+     "unit": "time",
+     "doc": "d y / d vx0"
+    },
+    {
+     "name": "phi_25",
+     "unit": "time",
+     "doc": "d y / d vy0"
+    },
+    {
+     "name": "phi_26",
+     "unit": "time",
+     "doc": "d y / d vz0"
+    },
+    {
+     "name": "phi_31",
+     "unit": "1",
+     "doc": "d z / d x0"
+    },
+    {
+     "name": "phi_32",
+     "unit": "1",
+     "doc": "d z / d y0"
+    },
+    {
+     "name": "phi_33",
+     "unit": "1",
+     "doc": "d z / d z0"
+    },
+    {
+     "name": "phi_34",
+     "unit": "time",
+     "doc": "d z / d vx0"
+    },
+    {
+     "name": "phi_35",
+     "unit": "time",
+     "doc": "d z / d vy0"
+    },
+    {
+     "name": "phi_36",
+     "unit": "time",
+     "doc": "d z / d vz0"
+    },
+    {
+     "name": "phi_41",
+     "unit": "1/time",
+     "doc": "d vx / d x0"
+    },
+    {
+     "name": "phi_42",
+     "unit": "1/time",
+     "doc": "d vx / d y0"
+    },
+    {
+     "name": "phi_43",
+     "unit": "1/time",
+     "doc": "d vx / d z0"
+    },
+    {
+     "name": "phi_44",
+     "unit": "1",
+     "doc": "d vx / d vx0"
+    },
+    {
+     "name": "phi_45",
+     "unit": "1",
+     "doc": "d vx / d vy0"
+    },
+    {
+     "name": "phi_46",
+     "unit": "1",
+     "doc": "d vx / d vz0"
+    },
+    {
+     "name": "phi_51",
+     "unit": "1/time",
+     "doc": "d vy / d x0"
+    },
+    {
+     "name": "phi_52",
+     "unit": "1/time",
+     "doc": "d vy / d y0"
+    },
+    {
+     "name": "phi_53",
+     "unit": "1/time",
+     "doc": "d vy / d z0"
+    },
+    {
+     "name": "phi_54",
+     "unit": "1",
+     "doc": "d vy / d vx0"
+    },
+    {
+     "name": "phi_55",
+     "unit": "1",
+     "doc": "d vy / d vy0"
+    },
+    {
+     "name": "phi_56",
+     "unit": "1",
+     "doc": "d vy / d vz0"
+    },
+    {
+     "name": "phi_61",
+     "unit": "1/time",
+     "doc": "d vz / d x0"
+    },
+    {
+     "name": "phi_62",
+     "unit": "1/time",
+     "doc": "d vz / d y0"
+    },
+    {
+     "name": "phi_63",
+     "unit": "1/time",
+     "doc": "d vz / d z0"
+    },
+    {
+     "name": "phi_64",
+     "unit": "1",
+     "doc": "d vz / d vx0"
+    },
+    {
+     "name": "phi_65",
+     "unit": "1",
+     "doc": "d vz / d vy0"
+    },
+    {
+     "name": "phi_66",
+     "unit": "1",
+     "doc": "d vz / d vz0"
+    },
+    {
+     "name": "iterations",
+     "unit": "count",
+     "doc": "propagate's Laguerre or bisection steps"
+    }
+   ]
+  },
+  {
    "name": "elements",
    "group": "twobody",
    "routine": "elements",
@@ -953,6 +1208,311 @@ export const ABI_TABLE: AbiTable = {
      "name": "iterations",
      "unit": "count",
      "doc": "steps on x plus the Halley steps finding x_min"
+    }
+   ]
+  },
+  {
+   "name": "lambert_partials",
+   "group": "targeting",
+   "routine": "lambert-partials",
+   "summary": "Lambert's solution with its partials d(v1, v2) / d(r1, r2, tof) through the state transition matrix",
+   "params": [
+    {
+     "name": "mu",
+     "unit": "length^3/time^2"
+    },
+    {
+     "name": "r1x",
+     "unit": "length"
+    },
+    {
+     "name": "r1y",
+     "unit": "length"
+    },
+    {
+     "name": "r1z",
+     "unit": "length"
+    },
+    {
+     "name": "r2x",
+     "unit": "length"
+    },
+    {
+     "name": "r2y",
+     "unit": "length"
+    },
+    {
+     "name": "r2z",
+     "unit": "length"
+    },
+    {
+     "name": "tof",
+     "unit": "time",
+     "doc": "time of flight, > 0"
+    },
+    {
+     "name": "revs",
+     "type": "i32",
+     "unit": "count",
+     "default": 0,
+     "doc": "complete revolutions, >= 0"
+    },
+    {
+     "name": "retrograde",
+     "type": "i32",
+     "unit": "flag",
+     "default": 0,
+     "doc": "0: prograde (h_z > 0), 1: retrograde"
+    },
+    {
+     "name": "branch",
+     "type": "i32",
+     "enum": "branch",
+     "default": 0,
+     "doc": "revs >= 1: which of the two solutions"
+    }
+   ],
+   "outputs": [
+    {
+     "name": "v1x",
+     "unit": "length/time",
+     "doc": "lambert's v1"
+    },
+    {
+     "name": "v1y",
+     "unit": "length/time"
+    },
+    {
+     "name": "v1z",
+     "unit": "length/time"
+    },
+    {
+     "name": "v2x",
+     "unit": "length/time",
+     "doc": "lambert's v2"
+    },
+    {
+     "name": "v2y",
+     "unit": "length/time"
+    },
+    {
+     "name": "v2z",
+     "unit": "length/time"
+    },
+    {
+     "name": "d_v1x_d_r1x",
+     "unit": "1/time",
+     "doc": "partials row-major: rows v1x .. v2z, columns r1x, r1y, r1z, r2x, r2y, r2z, tof"
+    },
+    {
+     "name": "d_v1x_d_r1y",
+     "unit": "1/time",
+     "doc": "d v1x / d r1y"
+    },
+    {
+     "name": "d_v1x_d_r1z",
+     "unit": "1/time",
+     "doc": "d v1x / d r1z"
+    },
+    {
+     "name": "d_v1x_d_r2x",
+     "unit": "1/time",
+     "doc": "d v1x / d r2x"
+    },
+    {
+     "name": "d_v1x_d_r2y",
+     "unit": "1/time",
+     "doc": "d v1x / d r2y"
+    },
+    {
+     "name": "d_v1x_d_r2z",
+     "unit": "1/time",
+     "doc": "d v1x / d r2z"
+    },
+    {
+     "name": "d_v1x_d_tof",
+     "unit": "length/time^2",
+     "doc": "d v1x / d tof"
+    },
+    {
+     "name": "d_v1y_d_r1x",
+     "unit": "1/time",
+     "doc": "d v1y / d r1x"
+    },
+    {
+     "name": "d_v1y_d_r1y",
+     "unit": "1/time",
+     "doc": "d v1y / d r1y"
+    },
+    {
+     "name": "d_v1y_d_r1z",
+     "unit": "1/time",
+     "doc": "d v1y / d r1z"
+    },
+    {
+     "name": "d_v1y_d_r2x",
+     "unit": "1/time",
+     "doc": "d v1y / d r2x"
+    },
+    {
+     "name": "d_v1y_d_r2y",
+     "unit": "1/time",
+     "doc": "d v1y / d r2y"
+    },
+    {
+     "name": "d_v1y_d_r2z",
+     "unit": "1/time",
+     "doc": "d v1y / d r2z"
+    },
+    {
+     "name": "d_v1y_d_tof",
+     "unit": "length/time^2",
+     "doc": "d v1y / d tof"
+    },
+    {
+     "name": "d_v1z_d_r1x",
+     "unit": "1/time",
+     "doc": "d v1z / d r1x"
+    },
+    {
+     "name": "d_v1z_d_r1y",
+     "unit": "1/time",
+     "doc": "d v1z / d r1y"
+    },
+    {
+     "name": "d_v1z_d_r1z",
+     "unit": "1/time",
+     "doc": "d v1z / d r1z"
+    },
+    {
+     "name": "d_v1z_d_r2x",
+     "unit": "1/time",
+     "doc": "d v1z / d r2x"
+    },
+    {
+     "name": "d_v1z_d_r2y",
+     "unit": "1/time",
+     "doc": "d v1z / d r2y"
+    },
+    {
+     "name": "d_v1z_d_r2z",
+     "unit": "1/time",
+     "doc": "d v1z / d r2z"
+    },
+    {
+     "name": "d_v1z_d_tof",
+     "unit": "length/time^2",
+     "doc": "d v1z / d tof"
+    },
+    {
+     "name": "d_v2x_d_r1x",
+     "unit": "1/time",
+     "doc": "d v2x / d r1x"
+    },
+    {
+     "name": "d_v2x_d_r1y",
+     "unit": "1/time",
+     "doc": "d v2x / d r1y"
+    },
+    {
+     "name": "d_v2x_d_r1z",
+     "unit": "1/time",
+     "doc": "d v2x / d r1z"
+    },
+    {
+     "name": "d_v2x_d_r2x",
+     "unit": "1/time",
+     "doc": "d v2x / d r2x"
+    },
+    {
+     "name": "d_v2x_d_r2y",
+     "unit": "1/time",
+     "doc": "d v2x / d r2y"
+    },
+    {
+     "name": "d_v2x_d_r2z",
+     "unit": "1/time",
+     "doc": "d v2x / d r2z"
+    },
+    {
+     "name": "d_v2x_d_tof",
+     "unit": "length/time^2",
+     "doc": "d v2x / d tof"
+    },
+    {
+     "name": "d_v2y_d_r1x",
+     "unit": "1/time",
+     "doc": "d v2y / d r1x"
+    },
+    {
+     "name": "d_v2y_d_r1y",
+     "unit": "1/time",
+     "doc": "d v2y / d r1y"
+    },
+    {
+     "name": "d_v2y_d_r1z",
+     "unit": "1/time",
+     "doc": "d v2y / d r1z"
+    },
+    {
+     "name": "d_v2y_d_r2x",
+     "unit": "1/time",
+     "doc": "d v2y / d r2x"
+    },
+    {
+     "name": "d_v2y_d_r2y",
+     "unit": "1/time",
+     "doc": "d v2y / d r2y"
+    },
+    {
+     "name": "d_v2y_d_r2z",
+     "unit": "1/time",
+     "doc": "d v2y / d r2z"
+    },
+    {
+     "name": "d_v2y_d_tof",
+     "unit": "length/time^2",
+     "doc": "d v2y / d tof"
+    },
+    {
+     "name": "d_v2z_d_r1x",
+     "unit": "1/time",
+     "doc": "d v2z / d r1x"
+    },
+    {
+     "name": "d_v2z_d_r1y",
+     "unit": "1/time",
+     "doc": "d v2z / d r1y"
+    },
+    {
+     "name": "d_v2z_d_r1z",
+     "unit": "1/time",
+     "doc": "d v2z / d r1z"
+    },
+    {
+     "name": "d_v2z_d_r2x",
+     "unit": "1/time",
+     "doc": "d v2z / d r2x"
+    },
+    {
+     "name": "d_v2z_d_r2y",
+     "unit": "1/time",
+     "doc": "d v2z / d r2y"
+    },
+    {
+     "name": "d_v2z_d_r2z",
+     "unit": "1/time",
+     "doc": "d v2z / d r2z"
+    },
+    {
+     "name": "d_v2z_d_tof",
+     "unit": "length/time^2",
+     "doc": "d v2z / d tof"
+    },
+    {
+     "name": "iterations",
+     "unit": "count",
+     "doc": "lambert's iterations"
     }
    ]
   },

@@ -82,7 +82,7 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
     const slots = c.group?.map((o) => outIndex.get(o) ?? -1);
     if (slots?.includes(-1)) throw new Error(`suite ${spec.suite}: routine ${routine.name} lacks an output of group ${c.group!.join(",")}`);
     const refs = c.refGroup?.map((o) => col(v, o));
-    return { c, slot, ref: col(v, c.ref), cond: c.cond ? col(v, c.cond) : -1, revs: c.revs ? col(v, c.revs) : -1, slots, refs };
+    return { c, slot, ref: col(v, c.ref), cond: c.cond ? col(v, c.cond) : -1, revs: c.revs ? col(v, c.revs) : -1, scale: c.scale ? col(v, c.scale) : -1, slots, refs };
   });
   const acc = cmp.map(() => ({ max: 0, maxRatio: 0, maxAbs: 0, worst: undefined as Worst | undefined }));
   const rows = opts.rows ?? v.values.map((_, i) => i);
@@ -148,7 +148,9 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
         want = Math.sqrt(w2);
         got = want + absErr;
       }
-      const err = caseError(m.c.metric, got, want, absErr, single);
+      // An abs comparison with a scale column is judged relative to that case's scale (transition: the largest
+      // entry of the scale-free Phi~); every other metric as the suite says.
+      const err = m.c.metric === "abs" && m.scale >= 0 ? caseError("abs", got, want, absErr / Math.abs(row[m.scale]!), single) : caseError(m.c.metric, got, want, absErr, single);
       const lim = caseLimit(m.c, limits, m.cond >= 0 ? row[m.cond]! : undefined, m.revs >= 0 ? row[m.revs]! : 0, want);
       const ratio = lim > 0 ? err / lim : err > 0 ? Infinity : 0;
       if (absErr > a.maxAbs) a.maxAbs = absErr;

@@ -57,7 +57,7 @@ function newton(P: D, f: (x: Dec) => Dec, df: (x: Dec) => Dec, lo: Dec, hi: Dec,
 const COND_DIGITS = 34;
 
 /** Precision for a state: more digits as |alpha r0| -> 0 (near-parabolic). */
-function digitsFor(mu: number, r: readonly number[], v: readonly number[], base = BASE_DIGITS): number {
+export function digitsFor(mu: number, r: readonly number[], v: readonly number[], base = BASE_DIGITS): number {
   const P = decimalAt(40);
   const rv: V3 = [exact(P, r[0]!), exact(P, r[1]!), exact(P, r[2]!)];
   const vv: V3 = [exact(P, v[0]!), exact(P, v[1]!), exact(P, v[2]!)];
@@ -112,7 +112,7 @@ export interface PropagationResult {
   anomaly: Dec;
 }
 
-/** Kepler propagation of (r0, v0) by dt at the precision of P. */
+/** Kepler propagation of (r0, v0) by dt at the precision of P (also the transition-matrix reference's). */
 export function propagateDec(P: D, inputs: readonly Dec[], guess?: Dec): PropagationResult {
   const [mu, rx, ry, rz, vx, vy, vz, dt] = inputs as [Dec, Dec, Dec, Dec, Dec, Dec, Dec, Dec];
   const r0: V3 = [rx, ry, rz];

@@ -31,6 +31,11 @@ export interface Comparison {
   readonly condRelative?: boolean;
   /** Vector column with a revolution count; the relative limit scales by (1 + revs). */
   readonly revs?: string;
+  /**
+   * Vector column dividing the error before it is compared (`abs` only): the error becomes |got - want| / scale,
+   * for errors measured against a per-case size (the transition suite's largest scale-free entry).
+   */
+  readonly scale?: string;
   /** For vector comparisons: several output/ref columns taken together as one vector (norm of the difference). */
   readonly group?: readonly string[];
   readonly refGroup?: readonly string[];
