@@ -12,6 +12,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { arealIn } from "./helpers.js";
+import { leb, str, section, vec } from "./fixtures/hostile/modules.js";
 
 const SCENARIO = fileURLToPath(new URL("../examples/plans/marrowfield-survey.json", import.meta.url));
 let dir: string;
@@ -51,19 +52,6 @@ function bad(command: string, input: string, args: string[], message: RegExp, ou
 // ---------------------------------------------------------------------------------------------------------
 // hand-made modules
 
-const leb = (n: number): number[] => {
-  const out: number[] = [];
-  do {
-    let b = n & 0x7f;
-    n >>>= 7;
-    if (n) b |= 0x80;
-    out.push(b);
-  } while (n);
-  return out;
-};
-const str = (s: string): number[] => [...leb(s.length), ...Buffer.from(s, "utf8")];
-const section = (id: number, body: number[]): number[] => [id, ...leb(body.length), ...body];
-const vec = (items: number[][]): number[] => [...leb(items.length), ...items.flat()];
 
 /**
  * A module with the ABI's core exports (memory, areal_out = 0, areal_real_bytes = 8) and kernel exports of the

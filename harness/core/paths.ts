@@ -22,3 +22,14 @@ export const BUILD_FILES = {
   f32: join(BUILD_DIR, "areal-f32.wasm"),
   debug: join(BUILD_DIR, "areal-debug.wasm"),
 } as const;
+
+/**
+ * A compiled script of the harness (a worker or child-process entry) given by its path under harness/, e.g.
+ * "run/worker-entry.js": the file in dist/harness/, which this process also runs from when it runs compiled
+ * (from source under vitest the sources have no .js beside them). Throws naming the file when it is not built.
+ */
+export function compiledScript(underHarness: string, what: string): string {
+  const built = join(ROOT, "dist", "harness", ...underHarness.split("/"));
+  if (existsSync(built)) return built;
+  throw new Error(`${what} is not built (dist/harness/${underHarness}); run 'npm run build'`);
+}

@@ -5,11 +5,8 @@
  * the output of one. Memory is bounded by the number of jobs in flight, never by the size of the input.
  */
 import { Worker } from "node:worker_threads";
-import { existsSync } from "node:fs";
 import { availableParallelism } from "node:os";
-import { join } from "node:path";
-import { fileURLToPath } from "node:url";
-import { ROOT } from "./paths.js";
+import { compiledScript } from "./paths.js";
 
 /** Which module a worker loads: a built-in build by name, or a module file. */
 export interface KernelSource {
@@ -42,11 +39,7 @@ export function defaultWorkers(): number {
 
 /** The compiled worker script: beside this file in dist/, or dist/harness when this file runs from source. */
 function entryPath(): string {
-  const here = fileURLToPath(new URL("../run/worker-entry.js", import.meta.url));
-  if (existsSync(here)) return here;
-  const built = join(ROOT, "dist", "harness", "run", "worker-entry.js");
-  if (existsSync(built)) return built;
-  throw new Error("the worker script is not built (dist/harness/run/worker-entry.js); run 'npm run build'");
+  return compiledScript("run/worker-entry.js", "the worker script");
 }
 
 /** An error raised in a worker, carried back with its original name. */

@@ -10,9 +10,7 @@
  */
 import { Worker, MessageChannel, receiveMessageOnPort, type MessagePort } from "node:worker_threads";
 import { existsSync, readFileSync } from "node:fs";
-import { join } from "node:path";
-import { fileURLToPath } from "node:url";
-import { ROOT } from "../core/paths.js";
+import { compiledScript } from "../core/paths.js";
 import { ModuleError, type Kernels } from "./load.js";
 
 /** Default time limit of one call into a foreign module, start function included (seconds; --call-limit). */
@@ -45,11 +43,7 @@ export interface BoundedInit {
 }
 
 function entryPath(): string {
-  const here = fileURLToPath(new URL("./bounded-entry.js", import.meta.url));
-  if (existsSync(here)) return here;
-  const built = join(ROOT, "dist", "harness", "module", "bounded-entry.js");
-  if (existsSync(built)) return built;
-  throw new Error("the module worker script is not built (dist/harness/module/bounded-entry.js); run 'npm run build'");
+  return compiledScript("module/bounded-entry.js", "the module worker script");
 }
 
 /** Parse a --call-limit value (seconds, a positive number up to a day); the message names the flag. */

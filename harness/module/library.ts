@@ -18,8 +18,7 @@ import { closeSync, existsSync, mkdtempSync, openSync, readFileSync, readSync, r
 import { createRequire } from "node:module";
 import { constants, tmpdir } from "node:os";
 import { join, resolve } from "node:path";
-import { fileURLToPath } from "node:url";
-import { ROOT } from "../core/paths.js";
+import { compiledScript } from "../core/paths.js";
 import { ModuleError, type Kernels } from "./load.js";
 import { ROUTINES } from "./routines.js";
 import { ABI_VERSION, CORE_EXPORTS, OUT_SLOTS, kernelExports, kernelSignature, type ExportInfo, type ValType } from "./signatures.js";
@@ -128,11 +127,11 @@ export function librarySignatures(table: LibraryTable): Map<string, ExportInfo> 
 
 /** The compiled host script: beside this file in dist/, or dist/harness/module when this file runs from source. */
 function hostPath(): string {
-  const here = fileURLToPath(new URL("./library-host.js", import.meta.url));
-  if (existsSync(here)) return here;
-  const built = join(ROOT, "dist", "harness", "module", "library-host.js");
-  if (existsSync(built)) return built;
-  throw new ModuleError("the library host is not built (dist/harness/module/library-host.js); run 'npm run build'");
+  try {
+    return compiledScript("module/library-host.js", "the library host");
+  } catch (err) {
+    throw new ModuleError((err as Error).message);
+  }
 }
 
 /** Response: i32 status, u32 spare, OUT_SLOTS f64 slots. */
