@@ -57,6 +57,11 @@ export function run(k: Kernels, name: string, args: readonly number[], first?: n
   return [st, ...Array.from(k.out.slice(0, first ?? abiExport(name).outputs.length))];
 }
 
+/** Every output of the last call of `name`, in the ABI table's slot order (a copy). */
+export function outputsNow(k: Kernels, name: string): number[] {
+  return Array.from(k.out.slice(0, abiExport(name).outputs.length));
+}
+
 /** The named outputs of the last call of `name`, in the order asked. */
 export function outs(k: Kernels, name: string, ...names: string[]): number[] {
   const s = slotsOf(name, ...names);

@@ -14,7 +14,7 @@
  *    close to the f64 one.
  */
 import { describe, it, expect } from "vitest";
-import { release, single } from "./helpers.js";
+import { release, single, outputsNow } from "./helpers.js";
 import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
 import { transitionSpec } from "../harness/verify/specs/transition.js";
 import { sameBits } from "../harness/core/float.js";
@@ -34,7 +34,7 @@ interface Run {
 
 function transition(k: Kernels, x: readonly number[]): Run {
   const status = k.call("transition", x);
-  const out = Array.from(k.out.slice(0, 43));
+  const out = outputsNow(k, "transition");
   return { status, r: out.slice(0, 3), v: out.slice(3, 6), phi: out.slice(6, 42), iterations: out[42]! };
 }
 
@@ -103,7 +103,7 @@ describe("transition: properties of the flow on the vector cases", () => {
       const t = transition(k, x);
       const st = k.call("propagate", x);
       expect(t.status).toBe(st);
-      const p = Array.from(k.out.slice(0, 7));
+      const p = outputsNow(k, "propagate");
       [...t.r, ...t.v].forEach((y, i) => expect(sameBits(y, p[i]!), `slot ${i} of ${x.join(",")}`).toBe(true));
       expect(t.iterations).toBe(p[6]);
     }
