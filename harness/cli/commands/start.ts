@@ -4,6 +4,7 @@ import { demoLines } from "../../run/demo.js";
 import { formatCheckTable } from "../../verify/summary.js";
 import type { Command } from "../options.js";
 import { runChecks, writeReport } from "../shared.js";
+import { relative } from "node:path";
 
 export const startCommand: Command = {
   summary: "check the release build against every suite, show the demo and write the report (what `npm start` runs)",
@@ -14,7 +15,8 @@ export const startCommand: Command = {
     process.stdout.write(formatCheckTable(results, k, Boolean(values.verbose)) + "\n");
     process.stdout.write(demoLines(k).join("\n") + "\n");
     const rep = await writeReport((values.report as string | undefined) ?? "out/report", results, k);
-    process.stdout.write(`\nreport: ${rep.html} (open it in a browser; machine-readable: ${rep.json})\n`);
+    const shown = (p: string): string => (relative(process.cwd(), p).startsWith("..") ? p : relative(process.cwd(), p));
+    process.stdout.write(`\nreport: ${shown(rep.html)} (open it in a browser)\nmachine-readable: ${shown(rep.json)}\n`);
     return results.every((r) => r.verdict !== "fail") ? 0 : 1;
   },
 };
