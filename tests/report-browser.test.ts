@@ -78,12 +78,13 @@ describe("areal check --report", () => {
   it("has the suite table, an error map, an iteration map, and a plot or a stated reason for drift and builds", () => {
     expect(html).toContain("<td>kepler-elliptic</td>");
     const ids = json.sections.map((s) => s.id);
-    expect(ids).toEqual(["error-map", "iteration-map", "drift", "builds"]);
+    expect(ids).toEqual(["error-map", "iteration-map", "drift", "linearisation", "builds"]);
+    for (const id of ["summary", "provenance", "suites"]) expect(html).toContain(`<section id="${id}">`);
     for (const s of json.sections) {
       if (s.shown) expect(html).toContain(`data-plot="${s.id}"`);
       else expect(s.absent, s.id).toBeTruthy();
     }
-    expect(json.sections.filter((s) => s.id === "error-map" || s.id === "iteration-map").every((s) => s.shown)).toBe(true);
+    expect(json.sections.filter((s) => s.id === "error-map" || s.id === "iteration-map" || s.id === "linearisation").every((s) => s.shown)).toBe(true);
     expect((html.match(/<figure class="plot"/g) ?? []).length).toBe(json.sections.filter((s) => s.shown).length);
   });
 

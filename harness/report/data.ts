@@ -209,3 +209,50 @@ export async function buildHistograms(base: Kernels, builds: readonly string[], 
   }
   return { bars, notes, table };
 }
+
+/** One point of the linearisation plot: the miss of the linear guidance flown on the two-body problem. */
+export interface LinearPoint {
+  readonly chief: string;
+  readonly separation: number;
+  readonly miss: number;
+}
+
+/**
+ * Where linear relative-motion guidance is trustworthy: for an invented chief (a circular 7000 km orbit and an
+ * e = 0.1 one, mu of the Earth), a deputy `s` behind in-track and `s/2` radially out is sent to the chief's
+ * position in 0.4 of an orbit with the two impulses of rendezvous_linear; the first impulse is flown on the full
+ * two-body problem (from_relative, propagate of both, to_relative) and the miss distance at the end is the
+ * linearisation error. It grows with the square of the separation.
+ */
+export function linearisation(k: Kernels): LinearPoint[] | string {
+  for (const x of ["rendezvous_linear", "from_relative", "to_relative", "propagate"]) if (!k.has(x)) return `${k.label} has no ${x} export`;
+  const MU = 398600.4418; // km^3/s^2 (WGS 84 value, NIMA TR8350.2)
+  const RV = slotsOf("rendezvous_linear", "dv1x", "dv1y", "dv1z");
+  const FR = slotsOf("from_relative", "rdx", "rdy", "rdz", "vdx", "vdy", "vdz");
+  const TR = slotsOf("to_relative", "x", "y", "z");
+  const P = slotsOf("propagate", "rx", "ry", "rz", "vx", "vy", "vz");
+  const state = (s: Readonly<Record<string, number>>, names: readonly string[]): number[] => names.map((n) => k.out[s[n]!]!);
+  const points: LinearPoint[] = [];
+  for (const [chief, e] of [["circular, 7000 km", 0], ["e = 0.1, a = 7000 km", 0.1]] as const) {
+    const a = 7000;
+    const rc = [a * (1 - e), 0, 0];
+    const vc = [0, Math.sqrt((MU * (1 + e)) / (a * (1 - e))), 0];
+    const dt = 0.4 * 2 * Math.PI * Math.sqrt(a ** 3 / MU);
+    for (let j = 0; j <= 16; j++) {
+      const s = 0.01 * 10 ** (j / 4); // km: 10 m to 100 km
+      const rel0 = [s / 2, -s, 0, 0, 0, 0];
+      if (!isOk(k.call("rendezvous_linear", [MU, ...rc, ...vc, ...rel0, 0, 0, 0, dt]))) continue;
+      const dv1 = state(RV, ["dv1x", "dv1y", "dv1z"]);
+      if (!isOk(k.call("from_relative", [...rc, ...vc, ...rel0.slice(0, 3), ...rel0.slice(3).map((v, i) => v + dv1[i]!)]))) continue;
+      const dep = state(FR, ["rdx", "rdy", "rdz", "vdx", "vdy", "vdz"]);
+      if (!isOk(k.call("propagate", [MU, ...dep, dt]))) continue;
+      const depEnd = state(P, ["rx", "ry", "rz", "vx", "vy", "vz"]);
+      if (!isOk(k.call("propagate", [MU, ...rc, ...vc, dt]))) continue;
+      const chiefEnd = state(P, ["rx", "ry", "rz", "vx", "vy", "vz"]);
+      if (!isOk(k.call("to_relative", [...chiefEnd, ...depEnd]))) continue;
+      const [x, y, z] = state(TR, ["x", "y", "z"]);
+      points.push({ chief, separation: s, miss: Math.hypot(x!, y!, z!) });
+    }
+  }
+  return points.length > 0 ? points : "no transfer could be computed";
+}

@@ -12,8 +12,8 @@ import type { SuiteResult, MetricResult } from "../verify/check.js";
 import { formatFigure } from "../verify/check.js";
 import { CAUTION } from "../verify/summary.js";
 import type { Kernels } from "../module/load.js";
-import { renderSvg, heatmapSpec, driftSpec, ulpHistogramSpec } from "./plots.js";
-import { errorMap, iterationMap, drift, buildHistograms } from "./data.js";
+import { renderSvg, heatmapSpec, driftSpec, ulpHistogramSpec, linearisationSpec } from "./plots.js";
+import { errorMap, iterationMap, drift, buildHistograms, linearisation } from "./data.js";
 import { provenanceOf, type Provenance } from "./provenance.js";
 import { ABI_TABLE } from "../module/abi-table.js";
 
@@ -146,6 +146,14 @@ export async function writeReport(dir: string, results: readonly SuiteResult[], 
     sections.push({ id: "drift", title: "Invariant drift of the integrators",
       intro: `Relative deviation of the energy and of the angular momentum from step 0 (largest within each time block), for each fixed-step method on an invented unit orbit (mu = 1, a = 1, e = 0.1, 100 steps an orbit, ${orbits} orbits). A secular method grows; a symplectic one stays bounded.`,
       svg: await renderSvg(driftSpec("invariant deviation against time", dr.points)) });
+  }
+  const lin = linearisation(k);
+  if (typeof lin === "string") sections.push({ id: "linearisation", title: "Linear relative-motion guidance against the two-body problem", intro: "", absent: lin });
+  else {
+    data.linearisation = { scenario: "invented: circular and e = 0.1 chiefs at a = 7000 km, deputy s behind and s/2 out, sent to the chief in 0.4 orbit", points: lin };
+    sections.push({ id: "linearisation", title: "Linear relative-motion guidance against the two-body problem",
+      intro: "Two impulses from rendezvous_linear (Yamanaka-Ankersen 2002) for a deputy a separation s behind the chief in-track and s/2 radially out, sent to the chief's position in 0.4 of an orbit (invented chiefs: a circular 7000 km orbit and an e = 0.1 one). The first impulse is flown on the full two-body problem (from_relative, propagate, to_relative); the miss at the end is the linearisation error, growing with the square of the separation. docs/relative-motion.md has the tables and scripts/relative-linearisation.mjs takes your own geometry.",
+      svg: await renderSvg(linearisationSpec("miss distance of linear guidance against separation", lin)) });
   }
   const hb = await buildHistograms(k, opts.compareBuilds ?? ["js", "native"], opts.compareRows ?? 1500);
   if (typeof hb === "string") sections.push({ id: "builds", title: "Build comparison", intro: "", absent: hb });

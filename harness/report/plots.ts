@@ -118,3 +118,22 @@ export function ulpHistogramSpec(title: string, bars: readonly HistBar[]): TopLe
     ],
   } as TopLevelSpec;
 }
+
+/** Miss distance of linear guidance flown on the two-body problem against the initial separation, log-log. */
+export function linearisationSpec(title: string, points: readonly { chief: string; separation: number; miss: number }[]): TopLevelSpec {
+  return {
+    $schema: "https://vega.github.io/schema/vega-lite/v6.json",
+    title,
+    width: 520,
+    height: 280,
+    config: FONT,
+    data: { values: points.map((p) => ({ ...p, separation_m: p.separation * 1000, miss_m: Math.max(p.miss * 1000, 1e-9) })) },
+    mark: { type: "line", point: true },
+    encoding: {
+      x: { field: "separation_m", type: "quantitative", title: "initial separation (m)", scale: { type: "log" }, axis: { format: "~s" } },
+      y: { field: "miss_m", type: "quantitative", title: "miss distance after the transfer (m; floor 1e-9)", scale: { type: "log" }, axis: { format: ".0e" } },
+      color: { field: "chief", type: "nominal", title: "chief orbit" },
+      tooltip: [{ field: "chief" }, { field: "separation_m", title: "separation (m)" }, { field: "miss_m", title: "miss (m)" }],
+    },
+  } as TopLevelSpec;
+}
