@@ -21,6 +21,18 @@ import { WorkerPool, type KernelSource } from "../core/pool.js";
 
 export class EvalError extends Error {}
 
+/**
+ * The key under which the status counts of an eval also count the ok rows whose run broke an invariant budget
+ * (an integration output `*_step`, "the first step over the budget", of 0 or more): a broken budget is a
+ * failure of the run that the status alone does not show.
+ */
+export const BUDGET_BROKEN = "budget-broken";
+
+/** The output slots that name the first step over a budget (-1: none), for routines that have them. */
+function budgetSlots(routine: Routine): number[] {
+  return routine.outputs.flatMap((o, i) => (/_step$/.test(o) ? [i] : []));
+}
+
 /** How the columns of an input map to a kernel's arguments. */
 export interface Plan {
   readonly exportName: string;
@@ -391,6 +403,7 @@ export function evaluateLines(routine: Routine, plan: Plan, width: number, sourc
   const statuses: Record<string, number> = {};
   const nOut = routine.outputs.length;
   const failed = ",NaN".repeat(nOut) + ",";
+  const budgets = budgetSlots(routine);
   const a: number[] = new Array<number>(na).fill(0);
   let out = "";
   for (let r = 0; r < rows; r++) {
@@ -402,6 +415,7 @@ export function evaluateLines(routine: Routine, plan: Plan, width: number, sourc
     statuses[word] = (statuses[word] ?? 0) + 1;
     let line = trimmed[r] ? text.slice(starts[r], ends[r]).split(",").map((c) => c.trim()).join(",") : text.slice(starts[r], ends[r]);
     if (isOk(st)) {
+      if (budgets.some((i) => k.out[i]! >= 0)) statuses[BUDGET_BROKEN] = (statuses[BUDGET_BROKEN] ?? 0) + 1;
       for (let i = 0; i < nOut; i++) line += "," + cell(k.out[i]!);
       line += ",";
     } else line += failed;
