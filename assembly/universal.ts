@@ -254,8 +254,9 @@ export function solveUniversal(mu: real, r0x: real, r0y: real, r0z: real, v0x: r
   const alpha = <real>2.0 / r0 - v2 / mu;
   const p = hn * hn / mu;
   const sigma0 = rv / sqmu;
-  const dtr = withoutRevolutions(sqmu, alpha, dt);
-  if (isNaN(dtr)) return ERR_OVERFLOW;
+  const T = periodOf(sqmu, alpha);
+  if (phaseLost(T, dt)) return ERR_OVERFLOW;
+  const dtr = withoutRevolutions(T, dt);
   putAnchor(r0x, r0y, r0z, v0x, v0y, v0z, r0, sigma0, p, dtr, 0);
   uvAlpha = alpha;
   uvSqmu = sqmu;
@@ -274,16 +275,22 @@ export function solveUniversal(mu: real, r0x: real, r0y: real, r0z: real, v0x: r
   return universalFunctions();
 }
 
-// Step 3: dt less the nearest whole number of periods of an ellipse (alpha > 0); dt itself otherwise. NaN when
-// one ulp of dt exceeds PHASE_ULP_MAX of the period (no usable angle left).
-function withoutRevolutions(sqmu: real, alpha: real, dt: real): real {
-  if (alpha > 0) {
-    const T = TWO_PI / (sqmu * alpha * RMath.sqrt(alpha));
-    if (isFinite(T) && abs(dt) > <real>0.5 * T) {
-      if (abs(dt) * EPS > PHASE_ULP_MAX * T) return NaN; // dt no longer says where on the orbit: the caller's ERR_OVERFLOW
-      uvRevs = nearest(dt / T);
-      return dt - uvRevs * T;
-    }
+// The period of an ellipse (alpha > 0) from alpha; Infinity for the other conics (no whole revolutions).
+function periodOf(sqmu: real, alpha: real): real {
+  return alpha > 0 ? TWO_PI / (sqmu * alpha * RMath.sqrt(alpha)) : <real>Infinity;
+}
+
+// Step 3 guard: true when dt spans more than half a period and one ulp of it exceeds PHASE_ULP_MAX of the period
+// (no usable angle left: the caller returns ERR_OVERFLOW).
+function phaseLost(T: real, dt: real): bool {
+  return isFinite(T) && abs(dt) > <real>0.5 * T && abs(dt) * EPS > PHASE_ULP_MAX * T;
+}
+
+// Step 3: dt less the nearest whole number of periods T of an ellipse (recorded in uvRevs); dt itself otherwise.
+function withoutRevolutions(T: real, dt: real): real {
+  if (isFinite(T) && abs(dt) > <real>0.5 * T) {
+    uvRevs = nearest(dt / T);
+    return dt - uvRevs * T;
   }
   return dt;
 }

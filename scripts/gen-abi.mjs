@@ -79,12 +79,18 @@ function assemblyAbi() {
 }
 
 function harnessTable() {
+  // A shared layout is written once, as a constant each export using it refers to (a marker string in the JSON
+  // text replaced by the constant's name).
+  const layoutConst = (name) => `LAYOUT_${upper(name)}`;
+  const marker = (name) => `@@layout:${name}@@`;
   const data = { abi_version: table.abi_version, out_slots: table.out_slots, first_error: table.first_error,
     statuses: table.statuses, enums: table.enums, groups: table.groups,
-    exports: table.exports.map((x) => ({ ...x, outputs: outputsOf(x), layout: typeof x.outputs === "string" ? x.outputs : undefined })) };
-  return [`// ${HEAD}`, "/* eslint-disable */", "import type { AbiTable } from \"./abi-types.js\";", "",
-    `/** The ABI table (abi/areal.abi.json), with each export's output slots spelled out. */`,
-    `export const ABI_TABLE: AbiTable = ${JSON.stringify(data, null, 1)};`, ""].join("\n");
+    exports: table.exports.map((x) => ({ ...x, outputs: typeof x.outputs === "string" ? marker(x.outputs) : x.outputs, layout: typeof x.outputs === "string" ? x.outputs : undefined })) };
+  const text = JSON.stringify(data, null, 1).replace(/"@@layout:([^@]+)@@"/g, (m, name) => layoutConst(name));
+  const layouts = Object.entries(table.layouts).map(([name, outs]) => `/** The shared output layout ${name}. */\nconst ${layoutConst(name)}: readonly AbiOutput[] = ${JSON.stringify(outs, null, 1)};\n`);
+  return [`// ${HEAD}`, "/* eslint-disable */", "import type { AbiOutput, AbiTable } from \"./abi-types.js\";", "", ...layouts,
+    `/** The ABI table (abi/areal.abi.json), with each export's output slots (a shared layout by reference). */`,
+    `export const ABI_TABLE: AbiTable = ${text};`, ""].join("\n");
 }
 
 const CTYPE = { real: "areal_real", i32: "int32_t" };

@@ -9,7 +9,7 @@ import { readFileSync } from "node:fs";
 import { release } from "./helpers.js";
 import { exact, toDouble, decimalAt, type Dec } from "../harness/verify/reference/decimal.js";
 import { slotsOf } from "../harness/module/routines.js";
-import { ABI_TABLE } from "../harness/module/abi-table.js";
+import { enumValue } from "../harness/module/routines.js";
 
 const D = decimalAt(60);
 const W1 = new D(1).div(new D(2).minus(new D(2).pow(new D(1).div(3))));
@@ -54,7 +54,7 @@ describe("integrator coefficients against their closed forms", () => {
       vx = vx.plus(hk.div(2).times(ax));
       vy = vy.plus(hk.div(2).times(ay));
     }
-    const yoshida = ABI_TABLE.enums.find((e) => e.name === "method")!.values.find((v) => v.word === "yoshida4")!.value;
+    const yoshida = enumValue("method", "yoshida4");
     const k = release();
     const S = slotsOf("integrate", "rx", "ry", "vx", "vy");
     expect(k.call("integrate", [mu, 1, 0, 0, 0, 1.1, 0, h, 1, yoshida, 0, 0, 1, 0, 0, 0, 0])).toBe(0);

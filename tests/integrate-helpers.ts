@@ -1,6 +1,5 @@
 /** Helpers shared by tests/integrate-*.test.ts: plain-double element conversions used to make inputs and read results. */
-import { ABI_TABLE } from "../harness/module/abi-table.js";
-import { enumValue } from "../harness/module/routines.js";
+import { abiExport, enumValue } from "../harness/module/routines.js";
 import type { Kernels } from "../harness/module/load.js";
 
 /** The integrators by name, from the ABI table's method enumeration. */
@@ -14,7 +13,7 @@ export type Method = keyof typeof METHODS;
 
 /** Every slot of the integration calls by name (the ABI table's integration layout). */
 export const S: Readonly<Record<string, number>> = Object.fromEntries(
-  ABI_TABLE.exports.find((x) => x.name === "integrate_step")!.outputs.map((o, i) => [o.name, i]),
+  abiExport("integrate_step").outputs.map((o, i) => [o.name, i]),
 );
 /** Slot of a named integration output (throws for a name the layout does not have). */
 export function slot(name: string): number {

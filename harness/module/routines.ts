@@ -34,8 +34,8 @@ export interface Routine {
   readonly alternatives?: readonly { readonly exportName: string; readonly inputs: readonly InputSpec[] }[];
 }
 
-/** The word -> value map of an enumeration of the ABI table. */
-function choicesOf(name: string): Readonly<Record<string, number>> {
+/** The word -> value map of an enumeration of the ABI table (e.g. "method": rk4 -> 0, ...). */
+export function choicesOf(name: string): Readonly<Record<string, number>> {
   const e = ABI_TABLE.enums.find((x) => x.name === name);
   if (!e) throw new Error(`abi table: unknown enum ${name}`);
   return Object.fromEntries(e.values.map((v) => [v.word, v.value]));

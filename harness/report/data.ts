@@ -5,8 +5,7 @@
  */
 import type { Kernels } from "../module/load.js";
 import { SPECS } from "../verify/specs/index.js";
-import { findRoutine, slotsOf } from "../module/routines.js";
-import { ABI_TABLE } from "../module/abi-table.js";
+import { choicesOf, findRoutine, slotsOf } from "../module/routines.js";
 import { isOk } from "../module/status.js";
 import { readVectors, vectorPath, col, type VectorSet } from "../verify/vectors.js";
 import { ulpDistance, ulpDistance32 } from "../core/float.js";
@@ -108,7 +107,7 @@ export function iterationMap(k: Kernels): { cells: Cell[]; mean: number; worst: 
 }
 
 /** The integrators, in the order of the ABI table's method enumeration. */
-const METHODS: readonly [string, number][] = ABI_TABLE.enums.find((e) => e.name === "method")!.values.map((v) => [v.word, v.value]);
+const METHODS: readonly [string, number][] = Object.entries(choicesOf("method"));
 
 /** Energy and angular-momentum deviation against time for each integrator on an invented unit orbit. */
 export function drift(k: Kernels, orbits: number): { points: DriftPoint[]; summary: Record<string, Record<string, number>> } | string {

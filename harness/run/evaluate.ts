@@ -415,7 +415,7 @@ export function evaluateLines(routine: Routine, plan: Plan, width: number, sourc
     statuses[word] = (statuses[word] ?? 0) + 1;
     let line = trimmed[r] ? text.slice(starts[r], ends[r]).split(",").map((c) => c.trim()).join(",") : text.slice(starts[r], ends[r]);
     if (isOk(st)) {
-      if (budgets.some((i) => k.out[i]! >= 0)) statuses[BUDGET_BROKEN] = (statuses[BUDGET_BROKEN] ?? 0) + 1;
+      if (budgets.length > 0 && budgets.some((i) => k.out[i]! >= 0)) statuses[BUDGET_BROKEN] = (statuses[BUDGET_BROKEN] ?? 0) + 1;
       for (let i = 0; i < nOut; i++) line += "," + cell(k.out[i]!);
       line += ",";
     } else line += failed;

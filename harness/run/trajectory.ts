@@ -11,13 +11,12 @@ import { parseJsonText } from "../core/json.js";
 import type { Kernels } from "../module/load.js";
 import { statusWord } from "../module/status.js";
 import { shortest } from "../core/float.js";
-import { ABI_TABLE } from "../module/abi-table.js";
-import { slotsOf } from "../module/routines.js";
+import { abiExport, choicesOf, slotsOf } from "../module/routines.js";
 
 export class PlanError extends Error {}
 
 /** The integrators by name (the ABI table's method enumeration). */
-export const METHODS: Readonly<Record<string, number>> = Object.fromEntries(ABI_TABLE.enums.find((e) => e.name === "method")!.values.map((v) => [v.word, v.value]));
+export const METHODS: Readonly<Record<string, number>> = choicesOf("method");
 export type MethodName = string;
 /** Output slots of the integration calls (the ABI table's integration layout). */
 const S = slotsOf("integrate_step", "rx", "ry", "rz", "vx", "vy", "vz", "energy_dev", "h_dev", "ecc_dev", "areal_dev",
@@ -214,7 +213,7 @@ const ROWS_PER_CHUNK = 20_000;
 
 /** One header line per CSV column: its meaning and unit, from the ABI table's integration layout. */
 function columnNotes(): string[] {
-  const outs = ABI_TABLE.exports.find((x) => x.name === "integrate_step")!.outputs;
+  const outs = abiExport("integrate_step").outputs;
   const unit = (u: string): string => u.replace(/length/g, "km").replace(/time/g, "s");
   return CSV_COLUMNS.map((c, i) => {
     const o = outs[CSV_SLOTS[i]!]!;
