@@ -7,11 +7,12 @@
  * here hung, wrote a wrong file or passed with exit 0 before (issue 16's table).
  */
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
-import { spawnSync } from "node:child_process";
+import { spawn, spawnSync } from "node:child_process";
 import { mkdtempSync, writeFileSync, readFileSync, existsSync, readdirSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { BIN } from "./helpers.js";
+import { ownThreadId, threadCpuMs } from "../harness/core/thread-cpu.js";
 import { HOSTILE } from "./fixtures/hostile/modules.js";
 
 let dir: string;
@@ -83,10 +84,63 @@ describe("every call into a module is bounded in time", () => {
     expect(r.err).toMatch(/grows-memory-a-lot\.wasm: the module's memory grew to 512 MB in kepler_elliptic\(0\.1, 1\), over the limit of 256 MB/);
   });
 
+  it("a kernel that blocks without running (an atomic wait on its own shared memory) is stopped by the wall-time cap", () => {
+    const r = areal("eval", "kepler-elliptic", "-i", input(), "-o", join(dir, "out.csv"), "--module", mod("waits-forever"), "--call-limit", "0.1", "--workers", "1");
+    expect(r.timedOut).toBe(false);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/waits-forever\.wasm: kepler_elliptic\(0\.1, 1\) did not return within 1 s of wall time \(10 x --call-limit 0\.1 s, the wall-time cap\)/);
+    expect(existsSync(join(dir, "out.csv"))).toBe(false);
+    noLeftovers();
+  });
+
+  // The limit counts the module thread's CPU time: a process stopped (SIGSTOP) for longer than the limit in the
+  // middle of a slow but correct call must not report a time-out when it resumes. With the limit in wall time
+  // (the previous code) three of four runs of this scene ended in a false time-out.
+  it.runIf(process.platform === "linux")("a process paused longer than the limit during calls finishes without a false time-out", async () => {
+    const rows = ["e,M", ...Array.from({ length: 60 }, () => "0.1,1")].join("\n") + "\n";
+    const csv = join(dir, "slow-rows.csv");
+    writeFileSync(csv, rows);
+    const child = spawn(process.execPath, [BIN, "eval", "kepler-elliptic", "-i", csv, "--module", mod("slow"), "--call-limit", "0.2", "--workers", "1"], { cwd: dir, env: { ...process.env, NO_COLOR: "1" } });
+    let out = "";
+    let err = "";
+    child.stdout.on("data", (b: Buffer) => (out += b.toString()));
+    child.stderr.on("data", (b: Buffer) => (err += b.toString()));
+    let pauses = 0;
+    // Pause 0.6 s (three times the limit) after every 0.3 s of running, until the run ends.
+    const pauser = setInterval(() => {
+      if (child.exitCode !== null || child.signalCode !== null) return;
+      child.kill("SIGSTOP");
+      pauses++;
+      setTimeout(() => child.kill("SIGCONT"), 600);
+    }, 900);
+    const code = await new Promise<number | null>((done) => child.on("close", (c) => done(c)));
+    clearInterval(pauser);
+    expect(err).toBe("");
+    expect(code).toBe(0);
+    expect(out.split("\n").filter((l) => l.endsWith(",ok"))).toHaveLength(60);
+    expect(pauses).toBeGreaterThan(0);
+  }, 120_000);
+
   it("--call-limit takes seconds above 0; a bad value names the flag", () => {
     const r = areal("eval", "kepler-elliptic", "-i", input(), "--module", mod("grows-memory"), "--call-limit", "0");
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/--call-limit: '0' is not a number of seconds/);
+  });
+});
+
+describe("the CPU time of one thread (the clock of --call-limit)", () => {
+  it.runIf(process.platform === "linux")("grows with the thread's own work and is unknown for a thread that does not exist", () => {
+    const tid = ownThreadId();
+    expect(tid).toBeGreaterThan(0);
+    const before = threadCpuMs(tid!)!;
+    const t0 = Date.now();
+    let x = 0;
+    while (Date.now() - t0 < 300) x += Math.sqrt(x + 1);
+    expect(x).toBeGreaterThan(0);
+    // 300 ms of wall time spent computing: at least a tick (10 ms) of CPU even on a loaded machine.
+    expect(threadCpuMs(tid!)! - before).toBeGreaterThanOrEqual(10);
+    expect(threadCpuMs(0)).toBeUndefined();
+    expect(threadCpuMs(2 ** 30)).toBeUndefined();
   });
 });
 

@@ -31,7 +31,7 @@ export const OPTIONS = {
   ignore: { type: "string", multiple: true, value: "COL", help: "compare a.csv b.csv: leave this column out (repeatable)" },
   only: { type: "string", multiple: true, value: "COL", help: "compare a.csv b.csv: compare only this column (repeatable)" },
   module: { type: "string", value: "FILE", help: "an external WebAssembly module following docs/abi.md" },
-  "call-limit": { type: "string", value: "SECONDS", help: "--module: time limit of each call into the module, its start function included (default 10); a call over it stops the run" },
+  "call-limit": { type: "string", value: "SECONDS", help: "--module: CPU-time limit of each call into the module, its start function included (default 10; wall time capped at 10x); a call over it stops the run" },
   library: { type: "string", value: "FILE.so", help: "a native shared library with the ABI of include/areal.h, run in a child process (a crash is reported with the call)" },
   limits: { type: "string", value: "FILE", help: "check: your own limits, JSON {suite or \"*\": {max_ulp|max_rel|max_abs, max_iterations (null: no cap), why}} over the default (areal's limits for areal's builds; accuracy only, no iteration cap, for --module and --library)" },
   suite: { type: "string", multiple: true, value: "NAME", help: "limit to this vector suite (repeatable)" },

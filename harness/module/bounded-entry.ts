@@ -6,6 +6,7 @@
  * state says `failed`, so the waiting thread finds the message with receiveMessageOnPort.
  */
 import { workerData } from "node:worker_threads";
+import { ownThreadId } from "../core/thread-cpu.js";
 import { instantiate, ModuleError, type Kernels } from "./load.js";
 import { CTRL, SHARED, STATE, callText, type BoundedInfo, type BoundedInit } from "./bounded.js";
 
@@ -62,6 +63,7 @@ function serve(k: Kernels): void {
   }
 }
 
+Atomics.store(ctrl, CTRL.tid, ownThreadId() ?? 0);
 answer(STATE.started);
 let k: Kernels | undefined;
 try {

@@ -1,15 +1,19 @@
 /**
  * Calling a module the harness did not write (`--module`) with every call bounded in time and memory. The
  * module runs in a worker thread of its own (bounded-entry.ts); a call is handed over through shared memory
- * and this thread waits for the answer with Atomics.wait and a time limit, so `call` stays synchronous like a
- * direct WebAssembly call. A call (or the module's start function) that does not return within the limit has
- * its worker terminated, which stops any WebAssembly code, and throws a ModuleError naming the module, the
- * export and the inputs. After each call the worker copies the output slots out of the module's memory as it
- * is then (a module may grow its memory) and refuses a module whose memory has grown past MEMORY_LIMIT_BYTES.
+ * and this thread waits for the answer with Atomics.wait, so `call` stays synchronous like a direct WebAssembly
+ * call. The limit counts the CPU time of the module's thread where the system reports it (Linux: the thread's
+ * /proc stat), so a paused or starved process does not time out a call that is merely waiting for a core; a
+ * wall-time cap of WALL_CAP_FACTOR times the limit bounds a module that blocks without running. A call (or the
+ * module's start function) over either bound has its worker terminated, which stops any WebAssembly code, and
+ * throws a ModuleError naming the module, the export, the inputs and the bound. After each call the worker
+ * copies the output slots out of the module's memory as it is then (a module may grow its memory) and refuses a
+ * module whose memory has grown past MEMORY_LIMIT_BYTES.
  * Built-in builds do not come here: their kernels are ours, bounded by their iteration caps (load.ts).
  */
 import { Worker, MessageChannel, receiveMessageOnPort, type MessagePort } from "node:worker_threads";
 import { existsSync, readFileSync } from "node:fs";
+import { threadCpuMs } from "../core/thread-cpu.js";
 import { compiledScript } from "../core/paths.js";
 import { ModuleError, type Kernels } from "./load.js";
 
@@ -19,11 +23,15 @@ export const DEFAULT_CALL_LIMIT_S = 10;
 export const MEMORY_LIMIT_BYTES = 256 * 1024 * 1024;
 /** How long a worker thread may take to start, before the module's own time counts (ours, not the module's). */
 const WORKER_START_MS = 60_000;
+/** A call may take this many times its limit in wall time, whatever CPU it used (a module blocked in a wait). */
+export const WALL_CAP_FACTOR = 10;
+/** The shortest wait between two readings of the thread's CPU time (milliseconds). */
+const MIN_SLICE_MS = 20;
 
 /** Layout of the shared buffer: control words, then the arguments, then the output slots (as f64). */
 export const SHARED = { ctrlWords: 16, maxArgs: 32, outSlots: 64, argsByte: 64, outByte: 64 + 8 * 32, bytes: 64 + 8 * 32 + 8 * 64 } as const;
 /** Control word indices. */
-export const CTRL = { state: 0, fn: 1, nargs: 2, status: 3 } as const;
+export const CTRL = { state: 0, fn: 1, nargs: 2, status: 3, tid: 4 } as const;
 /** States of the control word `state`. */
 export const STATE = { boot: 0, started: 1, idle: 2, request: 3, done: 4, failed: 5 } as const;
 
@@ -52,6 +60,38 @@ export function parseCallLimit(v: string | undefined, flag = "--call-limit"): nu
   const s = Number(v);
   if (!/^\s*[0-9.eE+-]+\s*$/.test(v) || !Number.isFinite(s) || s <= 0 || s > 86400) throw new ModuleError(`${flag}: '${v}' is not a number of seconds above 0 and up to 86400`);
   return s;
+}
+
+/** Which bound a wait ended on: the answer came, the CPU-time limit, or the wall-time cap. */
+type WaitEnd = "answered" | "cpu" | "wall";
+
+/**
+ * Wait until the worker leaves state `from`, for at most `limitMs` of the worker thread's CPU time (wall time
+ * where the system does not report a thread's CPU time) and WALL_CAP_FACTOR * limitMs of wall time.
+ */
+function awaitAnswer(ctrl: Int32Array, from: number, limitMs: number): WaitEnd {
+  const tid = Atomics.load(ctrl, CTRL.tid);
+  const cpu0 = threadCpuMs(tid);
+  const t0 = performance.now();
+  const capMs = WALL_CAP_FACTOR * limitMs;
+  let slice = limitMs;
+  for (;;) {
+    Atomics.wait(ctrl, CTRL.state, from, slice);
+    if (Atomics.load(ctrl, CTRL.state) !== from) return "answered";
+    const wall = performance.now() - t0;
+    const cpu = threadCpuMs(tid);
+    const used = cpu0 === undefined || cpu === undefined ? wall : cpu - cpu0;
+    if (used >= limitMs) return "cpu";
+    if (wall >= capMs) return "wall";
+    slice = Math.max(MIN_SLICE_MS, Math.min(limitMs - used, capMs - wall));
+  }
+}
+
+/** How a bound that ended a wait reads in a message. */
+function boundText(end: WaitEnd, limitS: number): string {
+  return end === "wall"
+    ? `within ${WALL_CAP_FACTOR * limitS} s of wall time (${WALL_CAP_FACTOR} x --call-limit ${limitS} s, the wall-time cap)`
+    : `within ${limitS} s (--call-limit)`;
 }
 
 /** The inputs of a call as text for messages: `name(1, 2.5)`. */
@@ -87,11 +127,11 @@ export function loadBounded(path: string, limitS = DEFAULT_CALL_LIMIT_S, label =
   };
   // The worker's own start-up is ours; the module's instantiation (its start function) has the call limit.
   Atomics.wait(ctrl, CTRL.state, STATE.boot, WORKER_START_MS);
-  if (Atomics.load(ctrl, CTRL.state) === STATE.started) Atomics.wait(ctrl, CTRL.state, STATE.started, limitS * 1000);
+  const startEnd = Atomics.load(ctrl, CTRL.state) === STATE.started ? awaitAnswer(ctrl, STATE.started, limitS * 1000) : "answered";
   const s0 = Atomics.load(ctrl, CTRL.state);
   if (s0 !== STATE.idle) {
     const msg = s0 === STATE.failed ? failure() : s0 === STATE.started
-      ? `${label}: the module's start function did not return within ${limitS} s (--call-limit); the module was stopped`
+      ? `${label}: the module's start function did not return ${boundText(startEnd, limitS)}; the module was stopped`
       : `${label}: the module's worker thread did not start`;
     stop();
     throw new ModuleError(msg);
@@ -109,10 +149,10 @@ export function loadBounded(path: string, limitS = DEFAULT_CALL_LIMIT_S, label =
     ctrl[CTRL.nargs] = args.length;
     Atomics.store(ctrl, CTRL.state, STATE.request);
     Atomics.notify(ctrl, CTRL.state);
-    Atomics.wait(ctrl, CTRL.state, STATE.request, limitS * 1000);
+    const end = awaitAnswer(ctrl, STATE.request, limitS * 1000);
     const s = Atomics.load(ctrl, CTRL.state);
     if (s === STATE.done) return ctrl[CTRL.status]!;
-    const msg = s === STATE.failed ? failure() : `${label}: ${callText(name, args)} did not return within ${limitS} s (--call-limit); the module was stopped, nothing was written`;
+    const msg = s === STATE.failed ? failure() : `${label}: ${callText(name, args)} did not return ${boundText(end, limitS)}; the module was stopped, nothing was written`;
     stop();
     throw new ModuleError(msg);
   };
