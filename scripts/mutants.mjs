@@ -72,15 +72,25 @@ export function runIn(cwd, cmd, args, timeoutMs = 20 * 60_000) {
   });
 }
 
-/** asc targets of asconfig.json a mutant of `file` needs rebuilt (kernels: the release build unless it says). */
+/**
+ * What a mutant of `file` needs rebuilt: asc targets of asconfig.json for a kernel (the release build unless it
+ * says), or "tsc" for the harness, whose compiled copy in dist/ is what the command line runs (tests that spawn
+ * `areal` would otherwise test the unchanged harness).
+ */
 function targetsFor(m) {
+  if (m.file.startsWith("harness/")) return ["tsc"];
   if (!m.file.startsWith("assembly/")) return [];
   return m.targets ?? ["release"];
 }
 
-/** Build what a changed kernel needs, in `dir`. */
+/** Build what a changed kernel or harness file needs, in `dir`. */
 export async function buildTargets(dir, targets) {
   for (const t of targets) {
+    if (t === "tsc") {
+      const r = await runIn(dir, process.execPath, [join(dir, "node_modules", "typescript", "bin", "tsc"), "-p", "tsconfig.json"]);
+      if (r.code !== 0) return r;
+      continue;
+    }
     const r = await runIn(dir, process.execPath, [join(dir, "node_modules", "assemblyscript", "bin", "asc.js"), "assembly/index.ts", "--target", t]);
     if (r.code !== 0) return r;
   }

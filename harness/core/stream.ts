@@ -122,7 +122,6 @@ export class CsvFileStream {
       if (this.pending.length >= this.chunkBytes || this.eof) {
         let lf = this.pending.lastIndexOf(LF, this.chunkBytes - 1);
         if (lf < 0) lf = this.pending.indexOf(LF, this.chunkBytes); // a line longer than a chunk
-        if (lf < 0 && this.pending.length > MAX_LINE_BYTES) throw new LineTooLong(this.source, this.position);
         if (lf >= 0) {
           const out = new Uint8Array(this.pending.subarray(0, lf + 1));
           this.pending = this.pending.subarray(lf + 1);
@@ -135,6 +134,7 @@ export class CsvFileStream {
           return out;
         }
       }
+      // The one bound on a line here, for any chunk size: more than MAX_LINE_BYTES held and no line end among them.
       if (!this.eof && this.pending.length > MAX_LINE_BYTES && this.pending.indexOf(LF) < 0) throw new LineTooLong(this.source, this.position);
       this.fill(); // at the end of the file this sets eof, and the loop above finishes
     }
