@@ -35,8 +35,10 @@ const J2 = 1.0826266836e-3;
 const J3 = -2.5326564853e-6;
 const NAMES = Object.keys(METHODS) as Method[];
 const PHI = Array.from({ length: 36 }, (_, q) => `phi_${Math.floor(q / 6) + 1}${(q % 6) + 1}`);
-const S = slotsOf("integrate_transition", "rx", "ry", "rz", "vx", "vy", "vz", "symp_dev", "symp_step", "symp_dev_now", "k",
-  "energy_dev", ...PHI);
+const SLOTS: Readonly<Record<string, number>> = slotsOf("integrate_transition", "rx", "ry", "rz", "vx", "vy", "vz", "symp_dev",
+  "symp_step", "symp_dev_now", "k", ...PHI);
+/** The slot of a named integration_transition output. */
+const slot = (n: string): number => SLOTS[n]!;
 
 /** An inclined eccentric orbit (a about 9,000 km, e about 0.3), a plain test state. */
 const ECC: readonly number[] = [5200, 3100, 2400, -3.1, 6.2, 3.9];
@@ -58,10 +60,10 @@ function runPhi(k: Kernels, y0: readonly number[], step: number, steps: number, 
   const status = k.call("integrate_transition", [MU, ...y0, step, steps, METHODS[m], j2, j3, RE, 0, 0, 0, 0, symp]);
   return {
     status,
-    state: ["rx", "ry", "rz", "vx", "vy", "vz"].map((n) => k.out[S[n as "rx"]]!),
-    phi: PHI.map((n) => k.out[S[n as "rx"]]!),
-    sympDev: k.out[S.symp_dev]!,
-    sympStep: k.out[S.symp_step]!,
+    state: ["rx", "ry", "rz", "vx", "vy", "vz"].map((n) => k.out[slot(n)]!),
+    phi: PHI.map((n) => k.out[slot(n)]!),
+    sympDev: k.out[slot("symp_dev")]!,
+    sympStep: k.out[slot("symp_step")]!,
   };
 }
 
@@ -219,12 +221,12 @@ describe("the monitor's symplectic budget: the first step over it", () => {
     for (let i = 1; i <= steps; i++) {
       expect(k.call("integrate_step", [1])).toBe(0);
       expect(k.call("integrate_phi", [])).toBe(0);
-      expect(k.out[S.k]).toBe(i);
-      phi = PHI.map((n) => k.out[S[n as "rx"]]!);
+      expect(k.out[slot("k")]).toBe(i);
+      phi = PHI.map((n) => k.out[slot(n)]!);
       now.push(defectHere(LEO, phi).defect);
-      sympNow.push(k.out[S.symp_dev_now]!);
+      sympNow.push(k.out[slot("symp_dev_now")]!);
     }
-    return { now, sympNow, last: { status: 0, state: [], phi, sympDev: k.out[S.symp_dev]!, sympStep: k.out[S.symp_step]! } };
+    return { now, sympNow, last: { status: 0, state: [], phi, sympDev: k.out[slot("symp_dev")]!, sympStep: k.out[slot("symp_step")]! } };
   }
 
   it("rk4 (not symplectic): symp_step is the first step whose recomputed defect exceeds the budget", () => {
