@@ -24,12 +24,17 @@
 //     rho Omega_ab for two position columns, Omega_ab for mixed ones and Omega_ab / rho for two velocity columns;
 //     Omega is antisymmetric, so the 15 entries a < b are computed. Round-off floor: a few eps max|Phi~|^2.
 // Domain: that of the run (integrators.ts checks it); Phi starts at the identity at step 0.
-// Special cases: a non-finite Phi or defect stops the run with ERR_OVERFLOW (integrators.ts).
+// Special cases (returned by integrators.ts): the time scale rho = L / V or the gradient at r0 not finite (rho
+//  not positive) -> ERR_OVERFLOW at the start (phiBegin false); a non-finite Phi or defect during the run ->
+//  ERR_OVERFLOW at that step.
 // State: file-private module-level scalars (wasm globals, no linear memory): Phi (p11 .. p66, row i, column j), the
 //  gradients at the stages of the current step (s1xx .. s7zz; verlet keeps G at the current position in s1 and
 //  the drifted one in s2), the model and the scales. Nothing outside reads them but through phiPut.
 // Iteration cap: none (fixed column and stage counts).
-// Accuracy measured (release f64; tests/integrate-variational.test.ts): see that file's header and README.md.
+// Accuracy measured (release f64, tests/integrate-variational.test.ts, 2026-12): against the Jacobian of the discrete
+//  map at 100 digits, every scale-free entry within 9.4e-16 of the largest (worst: yoshida4, two-body, 12 steps of
+//  60 s on an e = 0.3 orbit); symplectic defect over 10 low-orbit revolutions (926 steps of 60 s, max |Phi~| about
+//  180): verlet 3.4e-11, yoshida4 4.3e-11 (round-off), rk4 1.1e-4, butcher6 2.7e-7 (drift; J2 + J3 alike).
 
 import { put } from "./io";
 import { THIRD, TWO_THIRDS, SIXTH } from "./real";
