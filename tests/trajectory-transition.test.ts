@@ -3,7 +3,8 @@
  * the CSV gains `symp_dev` and `phi_11` .. `phi_66` on every row, documented in its header; the last row's Phi is
  * integrate_transition's for the same run (the one-shot call is the outside check of the stepwise plumbing: the
  * CSV must carry the very bits); a `symp` budget broken is named with the step the kernel reports, exit 1; `symp`
- * without `transition` is a plan error naming the field, exit 2.
+ * without `transition` is a plan error naming the field, exit 2. And `areal eval integrate-transition`: a broken
+ * symplectic budget counts in the summary and exits 1, its `symp_step` column the one-shot call's.
  */
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { mkdtempSync, writeFileSync, readFileSync, rmSync } from "node:fs";
@@ -102,5 +103,22 @@ describe("areal trajectory with the transition matrix", () => {
     const bad = areal("trajectory", "--plan", planFile("badphi", { transition: "yes" }), "--csv", join(dir, "y.csv"), "--oem", join(dir, "y.oem"));
     expect(bad.code).toBe(2);
     expect(bad.err).toContain("'transition'");
+  });
+});
+
+describe("areal eval integrate-transition", () => {
+  it("a broken symplectic budget is counted in the summary, exit 1; symp_step is the kernel's", () => {
+    const budget = 1e-6;
+    const head = "mu,r0x,r0y,r0z,v0x,v0y,v0z,step,steps,method,j2,j3,radius,symp_budget";
+    const row = (m: string): string => [PLAN.mu, ...PLAN.r, ...PLAN.v, PLAN.step, PLAN.steps, m, PLAN.j2, PLAN.j3, PLAN.radius, budget].join(",");
+    const input = join(dir, "eval-in.csv");
+    writeFileSync(input, [head, row("rk4"), row("yoshida4")].join("\n") + "\n");
+    const out = join(dir, "eval-out.csv");
+    const r = areal("eval", "integrate-transition", "--input", input, "--out", out);
+    expect(r.code).toBe(1);
+    expect(r.err).toMatch(/2 rows \(2 ok; an invariant budget broken on 1 of them/);
+    const { cols, rows } = csvOf(out);
+    const c = cols.indexOf("symp_step");
+    expect(rows.map((x) => x[c])).toEqual([oneShot(budget).sympStep, -1]);
   });
 });
