@@ -246,17 +246,17 @@ export function gradient(mu: real, j2: real, j3: real, R: real, x: real, y: real
 function gradientPlain(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real, r2: real): void {
   const r = RMath.sqrt(r2);
   const ir = <real>1.0 / r;
-  const k = mu * ir * ir * ir; // mu / r^3
+  const g3 = mu * ir * ir * ir; // mu / r^3, the scale of every term of G
   const ux = x * ir;
   const uy = y * ir;
   const s = z * ir;
-  const k3 = <real>3.0 * k;
-  let gxx = k3 * ux * ux - k;
-  let gyy = k3 * uy * uy - k;
-  let gzz = k3 * s * s - k;
-  let gxy = k3 * ux * uy;
-  let gxz = k3 * ux * s;
-  let gyz = k3 * uy * s;
+  const t3 = <real>3.0 * g3;
+  let gxx = t3 * ux * ux - g3;
+  let gyy = t3 * uy * uy - g3;
+  let gzz = t3 * s * s - g3;
+  let gxy = t3 * ux * uy;
+  let gxz = t3 * ux * s;
+  let gyz = t3 * uy * s;
   if (j2 != 0 || j3 != 0) {
     const s2 = s * s;
     const q = R * ir;
@@ -264,7 +264,7 @@ function gradientPlain(mu: real, j2: real, j3: real, R: real, x: real, y: real, 
     const ux2 = ux * ux;
     const uy2 = uy * uy;
     // J2
-    const c2 = <real>-1.5 * j2 * k * q2;
+    const c2 = <real>-1.5 * j2 * g3 * q2;
     const d2 = <real>35.0 * s2 - <real>5.0; // 35 s^2 - 5
     const e2 = <real>1.0 - <real>5.0 * s2;
     gxx += c2 * (e2 + ux2 * d2);
@@ -275,7 +275,7 @@ function gradientPlain(mu: real, j2: real, j3: real, R: real, x: real, y: real, 
     gyz += f2 * uy;
     gzz += c2 * (<real>3.0 - <real>30.0 * s2 + <real>35.0 * s2 * s2);
     // J3
-    const c3 = <real>-2.5 * j3 * k * q2 * q;
+    const c3 = <real>-2.5 * j3 * g3 * q2 * q;
     const d3 = s * (<real>63.0 * s2 - <real>21.0); // 63 s^3 - 21 s
     const e3 = s * (<real>3.0 - <real>7.0 * s2);
     gxx += c3 * (e3 + ux2 * d3);
