@@ -50,6 +50,22 @@ function csvOf(path: string): { header: string[]; cols: string[]; rows: number[]
   return { header, cols: data[0]!.split(","), rows: data.slice(1).map((l) => l.split(",").map(Number)) };
 }
 
+/** max |Phi~^T J Phi~ - J| of the scale-free Phi~ = D^-1 Phi D (D = diag(L, L, L, V, V, V)), recomputed here. */
+function defectHere(phi: readonly number[]): number {
+  const L = Math.hypot(...PLAN.r);
+  const d = (i: number): number => (i < 3 ? L : Math.sqrt(PLAN.mu / L));
+  const P = (i: number, j: number): number => (phi[6 * i + j]! * d(j)) / d(i);
+  let worst = 0;
+  for (let a = 0; a < 6; a++) {
+    for (let b = 0; b < 6; b++) {
+      let s = 0;
+      for (let i = 0; i < 3; i++) s += P(i, a) * P(i + 3, b) - P(i + 3, a) * P(i, b);
+      worst = Math.max(worst, Math.abs(s - (a < 3 && b === a + 3 ? 1 : a >= 3 && b === a - 3 ? -1 : 0)));
+    }
+  }
+  return worst;
+}
+
 /** integrate_transition for the plan, one shot: Phi and the symplectic summary. */
 function oneShot(budget: number): { phi: number[]; sympStep: number; sympDev: number } {
   const k = release();
@@ -83,6 +99,20 @@ describe("areal trajectory with the transition matrix", () => {
     // the largest symp_dev of the rows is the kernel's running maximum
     expect(Math.max(...rows.map((r) => at(r, "symp_dev")))).toBe(ref.sympDev);
     expect(res.err).toMatch(/symp \d/);
+    // each row's symp_dev is the defect of that row's Phi (recounted here; rounding 1e-12 relative + 1e-13)
+    for (const r of rows) {
+      const d = defectHere(PHI.map((c) => at(r, c)));
+      expect(Math.abs(at(r, "symp_dev") - d)).toBeLessThanOrEqual(1e-12 * d + 1e-13);
+    }
+  });
+
+  it("symp_dev is this step's defect, not the running maximum: with verlet it goes down as well as up", () => {
+    const csv = join(dir, "verlet.csv");
+    const res = areal("trajectory", "--plan", planFile("verlet", { method: "verlet" }), "--csv", csv, "--oem", join(dir, "verlet.oem"), "--date", "2026-12-05");
+    expect(res.code, res.err).toBe(0);
+    const { cols, rows } = csvOf(csv);
+    const d = rows.map((r) => r[cols.indexOf("symp_dev")]!);
+    expect(d.some((x, i) => i > 0 && x < d[i - 1]!)).toBe(true);
   });
 
   it("a symp budget broken is named with the kernel's first step; exit 1", () => {
