@@ -227,7 +227,7 @@ export const GRAVITY_ZONAL_AY: i32 = 1; // length/time^2
 export const GRAVITY_ZONAL_AZ: i32 = 2; // length/time^2
 export const GRAVITY_ZONAL_POTENTIAL: i32 = 3; // length^2/time^2
 
-// layout integration (integrate, integrate_begin, integrate_step)
+// layout integration (integrate, integrate_begin, integrate_step, integrate_transition_begin)
 export const INTEGRATION_RX: i32 = 0; // length
 export const INTEGRATION_RY: i32 = 1; // length
 export const INTEGRATION_RZ: i32 = 2; // length
@@ -256,6 +256,63 @@ export const INTEGRATION_ENERGY_DEV_NOW: i32 = 24; // 1
 export const INTEGRATION_H_DEV_NOW: i32 = 25; // 1
 export const INTEGRATION_ECC_DEV_NOW: i32 = 26; // 1
 export const INTEGRATION_AREAL_DEV_NOW: i32 = 27; // 1
+
+// layout integration_transition (integrate_transition, integrate_phi)
+export const INTEGRATION_TRANSITION_RX: i32 = 0; // length
+export const INTEGRATION_TRANSITION_RY: i32 = 1; // length
+export const INTEGRATION_TRANSITION_RZ: i32 = 2; // length
+export const INTEGRATION_TRANSITION_VX: i32 = 3; // length/time
+export const INTEGRATION_TRANSITION_VY: i32 = 4; // length/time
+export const INTEGRATION_TRANSITION_VZ: i32 = 5; // length/time
+export const INTEGRATION_TRANSITION_PHI_11: i32 = 6; // 1
+export const INTEGRATION_TRANSITION_PHI_12: i32 = 7; // 1
+export const INTEGRATION_TRANSITION_PHI_13: i32 = 8; // 1
+export const INTEGRATION_TRANSITION_PHI_14: i32 = 9; // time
+export const INTEGRATION_TRANSITION_PHI_15: i32 = 10; // time
+export const INTEGRATION_TRANSITION_PHI_16: i32 = 11; // time
+export const INTEGRATION_TRANSITION_PHI_21: i32 = 12; // 1
+export const INTEGRATION_TRANSITION_PHI_22: i32 = 13; // 1
+export const INTEGRATION_TRANSITION_PHI_23: i32 = 14; // 1
+export const INTEGRATION_TRANSITION_PHI_24: i32 = 15; // time
+export const INTEGRATION_TRANSITION_PHI_25: i32 = 16; // time
+export const INTEGRATION_TRANSITION_PHI_26: i32 = 17; // time
+export const INTEGRATION_TRANSITION_PHI_31: i32 = 18; // 1
+export const INTEGRATION_TRANSITION_PHI_32: i32 = 19; // 1
+export const INTEGRATION_TRANSITION_PHI_33: i32 = 20; // 1
+export const INTEGRATION_TRANSITION_PHI_34: i32 = 21; // time
+export const INTEGRATION_TRANSITION_PHI_35: i32 = 22; // time
+export const INTEGRATION_TRANSITION_PHI_36: i32 = 23; // time
+export const INTEGRATION_TRANSITION_PHI_41: i32 = 24; // 1/time
+export const INTEGRATION_TRANSITION_PHI_42: i32 = 25; // 1/time
+export const INTEGRATION_TRANSITION_PHI_43: i32 = 26; // 1/time
+export const INTEGRATION_TRANSITION_PHI_44: i32 = 27; // 1
+export const INTEGRATION_TRANSITION_PHI_45: i32 = 28; // 1
+export const INTEGRATION_TRANSITION_PHI_46: i32 = 29; // 1
+export const INTEGRATION_TRANSITION_PHI_51: i32 = 30; // 1/time
+export const INTEGRATION_TRANSITION_PHI_52: i32 = 31; // 1/time
+export const INTEGRATION_TRANSITION_PHI_53: i32 = 32; // 1/time
+export const INTEGRATION_TRANSITION_PHI_54: i32 = 33; // 1
+export const INTEGRATION_TRANSITION_PHI_55: i32 = 34; // 1
+export const INTEGRATION_TRANSITION_PHI_56: i32 = 35; // 1
+export const INTEGRATION_TRANSITION_PHI_61: i32 = 36; // 1/time
+export const INTEGRATION_TRANSITION_PHI_62: i32 = 37; // 1/time
+export const INTEGRATION_TRANSITION_PHI_63: i32 = 38; // 1/time
+export const INTEGRATION_TRANSITION_PHI_64: i32 = 39; // 1
+export const INTEGRATION_TRANSITION_PHI_65: i32 = 40; // 1
+export const INTEGRATION_TRANSITION_PHI_66: i32 = 41; // 1
+export const INTEGRATION_TRANSITION_ENERGY_DEV: i32 = 42; // 1
+export const INTEGRATION_TRANSITION_H_DEV: i32 = 43; // 1
+export const INTEGRATION_TRANSITION_ECC_DEV: i32 = 44; // 1
+export const INTEGRATION_TRANSITION_AREAL_DEV: i32 = 45; // 1
+export const INTEGRATION_TRANSITION_ENERGY_STEP: i32 = 46; // count
+export const INTEGRATION_TRANSITION_H_STEP: i32 = 47; // count
+export const INTEGRATION_TRANSITION_ECC_STEP: i32 = 48; // count
+export const INTEGRATION_TRANSITION_AREAL_STEP: i32 = 49; // count
+export const INTEGRATION_TRANSITION_SYMP_DEV: i32 = 50; // 1
+export const INTEGRATION_TRANSITION_SYMP_STEP: i32 = 51; // count
+export const INTEGRATION_TRANSITION_K: i32 = 52; // count
+export const INTEGRATION_TRANSITION_T: i32 = 53; // time
+export const INTEGRATION_TRANSITION_SYMP_DEV_NOW: i32 = 54; // 1
 
 // to_relative
 export const TO_RELATIVE_X: i32 = 0; // length

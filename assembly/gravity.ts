@@ -176,3 +176,120 @@ export function gravity_zonal(mu: real, j2: real, j3: real, radius: real, x: rea
   put(3, v);
   return OK;
 }
+
+// ---- gravity gradient ---------------------------------------------------------------------------------------
+// The gradient G = d a / d r (a symmetric 3x3 matrix, minus the Hessian of V), for the variational equations of
+// the integrators (variational.ts). Derived here by hand from the acceleration of steps 2..4 above (the potential
+// V of the header: Vallado 2013, ch. 8, recalled from memory), with u = r_vec / r, s = z / r, q = R / r:
+//  point mass  G = mu / r^3 (3 u u^T - I)
+//  J2, K2 = -1.5 J2 mu q^2 / r^3:
+//    G_xx = K2 (1 - 5 s^2 - 5 ux^2 + 35 ux^2 s^2),  G_yy likewise with uy,  G_xy = K2 ux uy (35 s^2 - 5),
+//    G_xz = K2 ux s (35 s^2 - 15),  G_yz likewise with uy,  G_zz = K2 (3 - 30 s^2 + 35 s^4)
+//  J3, K3 = -2.5 J3 mu q^3 / r^3:
+//    G_xx = K3 (3 s - 7 s^3 + ux^2 (63 s^3 - 21 s)),  G_yy likewise,  G_xy = K3 ux uy (63 s^3 - 21 s),
+//    G_xz = K3 ux (3 - 42 s^2 + 63 s^4),  G_yz likewise,  G_zz = K3 (15 s - 70 s^3 + 63 s^5)
+// Each zonal part has zero trace (Laplace's equation; ux^2 + uy^2 = 1 - s^2), a check done on paper and by
+// tests/integrate-variational.test.ts through the 50-digit Jacobian of the discrete map.
+// Read after the call with gradXX() ... gradZZ(). Same domain, window and scaling as accel: outside the window
+// the scaled problem's G is scaled back by 2^(3 kx - km).
+
+let lastGxx: real = 0;
+let lastGxy: real = 0;
+let lastGxz: real = 0;
+let lastGyy: real = 0;
+let lastGyz: real = 0;
+let lastGzz: real = 0;
+
+/** G_xx of the last `gradient` call (likewise the five below). */
+export function gradXX(): real {
+  return lastGxx;
+}
+export function gradXY(): real {
+  return lastGxy;
+}
+export function gradXZ(): real {
+  return lastGxz;
+}
+export function gradYY(): real {
+  return lastGyy;
+}
+export function gradYZ(): real {
+  return lastGyz;
+}
+export function gradZZ(): real {
+  return lastGzz;
+}
+
+/** Gravity gradient d a / d r at (x, y, z), read afterwards with gradXX() .. gradZZ(). */
+export function gradient(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real): void {
+  const r2 = x * x + y * y + z * z;
+  if (r2 >= G_R2_LO && r2 <= G_R2_HI && mu >= G_MU_LO && mu <= G_MU_HI) {
+    gradientPlain(mu, j2, j3, R, x, y, z, r2);
+    return;
+  }
+  const k = lengthExp(x, y, z);
+  const km = muExp(mu);
+  const xs = scale2(x, k);
+  const ys = scale2(y, k);
+  const zs = scale2(z, k);
+  gradientPlain(scale2(mu, km), j2, j3, scale2(R, k), xs, ys, zs, xs * xs + ys * ys + zs * zs);
+  const back = 3 * k - km;
+  lastGxx = scale2(lastGxx, back);
+  lastGxy = scale2(lastGxy, back);
+  lastGxz = scale2(lastGxz, back);
+  lastGyy = scale2(lastGyy, back);
+  lastGyz = scale2(lastGyz, back);
+  lastGzz = scale2(lastGzz, back);
+}
+
+// gradient inside the window (r2 = x^2 + y^2 + z^2), to the scratch.
+function gradientPlain(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real, r2: real): void {
+  const r = RMath.sqrt(r2);
+  const ir = <real>1.0 / r;
+  const g3 = mu * ir * ir * ir; // mu / r^3, the scale of every term of G
+  const ux = x * ir;
+  const uy = y * ir;
+  const s = z * ir;
+  const t3 = <real>3.0 * g3;
+  let gxx = t3 * ux * ux - g3;
+  let gyy = t3 * uy * uy - g3;
+  let gzz = t3 * s * s - g3;
+  let gxy = t3 * ux * uy;
+  let gxz = t3 * ux * s;
+  let gyz = t3 * uy * s;
+  if (j2 != 0 || j3 != 0) {
+    const s2 = s * s;
+    const q = R * ir;
+    const q2 = q * q;
+    const ux2 = ux * ux;
+    const uy2 = uy * uy;
+    // J2
+    const c2 = <real>-1.5 * j2 * g3 * q2;
+    const d2 = <real>35.0 * s2 - <real>5.0; // 35 s^2 - 5
+    const e2 = <real>1.0 - <real>5.0 * s2;
+    gxx += c2 * (e2 + ux2 * d2);
+    gyy += c2 * (e2 + uy2 * d2);
+    gxy += c2 * ux * uy * d2;
+    const f2 = c2 * s * (<real>35.0 * s2 - <real>15.0);
+    gxz += f2 * ux;
+    gyz += f2 * uy;
+    gzz += c2 * (<real>3.0 - <real>30.0 * s2 + <real>35.0 * s2 * s2);
+    // J3
+    const c3 = <real>-2.5 * j3 * g3 * q2 * q;
+    const d3 = s * (<real>63.0 * s2 - <real>21.0); // 63 s^3 - 21 s
+    const e3 = s * (<real>3.0 - <real>7.0 * s2);
+    gxx += c3 * (e3 + ux2 * d3);
+    gyy += c3 * (e3 + uy2 * d3);
+    gxy += c3 * ux * uy * d3;
+    const f3 = c3 * (<real>3.0 - <real>42.0 * s2 + <real>63.0 * s2 * s2);
+    gxz += f3 * ux;
+    gyz += f3 * uy;
+    gzz += c3 * s * (<real>15.0 - <real>70.0 * s2 + <real>63.0 * s2 * s2);
+  }
+  lastGxx = gxx;
+  lastGxy = gxy;
+  lastGxz = gxz;
+  lastGyy = gyy;
+  lastGyz = gyz;
+  lastGzz = gzz;
+}

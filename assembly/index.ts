@@ -12,6 +12,6 @@ export { elements, state, state_p } from "./elements";
 export { equinoctial, from_equinoctial } from "./equinoctial";
 export { invariants } from "./invariants";
 export { gravity_zonal } from "./gravity";
-export { integrate, integrate_begin, integrate_step } from "./integrators";
+export { integrate, integrate_begin, integrate_step, integrate_transition, integrate_transition_begin, integrate_phi } from "./integrators";
 export { to_relative, from_relative, relative_motion } from "./relative";
 export { rendezvous_linear } from "./rendezvous";

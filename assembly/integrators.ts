@@ -24,12 +24,22 @@
 //  A negative step integrates backwards.
 //  During the run, a non-finite state or invariant (a collision with the centre, an overflow) stops it with ERR_OVERFLOW;
 //  slot 14 then holds the step that failed.
+// Transition matrix (integrate_transition, integrate_transition_begin, integrate_phi): the run may carry the 6x6
+//  Phi = d(r, v)_k / d(r, v)_0 of the discrete map beside the state (variational.ts: the same tableau on the
+//  variational equations for rk4 and butcher6, the exact tangent of kick-drift-kick for verlet and yoshida4, with
+//  the analytic gravity gradient of gravity.ts), and the monitor then checks its symplectic defect on every step
+//  with a budget (monitor.ts). The state's own arithmetic is unchanged: the same bits with or without Phi.
+//  Special cases as above, plus a non-finite or negative symplectic budget (ERR_NONFINITE, ERR_DOMAIN, in the same
+//  order) and a non-finite Phi or defect during the run (ERR_OVERFLOW, the failing step in slot k).
 // Loop cap: INTEGRATE_MAX_STEPS steps a call.
 // Output slots (integrate, integrate_begin, integrate_step):
 //  0..5 r, v at the last step; 6..9 maximum deviation so far of energy, h, ecc, areal (monitor.ts);
 //  10..13 first step over the budget of each (-1: none); 14 step index k; 15 t = k * step;
 //  16 energy; 17..19 h vector; 20..22 eccentricity vector; 23 areal velocity; 24..27 deviations at this step.
 //  Step numbers are stored as reals: exact to 2^53 (f64), 2^24 (f32 build).
+// Output slots (integrate_transition, integrate_phi; the integration_transition layout of the ABI table): r, v;
+//  phi_11 .. phi_66 row-major; the four maximum deviations and first steps over budget; symp_dev, symp_step
+//  (maximum defect, first step over its budget); k; t; symp_dev_now.
 // Accuracy measured (release build; tests/integrate-*.test.ts): observed order by step halving against a 40-digit
 //  Kepler reference 4.06 (rk4), 2.00 (verlet), 4.00 (yoshida4), 6.03 (butcher6); angular momentum |h - h0|/|h0|
 //  at most 4e-14 over 100,000 Verlet or yoshida4 steps; over 10,000 orbits at 64 steps an orbit (e = 0.1) the
@@ -38,10 +48,16 @@
 
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_DEGENERATE, ERR_OVERFLOW } from "./status";
 import { put } from "./io";
-import { METHOD_RK4, METHOD_VERLET, METHOD_YOSHIDA4, METHOD_BUTCHER6 } from "./abi";
+import { METHOD_RK4, METHOD_VERLET, METHOD_YOSHIDA4, METHOD_BUTCHER6, INTEGRATION_K, INTEGRATION_TRANSITION_RX,
+  INTEGRATION_TRANSITION_RY, INTEGRATION_TRANSITION_RZ, INTEGRATION_TRANSITION_VX, INTEGRATION_TRANSITION_VY,
+  INTEGRATION_TRANSITION_VZ, INTEGRATION_TRANSITION_PHI_11, INTEGRATION_TRANSITION_ENERGY_DEV,
+  INTEGRATION_TRANSITION_ENERGY_STEP, INTEGRATION_TRANSITION_SYMP_DEV, INTEGRATION_TRANSITION_SYMP_STEP,
+  INTEGRATION_TRANSITION_SYMP_DEV_NOW, INTEGRATION_TRANSITION_K, INTEGRATION_TRANSITION_T } from "./abi";
 import { SIXTH, THIRD, TWO_THIRDS } from "./real";
 import { accel, accelX, accelY, accelZ, potential } from "./gravity";
-import { monitorBegin, monitorUpdate, monitorFinite, monitorPut } from "./monitor";
+import { monitorBegin, monitorUpdate, monitorFinite, monitorPut, monitorSympBegin, monitorSympUpdate,
+  monitorPutSummary } from "./monitor";
+import { phiBegin, phiStage, phiRk4, phiButcher6, phiVerlet, phiDefect, phiPut } from "./variational";
 
 const METHOD_LAST: i32 = METHOD_BUTCHER6;
 
@@ -65,6 +81,7 @@ let hStep: real = 0;
 let method: i32 = -1;
 let k: i32 = 0;
 let failed: i32 = ERR_DOMAIN; // nothing begun yet
+let carry: bool = false; // the run carries the transition matrix (variational.ts)
 let X: real = 0;
 let Y: real = 0;
 let Z: real = 0;
@@ -80,6 +97,12 @@ function accelRun(x: real, y: real, z: real): void {
   accel(gMu, gJ2, gJ3, gR, x, y, z);
 }
 
+// The acceleration at stage s (1..7) of a Runge-Kutta step; in a run that carries Phi, also the gradient there.
+function stageAccel(s: i32, x: real, y: real, z: real): void {
+  accelRun(x, y, z);
+  if (carry) phiStage(s, x, y, z);
+}
+
 function accelAt(x: real, y: real, z: real): void {
   accelRun(x, y, z);
   AX = accelX();
@@ -93,15 +116,15 @@ function accelAt(x: real, y: real, z: real): void {
 function rk4Step(h: real): void {
   const h2 = h * h;
   const c2 = <real>0.5 * h;
-  accelRun(X, Y, Z);
+  stageAccel(1, X, Y, Z);
   const a1x = accelX(), a1y = accelY(), a1z = accelZ();
-  accelRun(X + c2 * VX, Y + c2 * VY, Z + c2 * VZ);
+  stageAccel(2, X + c2 * VX, Y + c2 * VY, Z + c2 * VZ);
   const a2x = accelX(), a2y = accelY(), a2z = accelZ();
   const q3 = <real>0.25 * h2;
-  accelRun(X + c2 * VX + q3 * a1x, Y + c2 * VY + q3 * a1y, Z + c2 * VZ + q3 * a1z);
+  stageAccel(3, X + c2 * VX + q3 * a1x, Y + c2 * VY + q3 * a1y, Z + c2 * VZ + q3 * a1z);
   const a3x = accelX(), a3y = accelY(), a3z = accelZ();
   const q4 = <real>0.5 * h2;
-  accelRun(X + h * VX + q4 * a2x, Y + h * VY + q4 * a2y, Z + h * VZ + q4 * a2z);
+  stageAccel(4, X + h * VX + q4 * a2x, Y + h * VY + q4 * a2y, Z + h * VZ + q4 * a2z);
   const a4x = accelX(), a4y = accelY(), a4z = accelZ();
   const p = h2 * SIXTH;
   const w = h * SIXTH;
@@ -126,39 +149,39 @@ function rk4Step(h: real): void {
 //   b   = 11/120, 0, 27/40, 27/40, -4/15, -4/15, 11/120;   b A = 11/120, 0, 9/40, 9/20, -2/15, -2/15, 0
 function butcher6Step(h: real): void {
   const h2 = h * h;
-  accelRun(X, Y, Z);
+  stageAccel(1, X, Y, Z);
   const a1x = accelX(), a1y = accelY(), a1z = accelZ();
   const t2 = h * THIRD;
-  accelRun(X + t2 * VX, Y + t2 * VY, Z + t2 * VZ);
+  stageAccel(2, X + t2 * VX, Y + t2 * VY, Z + t2 * VZ);
   const a2x = accelX(), a2y = accelY(), a2z = accelZ();
   const t3 = h * TWO_THIRDS;
   const q31 = h2 * (<real>2.0 / <real>9.0);
-  accelRun(X + t3 * VX + q31 * a1x, Y + t3 * VY + q31 * a1y, Z + t3 * VZ + q31 * a1z);
+  stageAccel(3, X + t3 * VX + q31 * a1x, Y + t3 * VY + q31 * a1y, Z + t3 * VZ + q31 * a1z);
   const a3x = accelX(), a3y = accelY(), a3z = accelZ();
   const q41 = h2 * (<real>1.0 / <real>9.0);
   const q42 = h2 * (<real>-1.0 / <real>18.0);
-  accelRun(X + t2 * VX + (q41 * a1x + q42 * a2x), Y + t2 * VY + (q41 * a1y + q42 * a2y),
+  stageAccel(4, X + t2 * VX + (q41 * a1x + q42 * a2x), Y + t2 * VY + (q41 * a1y + q42 * a2y),
     Z + t2 * VZ + (q41 * a1z + q42 * a2z));
   const a4x = accelX(), a4y = accelY(), a4z = accelZ();
   const t5 = <real>0.5 * h;
   const q51 = h2 * (<real>11.0 / <real>32.0);
   const q52 = h2 * <real>-0.25;
   const q53 = h2 * <real>0.03125; // 1/32
-  accelRun(X + t5 * VX + (q51 * a1x + q52 * a2x + q53 * a3x), Y + t5 * VY + (q51 * a1y + q52 * a2y + q53 * a3y),
+  stageAccel(5, X + t5 * VX + (q51 * a1x + q52 * a2x + q53 * a3x), Y + t5 * VY + (q51 * a1y + q52 * a2y + q53 * a3y),
     Z + t5 * VZ + (q51 * a1z + q52 * a2z + q53 * a3z));
   const a5x = accelX(), a5y = accelY(), a5z = accelZ();
   const q61 = h2 * <real>0.28125; // 9/32
   const q62 = h2 * <real>0.0625; // 1/16
   const q63 = h2 * <real>-0.03125; // -1/32
   const q64 = h2 * <real>-0.1875; // -3/16
-  accelRun(X + t5 * VX + (q61 * a1x + q62 * a2x + q63 * a3x + q64 * a4x),
+  stageAccel(6, X + t5 * VX + (q61 * a1x + q62 * a2x + q63 * a3x + q64 * a4x),
     Y + t5 * VY + (q61 * a1y + q62 * a2y + q63 * a3y + q64 * a4y), Z + t5 * VZ + (q61 * a1z + q62 * a2z + q63 * a3z + q64 * a4z));
   const a6x = accelX(), a6y = accelY(), a6z = accelZ();
   const q71 = h2 * (<real>-3.0 / <real>22.0); // also (7,2)
   const q73 = h2 * (<real>9.0 / <real>22.0);
   const q74 = h2 * (<real>12.0 / <real>11.0);
   const q75 = h2 * (<real>-8.0 / <real>11.0);
-  accelRun(X + h * VX + (q71 * (a1x + a2x) + q73 * a3x + q74 * a4x + q75 * a5x),
+  stageAccel(7, X + h * VX + (q71 * (a1x + a2x) + q73 * a3x + q74 * a4x + q75 * a5x),
     Y + h * VY + (q71 * (a1y + a2y) + q73 * a3y + q74 * a4y + q75 * a5y), Z + h * VZ + (q71 * (a1z + a2z) + q73 * a3z + q74 * a4z + q75 * a5z));
   const a7x = accelX(), a7y = accelY(), a7z = accelZ();
   // b A and b (b_2 = 0; b_3 = b_4, b_5 = b_6 grouped).
@@ -192,17 +215,25 @@ function verletStep(h: real): void {
   VZ += hh * AZ;
 }
 
+// One kick-drift-kick sub-step, and its tangent map when the run carries Phi.
+function verletSub(h: real): void {
+  verletStep(h);
+  if (carry) phiVerlet(h, X, Y, Z);
+}
+
 function oneStep(): void {
   if (method == METHOD_VERLET) {
-    verletStep(hStep);
+    verletSub(hStep);
   } else if (method == METHOD_YOSHIDA4) {
-    verletStep(YOSHIDA_W1 * hStep);
-    verletStep(YOSHIDA_W0 * hStep);
-    verletStep(YOSHIDA_W1 * hStep);
+    verletSub(YOSHIDA_W1 * hStep);
+    verletSub(YOSHIDA_W0 * hStep);
+    verletSub(YOSHIDA_W1 * hStep);
   } else if (method == METHOD_RK4) {
     rk4Step(hStep);
+    if (carry) phiRk4(hStep);
   } else {
     butcher6Step(hStep);
+    if (carry) phiButcher6(hStep);
   }
 }
 
@@ -229,21 +260,37 @@ function writeSlots(): void {
  */
 export function integrate_begin(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, step: real,
   meth: i32, j2: real, j3: real, radius: real, energyBudget: real, hBudget: real, eccBudget: real, arealBudget: real): i32 {
-  return begin(mu, r0x, r0y, r0z, v0x, v0y, v0z, step, 0, meth, j2, j3, radius, energyBudget, hBudget, eccBudget, arealBudget);
+  return begin(mu, r0x, r0y, r0z, v0x, v0y, v0z, step, 0, meth, j2, j3, radius, energyBudget, hBudget, eccBudget, arealBudget,
+    false, 0);
 }
 
-// integrate_begin, with the step count of `integrate` checked among the domain conditions.
+/**
+ * integrate_begin for a run that carries the transition matrix Phi (variational.ts) beside the state, with a
+ * budget for its symplectic defect (0: none). Writes the integration layout (slots 0..27), as integrate_begin;
+ * integrate_phi writes Phi and the defect.
+ */
+export function integrate_transition_begin(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real,
+  step: real, meth: i32, j2: real, j3: real, radius: real, energyBudget: real, hBudget: real, eccBudget: real,
+  arealBudget: real, sympBudget: real): i32 {
+  return begin(mu, r0x, r0y, r0z, v0x, v0y, v0z, step, 0, meth, j2, j3, radius, energyBudget, hBudget, eccBudget, arealBudget,
+    true, sympBudget);
+}
+
+// integrate_begin, with the step count of `integrate` checked among the domain conditions, and Phi carried when
+// `withPhi` (its budget checked with the others).
 function begin(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real, step: real, steps: i32,
-  meth: i32, j2: real, j3: real, radius: real, energyBudget: real, hBudget: real, eccBudget: real, arealBudget: real): i32 {
+  meth: i32, j2: real, j3: real, radius: real, energyBudget: real, hBudget: real, eccBudget: real, arealBudget: real,
+  withPhi: bool, sympBudget: real): i32 {
   failed = ERR_DOMAIN;
+  carry = false;
   if (!isFinite(mu) || !isFinite(r0x) || !isFinite(r0y) || !isFinite(r0z) || !isFinite(v0x) || !isFinite(v0y) ||
     !isFinite(v0z) || !isFinite(step) || !isFinite(j2) || !isFinite(j3) || !isFinite(radius) ||
-    !isFinite(energyBudget) || !isFinite(hBudget) || !isFinite(eccBudget) || !isFinite(arealBudget)) {
+    !isFinite(energyBudget) || !isFinite(hBudget) || !isFinite(eccBudget) || !isFinite(arealBudget) || !isFinite(sympBudget)) {
     failed = ERR_NONFINITE;
     return ERR_NONFINITE;
   }
   if (!(mu > 0) || !(radius > 0) || step == 0 || steps < 0 || steps > INTEGRATE_MAX_STEPS || meth < 0 || meth > METHOD_LAST ||
-    energyBudget < 0 || hBudget < 0 || eccBudget < 0 || arealBudget < 0) {
+    energyBudget < 0 || hBudget < 0 || eccBudget < 0 || arealBudget < 0 || sympBudget < 0) {
     return ERR_DOMAIN;
   }
   if (r0x == 0 && r0y == 0 && r0z == 0) {
@@ -278,46 +325,93 @@ function begin(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, 
     failed = ERR_OVERFLOW;
     return ERR_OVERFLOW;
   }
+  if (withPhi) {
+    if (!phiBegin(mu, j2, j3, radius, X, Y, Z)) {
+      failed = ERR_OVERFLOW;
+      return ERR_OVERFLOW;
+    }
+    monitorSympBegin(sympBudget);
+    carry = true;
+  }
   failed = OK;
   writeSlots();
   return OK;
 }
 
-/**
- * Advance the run begun by integrate_begin by n steps (0 <= n <= INTEGRATE_MAX_STEPS), monitoring every one.
- * Writes slots 0..27 for the last step. After a failure every further call returns the same failure.
- */
-export function integrate_step(n: i32): i32 {
-  if (failed != OK) return failed;
-  if (n < 0 || n > INTEGRATE_MAX_STEPS) return ERR_DOMAIN;
+// Advance the run by n steps (0 <= n <= INTEGRATE_MAX_STEPS), monitoring every one. On a failure it sets
+// `failed`, leaves k at the failing step and returns the status; no slot is written.
+function advance(n: i32): i32 {
   for (let i = 0; i < n && i < INTEGRATE_MAX_STEPS; i++) {
     oneStep();
     k += 1;
     if (!stateFinite()) {
       failed = ERR_OVERFLOW;
-      put(14, <real>k);
       return ERR_OVERFLOW;
     }
     const V = potential(gMu, gJ2, gJ3, gR, X, Y, Z);
     if (!isFinite(V)) {
       failed = ERR_OVERFLOW;
-      put(14, <real>k);
       return ERR_OVERFLOW;
     }
     monitorUpdate(k, X, Y, Z, VX, VY, VZ, V);
     if (!monitorFinite()) {
       failed = ERR_OVERFLOW;
-      put(14, <real>k);
       return ERR_OVERFLOW;
+    }
+    if (carry) {
+      const d = phiDefect(); // non-finite when any entry of Phi is
+      if (!isFinite(d)) {
+        failed = ERR_OVERFLOW;
+        return ERR_OVERFLOW;
+      }
+      monitorSympUpdate(k, d);
     }
   }
   // The elapsed time k * step (slot 15) can leave the range even when the state does not (a huge step).
   if (!isFinite(<real>k * hStep)) {
     failed = ERR_OVERFLOW;
-    put(14, <real>k);
     return ERR_OVERFLOW;
   }
+  return OK;
+}
+
+/**
+ * Advance the run begun by integrate_begin (or integrate_transition_begin) by n steps (0 <= n <=
+ * INTEGRATE_MAX_STEPS), monitoring every one. Writes slots 0..27 for the last step; after a failure only slot 14,
+ * the failing step. After a failure every further call returns the same failure.
+ */
+export function integrate_step(n: i32): i32 {
+  if (failed != OK) return failed;
+  if (n < 0 || n > INTEGRATE_MAX_STEPS) return ERR_DOMAIN;
+  const st = advance(n);
+  if (st != OK) {
+    put(INTEGRATION_K, <real>k);
+    return st;
+  }
   writeSlots();
+  return OK;
+}
+
+/**
+ * Write the current run's state, Phi and monitor summary in the integration_transition layout: r, v; Phi
+ * row-major; maximum deviations and first steps over budget; the symplectic defect's maximum, first step over its
+ * budget and value at this step; k and t. ERR_DOMAIN when the run does not carry Phi; the run's failure status
+ * after a failure (nothing written).
+ */
+export function integrate_phi(): i32 {
+  if (failed != OK) return failed;
+  if (!carry) return ERR_DOMAIN;
+  put(INTEGRATION_TRANSITION_RX, X);
+  put(INTEGRATION_TRANSITION_RY, Y);
+  put(INTEGRATION_TRANSITION_RZ, Z);
+  put(INTEGRATION_TRANSITION_VX, VX);
+  put(INTEGRATION_TRANSITION_VY, VY);
+  put(INTEGRATION_TRANSITION_VZ, VZ);
+  phiPut(INTEGRATION_TRANSITION_PHI_11);
+  monitorPutSummary(INTEGRATION_TRANSITION_ENERGY_DEV, INTEGRATION_TRANSITION_ENERGY_STEP, INTEGRATION_TRANSITION_SYMP_DEV,
+    INTEGRATION_TRANSITION_SYMP_STEP, INTEGRATION_TRANSITION_SYMP_DEV_NOW);
+  put(INTEGRATION_TRANSITION_K, <real>k);
+  put(INTEGRATION_TRANSITION_T, <real>k * hStep);
   return OK;
 }
 
@@ -329,7 +423,26 @@ export function integrate(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, 
   steps: i32, meth: i32, j2: real, j3: real, radius: real, energyBudget: real, hBudget: real, eccBudget: real,
   arealBudget: real): i32 {
   const st = begin(mu, r0x, r0y, r0z, v0x, v0y, v0z, step, steps, meth, j2, j3, radius,
-    energyBudget, hBudget, eccBudget, arealBudget);
+    energyBudget, hBudget, eccBudget, arealBudget, false, 0);
   if (st != OK) return st;
   return integrate_step(steps);
+}
+
+/**
+ * integrate with the transition matrix of the discrete map carried beside the state (variational.ts) and its
+ * symplectic defect monitored on every step (budget sympBudget, 0: none). Writes the integration_transition
+ * layout for the final step (integrate_phi); after a failure during the run, only its slot k (the failing step).
+ */
+export function integrate_transition(mu: real, r0x: real, r0y: real, r0z: real, v0x: real, v0y: real, v0z: real,
+  step: real, steps: i32, meth: i32, j2: real, j3: real, radius: real, energyBudget: real, hBudget: real,
+  eccBudget: real, arealBudget: real, sympBudget: real): i32 {
+  const st = begin(mu, r0x, r0y, r0z, v0x, v0y, v0z, step, steps, meth, j2, j3, radius,
+    energyBudget, hBudget, eccBudget, arealBudget, true, sympBudget);
+  if (st != OK) return st;
+  const run = advance(steps);
+  if (run != OK) {
+    put(INTEGRATION_TRANSITION_K, <real>k);
+    return run;
+  }
+  return integrate_phi();
 }

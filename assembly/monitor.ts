@@ -14,6 +14,9 @@
 //  ecc     |e - e0|          (e is already dimensionless; an absolute measure keeps circular orbits usable)
 //  areal   ||h| - |h0|| / |h0|  point mass;  |h_z - h_z0| / |h0| zonal
 // With zonal terms on, e is not an invariant: its deviation is still reported, and its budget is ignored.
+//  5. Symplectic defect (runs that carry the transition matrix, variational.ts): max |Phi~^T J Phi~ - J| of the
+//     scale-free Phi~; computed by variational.ts (phiDefect), recorded here like the others (monitorSympUpdate).
+//     Its deviation is the defect itself (0 at step 0, where Phi = I).
 // Budgets: a budget > 0 is active; the first step k >= 1 whose deviation exceeds it is recorded (-1: none).
 // The helpers assume finite states with r > 0 (the integrator checks before calling them).
 
@@ -62,6 +65,12 @@ let firstE: i32 = -1;
 let firstH: i32 = -1;
 let firstEcc: i32 = -1;
 let firstA: i32 = -1;
+
+// The symplectic defect (runs with Phi): budget, value at the last step, running maximum, first step over.
+let budS: real = 0;
+let devS: real = 0;
+let maxS: real = 0;
+let firstS: i32 = -1;
 
 /** Evaluate the invariants at one state (sets the cur* values). */
 function evaluate(x: real, y: real, z: real, vx: real, vy: real, vz: real, V: real): void {
@@ -180,4 +189,38 @@ export function monitorPut(): void {
   put(25, devH);
   put(26, devEcc);
   put(27, devA);
+}
+
+/** Start monitoring the symplectic defect (a run that carries Phi): budget, and 0 at step 0. */
+export function monitorSympBegin(bS: real): void {
+  budS = bS;
+  devS = 0;
+  maxS = 0;
+  firstS = -1;
+}
+
+/** Record the symplectic defect d of step k (k >= 1). */
+export function monitorSympUpdate(k: i32, d: real): void {
+  devS = d;
+  if (d > maxS) maxS = d;
+  if (firstS < 0 && budS > 0 && d > budS) firstS = k;
+}
+
+/**
+ * Write the running maxima (energy, h, ecc, areal) to the four slots from `devSlot`, their first steps over budget
+ * to the four from `stepSlot`, and the symplectic defect's maximum, first step and last value to the given slots
+ * (the integration_transition layout).
+ */
+export function monitorPutSummary(devSlot: i32, stepSlot: i32, sympDev: i32, sympStep: i32, sympNow: i32): void {
+  put(devSlot, maxE);
+  put(devSlot + 1, maxH);
+  put(devSlot + 2, maxEcc);
+  put(devSlot + 3, maxA);
+  put(stepSlot, <real>firstE);
+  put(stepSlot + 1, <real>firstH);
+  put(stepSlot + 2, <real>firstEcc);
+  put(stepSlot + 3, <real>firstA);
+  put(sympDev, maxS);
+  put(sympStep, <real>firstS);
+  put(sympNow, devS);
 }

@@ -246,6 +246,61 @@ typedef double areal_real;
 #define AREAL_SLOT_INTEGRATION_H_DEV_NOW 25 /* 1 */
 #define AREAL_SLOT_INTEGRATION_ECC_DEV_NOW 26 /* 1 */
 #define AREAL_SLOT_INTEGRATION_AREAL_DEV_NOW 27 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_RX 0 /* length */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_RY 1 /* length */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_RZ 2 /* length */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_VX 3 /* length/time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_VY 4 /* length/time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_VZ 5 /* length/time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_11 6 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_12 7 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_13 8 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_14 9 /* time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_15 10 /* time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_16 11 /* time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_21 12 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_22 13 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_23 14 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_24 15 /* time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_25 16 /* time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_26 17 /* time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_31 18 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_32 19 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_33 20 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_34 21 /* time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_35 22 /* time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_36 23 /* time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_41 24 /* 1/time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_42 25 /* 1/time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_43 26 /* 1/time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_44 27 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_45 28 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_46 29 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_51 30 /* 1/time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_52 31 /* 1/time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_53 32 /* 1/time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_54 33 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_55 34 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_56 35 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_61 36 /* 1/time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_62 37 /* 1/time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_63 38 /* 1/time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_64 39 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_65 40 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_PHI_66 41 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_ENERGY_DEV 42 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_H_DEV 43 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_ECC_DEV 44 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_AREAL_DEV 45 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_ENERGY_STEP 46 /* count */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_H_STEP 47 /* count */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_ECC_STEP 48 /* count */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_AREAL_STEP 49 /* count */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_SYMP_DEV 50 /* 1 */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_SYMP_STEP 51 /* count */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_K 52 /* count */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_T 53 /* time */
+#define AREAL_SLOT_INTEGRATION_TRANSITION_SYMP_DEV_NOW 54 /* 1 */
 #define AREAL_SLOT_TO_RELATIVE_X 0 /* length */
 #define AREAL_SLOT_TO_RELATIVE_Y 1 /* length */
 #define AREAL_SLOT_TO_RELATIVE_Z 2 /* length */
@@ -327,6 +382,12 @@ AREAL_API(integrate) int32_t integrate(areal_real mu, areal_real r0x, areal_real
 AREAL_API(integrate_begin) int32_t integrate_begin(areal_real mu, areal_real r0x, areal_real r0y, areal_real r0z, areal_real v0x, areal_real v0y, areal_real v0z, areal_real step, int32_t method, areal_real j2, areal_real j3, areal_real radius, areal_real energy_budget, areal_real h_budget, areal_real ecc_budget, areal_real areal_budget);
 /* advances the run started by integrate_begin by n steps. Slots: rx, ry, rz, vx, vy, vz, energy_dev, h_dev, ecc_dev, areal_dev, energy_step, h_step, ecc_step, areal_step, k, t, energy, hx, hy, hz, ex, ey, ez, areal_velocity, energy_dev_now, h_dev_now, ecc_dev_now, areal_dev_now. Returns a status. */
 AREAL_API(integrate_step) int32_t integrate_step(int32_t n);
+/* integrate with the 6x6 transition matrix of the discrete map carried beside the state (variational equations), invariants and the symplectic defect monitored on every step. Slots: rx, ry, rz, vx, vy, vz, phi_11, phi_12, phi_13, phi_14, phi_15, phi_16, phi_21, phi_22, phi_23, phi_24, phi_25, phi_26, phi_31, phi_32, phi_33, phi_34, phi_35, phi_36, phi_41, phi_42, phi_43, phi_44, phi_45, phi_46, phi_51, phi_52, phi_53, phi_54, phi_55, phi_56, phi_61, phi_62, phi_63, phi_64, phi_65, phi_66, energy_dev, h_dev, ecc_dev, areal_dev, energy_step, h_step, ecc_step, areal_step, symp_dev, symp_step, k, t, symp_dev_now. Returns a status. */
+AREAL_API(integrate_transition) int32_t integrate_transition(areal_real mu, areal_real r0x, areal_real r0y, areal_real r0z, areal_real v0x, areal_real v0y, areal_real v0z, areal_real step, int32_t steps, int32_t method, areal_real j2, areal_real j3, areal_real radius, areal_real energy_budget, areal_real h_budget, areal_real ecc_budget, areal_real areal_budget, areal_real symp_budget);
+/* starts a run of integrate_step that carries the transition matrix: integrate_transition's parameters without steps. Slots: rx, ry, rz, vx, vy, vz, energy_dev, h_dev, ecc_dev, areal_dev, energy_step, h_step, ecc_step, areal_step, k, t, energy, hx, hy, hz, ex, ey, ez, areal_velocity, energy_dev_now, h_dev_now, ecc_dev_now, areal_dev_now. Returns a status. */
+AREAL_API(integrate_transition_begin) int32_t integrate_transition_begin(areal_real mu, areal_real r0x, areal_real r0y, areal_real r0z, areal_real v0x, areal_real v0y, areal_real v0z, areal_real step, int32_t method, areal_real j2, areal_real j3, areal_real radius, areal_real energy_budget, areal_real h_budget, areal_real ecc_budget, areal_real areal_budget, areal_real symp_budget);
+/* writes the current run's state, transition matrix and monitor summary (a run begun by integrate_transition_begin). Slots: rx, ry, rz, vx, vy, vz, phi_11, phi_12, phi_13, phi_14, phi_15, phi_16, phi_21, phi_22, phi_23, phi_24, phi_25, phi_26, phi_31, phi_32, phi_33, phi_34, phi_35, phi_36, phi_41, phi_42, phi_43, phi_44, phi_45, phi_46, phi_51, phi_52, phi_53, phi_54, phi_55, phi_56, phi_61, phi_62, phi_63, phi_64, phi_65, phi_66, energy_dev, h_dev, ecc_dev, areal_dev, energy_step, h_step, ecc_step, areal_step, symp_dev, symp_step, k, t, symp_dev_now. Returns a status. */
+AREAL_API(integrate_phi) int32_t integrate_phi(void);
 /* deputy inertial state -> relative state in the chief's rotating frame (x radial, z along h, y = z x x). Slots: x, y, z, vx, vy, vz. Returns a status. */
 AREAL_API(to_relative) int32_t to_relative(areal_real rcx, areal_real rcy, areal_real rcz, areal_real vcx, areal_real vcy, areal_real vcz, areal_real rdx, areal_real rdy, areal_real rdz, areal_real vdx, areal_real vdy, areal_real vdz);
 /* relative state in the chief's rotating frame -> deputy inertial state. Slots: rdx, rdy, rdz, vdx, vdy, vdz. Returns a status. */

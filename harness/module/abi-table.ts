@@ -146,6 +146,285 @@ const LAYOUT_INTEGRATION: readonly AbiOutput[] = [
  }
 ];
 
+/** The shared output layout integration_transition. */
+const LAYOUT_INTEGRATION_TRANSITION: readonly AbiOutput[] = [
+ {
+  "name": "rx",
+  "unit": "length",
+  "doc": "position x at step k"
+ },
+ {
+  "name": "ry",
+  "unit": "length",
+  "doc": "position y at step k"
+ },
+ {
+  "name": "rz",
+  "unit": "length",
+  "doc": "position z at step k"
+ },
+ {
+  "name": "vx",
+  "unit": "length/time",
+  "doc": "velocity x at step k"
+ },
+ {
+  "name": "vy",
+  "unit": "length/time",
+  "doc": "velocity y at step k"
+ },
+ {
+  "name": "vz",
+  "unit": "length/time",
+  "doc": "velocity z at step k"
+ },
+ {
+  "name": "phi_11",
+  "unit": "1",
+  "doc": "transition matrix of the discrete map from step 0 to step k, row-major: phi_ij = d(component i at step k) / d(component j at step 0), components x, y, z, vx, vy, vz"
+ },
+ {
+  "name": "phi_12",
+  "unit": "1",
+  "doc": "d x / d y0"
+ },
+ {
+  "name": "phi_13",
+  "unit": "1",
+  "doc": "d x / d z0"
+ },
+ {
+  "name": "phi_14",
+  "unit": "time",
+  "doc": "d x / d vx0"
+ },
+ {
+  "name": "phi_15",
+  "unit": "time",
+  "doc": "d x / d vy0"
+ },
+ {
+  "name": "phi_16",
+  "unit": "time",
+  "doc": "d x / d vz0"
+ },
+ {
+  "name": "phi_21",
+  "unit": "1",
+  "doc": "d y / d x0"
+ },
+ {
+  "name": "phi_22",
+  "unit": "1",
+  "doc": "d y / d y0"
+ },
+ {
+  "name": "phi_23",
+  "unit": "1",
+  "doc": "d y / d z0"
+ },
+ {
+  "name": "phi_24",
+  "unit": "time",
+  "doc": "d y / d vx0"
+ },
+ {
+  "name": "phi_25",
+  "unit": "time",
+  "doc": "d y / d vy0"
+ },
+ {
+  "name": "phi_26",
+  "unit": "time",
+  "doc": "d y / d vz0"
+ },
+ {
+  "name": "phi_31",
+  "unit": "1",
+  "doc": "d z / d x0"
+ },
+ {
+  "name": "phi_32",
+  "unit": "1",
+  "doc": "d z / d y0"
+ },
+ {
+  "name": "phi_33",
+  "unit": "1",
+  "doc": "d z / d z0"
+ },
+ {
+  "name": "phi_34",
+  "unit": "time",
+  "doc": "d z / d vx0"
+ },
+ {
+  "name": "phi_35",
+  "unit": "time",
+  "doc": "d z / d vy0"
+ },
+ {
+  "name": "phi_36",
+  "unit": "time",
+  "doc": "d z / d vz0"
+ },
+ {
+  "name": "phi_41",
+  "unit": "1/time",
+  "doc": "d vx / d x0"
+ },
+ {
+  "name": "phi_42",
+  "unit": "1/time",
+  "doc": "d vx / d y0"
+ },
+ {
+  "name": "phi_43",
+  "unit": "1/time",
+  "doc": "d vx / d z0"
+ },
+ {
+  "name": "phi_44",
+  "unit": "1",
+  "doc": "d vx / d vx0"
+ },
+ {
+  "name": "phi_45",
+  "unit": "1",
+  "doc": "d vx / d vy0"
+ },
+ {
+  "name": "phi_46",
+  "unit": "1",
+  "doc": "d vx / d vz0"
+ },
+ {
+  "name": "phi_51",
+  "unit": "1/time",
+  "doc": "d vy / d x0"
+ },
+ {
+  "name": "phi_52",
+  "unit": "1/time",
+  "doc": "d vy / d y0"
+ },
+ {
+  "name": "phi_53",
+  "unit": "1/time",
+  "doc": "d vy / d z0"
+ },
+ {
+  "name": "phi_54",
+  "unit": "1",
+  "doc": "d vy / d vx0"
+ },
+ {
+  "name": "phi_55",
+  "unit": "1",
+  "doc": "d vy / d vy0"
+ },
+ {
+  "name": "phi_56",
+  "unit": "1",
+  "doc": "d vy / d vz0"
+ },
+ {
+  "name": "phi_61",
+  "unit": "1/time",
+  "doc": "d vz / d x0"
+ },
+ {
+  "name": "phi_62",
+  "unit": "1/time",
+  "doc": "d vz / d y0"
+ },
+ {
+  "name": "phi_63",
+  "unit": "1/time",
+  "doc": "d vz / d z0"
+ },
+ {
+  "name": "phi_64",
+  "unit": "1",
+  "doc": "d vz / d vx0"
+ },
+ {
+  "name": "phi_65",
+  "unit": "1",
+  "doc": "d vz / d vy0"
+ },
+ {
+  "name": "phi_66",
+  "unit": "1",
+  "doc": "d vz / d vz0"
+ },
+ {
+  "name": "energy_dev",
+  "unit": "1",
+  "doc": "largest energy deviation |E - E0| / |E0| over steps 0..k"
+ },
+ {
+  "name": "h_dev",
+  "unit": "1",
+  "doc": "largest angular momentum deviation over steps 0..k: |h - h0| / |h0| (point mass), |h_z - h_z0| / |h0| (zonal field)"
+ },
+ {
+  "name": "ecc_dev",
+  "unit": "1",
+  "doc": "largest eccentricity vector deviation |e - e0| over steps 0..k (not an invariant in a zonal field)"
+ },
+ {
+  "name": "areal_dev",
+  "unit": "1",
+  "doc": "largest areal velocity deviation over steps 0..k: ||h| - |h0|| / |h0| (point mass), |h_z - h_z0| / |h0| (zonal field)"
+ },
+ {
+  "name": "energy_step",
+  "unit": "count",
+  "doc": "first step over the energy budget (-1: none, or no budget)"
+ },
+ {
+  "name": "h_step",
+  "unit": "count",
+  "doc": "first step over the angular momentum budget (-1: none)"
+ },
+ {
+  "name": "ecc_step",
+  "unit": "count",
+  "doc": "first step over the eccentricity budget (-1: none; ignored in a zonal field)"
+ },
+ {
+  "name": "areal_step",
+  "unit": "count",
+  "doc": "first step over the areal velocity budget (-1: none)"
+ },
+ {
+  "name": "symp_dev",
+  "unit": "1",
+  "doc": "largest symplectic defect over steps 0..k: max |Phi~^T J Phi~ - J| of the scale-free Phi~ = D^-1 Phi D, D = diag(L, L, L, V, V, V), L = |r0|, V = sqrt(mu / L)"
+ },
+ {
+  "name": "symp_step",
+  "unit": "count",
+  "doc": "first step over the symplectic defect budget (-1: none, or no budget)"
+ },
+ {
+  "name": "k",
+  "unit": "count",
+  "doc": "step index"
+ },
+ {
+  "name": "t",
+  "unit": "time",
+  "doc": "k * step"
+ },
+ {
+  "name": "symp_dev_now",
+  "unit": "1",
+  "doc": "symplectic defect at step k"
+ }
+];
+
 /** The ABI table (abi/areal.abi.json), with each export's output slots (a shared layout by reference). */
 export const ABI_TABLE: AbiTable = {
  "abi_version": 1,
@@ -1910,6 +2189,240 @@ export const ABI_TABLE: AbiTable = {
    ],
    "outputs": LAYOUT_INTEGRATION,
    "layout": "integration"
+  },
+  {
+   "name": "integrate_transition",
+   "group": "force",
+   "routine": "integrate-transition",
+   "summary": "integrate with the 6x6 transition matrix of the discrete map carried beside the state (variational equations), invariants and the symplectic defect monitored on every step",
+   "params": [
+    {
+     "name": "mu",
+     "unit": "length^3/time^2"
+    },
+    {
+     "name": "r0x",
+     "unit": "length"
+    },
+    {
+     "name": "r0y",
+     "unit": "length"
+    },
+    {
+     "name": "r0z",
+     "unit": "length"
+    },
+    {
+     "name": "v0x",
+     "unit": "length/time"
+    },
+    {
+     "name": "v0y",
+     "unit": "length/time"
+    },
+    {
+     "name": "v0z",
+     "unit": "length/time"
+    },
+    {
+     "name": "step",
+     "unit": "time"
+    },
+    {
+     "name": "steps",
+     "type": "i32",
+     "unit": "count"
+    },
+    {
+     "name": "method",
+     "type": "i32",
+     "enum": "method"
+    },
+    {
+     "name": "j2",
+     "unit": "1",
+     "default": 0
+    },
+    {
+     "name": "j3",
+     "unit": "1",
+     "default": 0
+    },
+    {
+     "name": "radius",
+     "unit": "length",
+     "default": 1
+    },
+    {
+     "name": "energy_budget",
+     "unit": "1",
+     "default": 0,
+     "doc": "largest allowed relative energy deviation (0: none)"
+    },
+    {
+     "name": "h_budget",
+     "unit": "1",
+     "default": 0
+    },
+    {
+     "name": "ecc_budget",
+     "unit": "1",
+     "default": 0
+    },
+    {
+     "name": "areal_budget",
+     "unit": "1",
+     "default": 0
+    },
+    {
+     "name": "symp_budget",
+     "unit": "1",
+     "default": 0,
+     "doc": "largest allowed symplectic defect of the scale-free Phi (0: none)"
+    }
+   ],
+   "outputs": LAYOUT_INTEGRATION_TRANSITION,
+   "columns": [
+    "rx",
+    "ry",
+    "rz",
+    "vx",
+    "vy",
+    "vz",
+    "phi_11",
+    "phi_12",
+    "phi_13",
+    "phi_14",
+    "phi_15",
+    "phi_16",
+    "phi_21",
+    "phi_22",
+    "phi_23",
+    "phi_24",
+    "phi_25",
+    "phi_26",
+    "phi_31",
+    "phi_32",
+    "phi_33",
+    "phi_34",
+    "phi_35",
+    "phi_36",
+    "phi_41",
+    "phi_42",
+    "phi_43",
+    "phi_44",
+    "phi_45",
+    "phi_46",
+    "phi_51",
+    "phi_52",
+    "phi_53",
+    "phi_54",
+    "phi_55",
+    "phi_56",
+    "phi_61",
+    "phi_62",
+    "phi_63",
+    "phi_64",
+    "phi_65",
+    "phi_66",
+    "energy_dev",
+    "h_dev",
+    "ecc_dev",
+    "areal_dev",
+    "energy_step",
+    "h_step",
+    "ecc_step",
+    "areal_step",
+    "symp_dev",
+    "symp_step"
+   ],
+   "layout": "integration_transition"
+  },
+  {
+   "name": "integrate_transition_begin",
+   "group": "force",
+   "summary": "starts a run of integrate_step that carries the transition matrix: integrate_transition's parameters without steps",
+   "params": [
+    {
+     "name": "mu",
+     "unit": "length^3/time^2"
+    },
+    {
+     "name": "r0x",
+     "unit": "length"
+    },
+    {
+     "name": "r0y",
+     "unit": "length"
+    },
+    {
+     "name": "r0z",
+     "unit": "length"
+    },
+    {
+     "name": "v0x",
+     "unit": "length/time"
+    },
+    {
+     "name": "v0y",
+     "unit": "length/time"
+    },
+    {
+     "name": "v0z",
+     "unit": "length/time"
+    },
+    {
+     "name": "step",
+     "unit": "time"
+    },
+    {
+     "name": "method",
+     "type": "i32",
+     "enum": "method"
+    },
+    {
+     "name": "j2",
+     "unit": "1"
+    },
+    {
+     "name": "j3",
+     "unit": "1"
+    },
+    {
+     "name": "radius",
+     "unit": "length"
+    },
+    {
+     "name": "energy_budget",
+     "unit": "1"
+    },
+    {
+     "name": "h_budget",
+     "unit": "1"
+    },
+    {
+     "name": "ecc_budget",
+     "unit": "1"
+    },
+    {
+     "name": "areal_budget",
+     "unit": "1"
+    },
+    {
+     "name": "symp_budget",
+     "unit": "1"
+    }
+   ],
+   "outputs": LAYOUT_INTEGRATION,
+   "layout": "integration"
+  },
+  {
+   "name": "integrate_phi",
+   "group": "force",
+   "summary": "writes the current run's state, transition matrix and monitor summary (a run begun by integrate_transition_begin)",
+   "params": [],
+   "outputs": LAYOUT_INTEGRATION_TRANSITION,
+   "layout": "integration_transition"
   },
   {
    "name": "to_relative",

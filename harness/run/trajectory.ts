@@ -4,6 +4,9 @@
  *  - a trajectory CSV with the state and the invariants of every step, and
  *  - a CCSDS Orbit Ephemeris Message in KVN form (CCSDS 502.0-B, OEM version 2.0) that other tools can read.
  * A budget broken is reported with the invariant, the first step over it and its time; the caller exits non-zero.
+ * With `"transition": true` the run carries the 6x6 transition matrix Phi of the discrete map (integrate_transition_begin,
+ * then integrate_phi after every step): the CSV gains the symplectic defect of every step and the 36 entries of Phi,
+ * and the budget `symp` bounds the defect.
  *
  * The plan's fields are documented in docs/trajectory-plan.md.
  */
@@ -23,8 +26,12 @@ const S = slotsOf("integrate_step", "rx", "ry", "rz", "vx", "vy", "vz", "energy_
   "energy_step", "h_step", "ecc_step", "areal_step", "k", "t", "energy", "hx", "hy", "hz", "ex", "ey", "ez", "areal_velocity",
   "energy_dev_now", "h_dev_now", "ecc_dev_now", "areal_dev_now");
 const TIME_SYSTEMS = ["UTC", "TAI", "TT", "GPS", "TDB", "TCB"] as const;
-const INVARIANTS = ["energy", "h", "ecc", "areal"] as const;
+const INVARIANTS = ["energy", "h", "ecc", "areal", "symp"] as const;
 export type InvariantName = (typeof INVARIANTS)[number];
+/** Output slots of integrate_phi (the integration_transition layout). */
+const T = slotsOf("integrate_phi", "phi_11", "symp_dev", "symp_step", "symp_dev_now");
+/** phi_ij, i = row (final component), j = column (initial component), row-major. */
+const PHI_COLUMNS: readonly string[] = Array.from({ length: 36 }, (_, q) => `phi_${Math.floor(q / 6) + 1}${(q % 6) + 1}`);
 /** Largest step count a plan may ask for (the kernels take up to 1e9 a call; files would be too large). */
 export const MAX_PLAN_STEPS = 5_000_000;
 
@@ -47,10 +54,12 @@ export interface Plan {
   readonly steps: number;
   readonly budgets: Readonly<Record<InvariantName, number>>;
   readonly oemEvery: number;
+  /** Carry the transition matrix and monitor its symplectic defect. */
+  readonly transition: boolean;
 }
 
 const KNOWN_FIELDS = new Set(["mission", "spacecraft", "object_id", "epoch", "time_system", "center_name", "ref_frame",
-  "mu", "radius", "j2", "j3", "r", "v", "method", "step", "duration", "steps", "budgets", "oem_every", "comment"]);
+  "mu", "radius", "j2", "j3", "r", "v", "method", "step", "duration", "steps", "budgets", "oem_every", "comment", "transition"]);
 
 /** Parse and check a trajectory plan. Errors name the file and the field. */
 export function parsePlan(text: string, source: string): Plan {
@@ -115,20 +124,23 @@ export function parsePlan(text: string, source: string): Plan {
     }
   }
   if (steps > MAX_PLAN_STEPS) bad(o.steps !== undefined ? "steps" : "duration", `asks for ${steps} steps; at most ${MAX_PLAN_STEPS}`);
-  const budgets = { energy: 0, h: 0, ecc: 0, areal: 0 };
+  if (o.transition !== undefined && typeof o.transition !== "boolean") bad("transition", "must be true or false");
+  const transition = o.transition === true;
+  const budgets = { energy: 0, h: 0, ecc: 0, areal: 0, symp: 0 };
   if (o.budgets !== undefined) {
     const b = o.budgets;
-    if (typeof b !== "object" || b === null || Array.isArray(b)) bad("budgets", "must be an object {energy, h, ecc, areal}");
+    if (typeof b !== "object" || b === null || Array.isArray(b)) bad("budgets", "must be an object {energy, h, ecc, areal, symp}");
     for (const [key, val] of Object.entries(b as Record<string, unknown>)) {
       if (!(INVARIANTS as readonly string[]).includes(key)) bad(`budgets.${key}`, `is not an invariant (known: ${INVARIANTS.join(", ")})`);
       if (typeof val !== "number" || !Number.isFinite(val) || val < 0) bad(`budgets.${key}`, "must be a finite number >= 0");
+      if (key === "symp" && !transition) bad("budgets.symp", "needs \"transition\": true (the symplectic defect is that of the transition matrix)");
       budgets[key as InvariantName] = val as number;
     }
   }
   const oemEvery = num("oem_every", 1);
   if (!Number.isInteger(oemEvery) || oemEvery < 1) bad("oem_every", "must be a whole number >= 1");
   return { mission, spacecraft, objectId, epoch, timeSystem, centerName, refFrame, mu, radius, j2, j3, r, v,
-    method: m as MethodName, step, steps, budgets, oemEvery };
+    method: m as MethodName, step, steps, budgets, oemEvery, transition };
 }
 
 /** An epoch split as whole days since 1970-01-01 and seconds of that day (keeps sub-millisecond steps exact-ish). */
@@ -189,8 +201,8 @@ export interface TrajectoryResult {
   readonly status: number;
   readonly csv: Uint8Array;
   readonly oem: string;
-  /** Largest deviation of each invariant over the run. */
-  readonly maxDev: Readonly<Record<InvariantName, number>>;
+  /** Largest deviation of each invariant over the run (symp only when the run carries the transition matrix). */
+  readonly maxDev: Readonly<Partial<Record<InvariantName, number>>>;
   readonly breaches: readonly Breach[];
 }
 
@@ -211,25 +223,36 @@ export interface TrajectoryOptions {
 
 const ROWS_PER_CHUNK = 20_000;
 
-/** One header line per CSV column: its meaning and unit, from the ABI table's integration layout. */
-function columnNotes(): string[] {
-  const outs = abiExport("integrate_step").outputs;
+/** Columns added when the run carries the transition matrix: this step's symplectic defect, then Phi. */
+export const CSV_TRANSITION_COLUMNS: readonly string[] = ["symp_dev", ...PHI_COLUMNS];
+const CSV_TRANSITION_SLOTS: readonly number[] = [T.symp_dev_now, ...PHI_COLUMNS.map((_, q) => T.phi_11 + q)];
+
+/** One header line per CSV column: its meaning and unit, from the ABI table's integration layouts. */
+function columnNotes(transition: boolean): string[] {
   const unit = (u: string): string => u.replace(/length/g, "km").replace(/time/g, "s");
-  return CSV_COLUMNS.map((c, i) => {
-    const o = outs[CSV_SLOTS[i]!]!;
+  const note = (outs: readonly { doc?: string; unit: string }[], c: string, slot: number): string => {
+    const o = outs[slot]!;
     const doc = o.doc ?? (c.length <= 2 ? `component ${c}` : c);
     return `# column ${c}: ${doc} [${unit(o.unit)}]`;
-  });
+  };
+  const outs = abiExport("integrate_step").outputs;
+  const lines = CSV_COLUMNS.map((c, i) => note(outs, c, CSV_SLOTS[i]!));
+  if (!transition) return lines;
+  const phiOuts = abiExport("integrate_phi").outputs;
+  return [...lines, ...CSV_TRANSITION_COLUMNS.map((c, i) => note(phiOuts, c, CSV_TRANSITION_SLOTS[i]!))];
 }
 
 /** Run a plan on a loaded module. Pure apart from calling the kernels: files are the caller's job. */
 export function runTrajectory(k: Kernels, sc: Plan, opts: TrajectoryOptions): TrajectoryResult {
-  for (const name of ["integrate_begin", "integrate_step"]) {
+  const beginName = sc.transition ? "integrate_transition_begin" : "integrate_begin";
+  for (const name of [beginName, "integrate_step", ...(sc.transition ? ["integrate_phi"] : [])]) {
     if (!k.has(name)) throw new PlanError(`${k.label}: the module has no export ${name} (docs/abi.md)`);
   }
   const b = sc.budgets;
-  const st0 = k.call("integrate_begin", [sc.mu, ...sc.r, ...sc.v, sc.step, METHODS[sc.method]!, sc.j2, sc.j3, sc.radius, b.energy, b.h, b.ecc, b.areal]);
-  if (st0 !== 0) throw new PlanError(`the initial state is rejected by integrate_begin: ${statusWord(st0)}`);
+  const args = [sc.mu, ...sc.r, ...sc.v, sc.step, METHODS[sc.method]!, sc.j2, sc.j3, sc.radius, b.energy, b.h, b.ecc, b.areal];
+  const st0 = k.call(beginName, sc.transition ? [...args, b.symp] : args);
+  if (st0 !== 0) throw new PlanError(`the initial state is rejected by ${beginName}: ${statusWord(st0)}`);
+  const invariants = INVARIANTS.filter((n) => sc.transition || n !== "symp");
   const out = k.out;
   const chunks: Buffer[] = [];
   const enc = (s: string): void => void chunks.push(Buffer.from(s, "utf8"));
@@ -237,21 +260,39 @@ export function runTrajectory(k: Kernels, sc: Plan, opts: TrajectoryOptions): Tr
     `# areal trajectory: mission ${sc.mission}, spacecraft ${sc.spacecraft}, module ${opts.source}`,
     `# method ${sc.method}, step ${shortest(sc.step)} s, ${sc.steps} steps, mu ${shortest(sc.mu)} km^3/s^2, radius ${shortest(sc.radius)} km, j2 ${shortest(sc.j2)}, j3 ${shortest(sc.j3)}`,
     `# epoch ${sc.epoch} ${sc.timeSystem}, frame ${sc.refFrame}, centre ${sc.centerName}; t in s from the epoch, km, km/s`,
-    ...columnNotes(),
-    `# budgets: ${INVARIANTS.map((n) => `${n} ${b[n] > 0 ? shortest(b[n]) : "none"}`).join(", ")}`,
-    CSV_COLUMNS.join(","),
+    ...columnNotes(sc.transition),
+    `# budgets: ${invariants.map((n) => `${n} ${b[n] > 0 ? shortest(b[n]) : "none"}`).join(", ")}`,
+    [...CSV_COLUMNS, ...(sc.transition ? CSV_TRANSITION_COLUMNS : [])].join(","),
   ];
   enc(header.join("\n") + "\n");
   const oemLines: string[] = [];
+  // With Phi, integrate_phi overwrites the region after the integration slots are read (it writes its own layout).
+  let sympMax = 0;
+  let sympFirst = -1;
   const row = (): string => {
-    return CSV_SLOTS.map((i) => shortest(out[i]!)).join(",");
+    const base = CSV_SLOTS.map((i) => shortest(out[i]!)).join(",");
+    if (!sc.transition) return base;
+    const st = k.call("integrate_phi", []);
+    if (st !== 0) throw new PlanError(`integrate_phi failed: ${statusWord(st)}`);
+    sympMax = out[T.symp_dev]!;
+    sympFirst = out[T.symp_step]!;
+    return `${base},${CSV_TRANSITION_SLOTS.map((i) => shortest(out[i]!)).join(",")}`;
   };
   const oemRow = (): string => {
     const t = out[S.t]!;
     return `${epochPlus(sc.epoch, t)} ${[S.rx, S.ry, S.rz, S.vx, S.vy, S.vz].map((i) => shortest(out[i]!)).join(" ")}`;
   };
-  let lines: string[] = [row()];
-  oemLines.push(oemRow());
+  let lines: string[] = [];
+  // The integration summary of the last good step, read before integrate_phi rewrites the region.
+  const maxDev: Partial<Record<InvariantName, number>> = {};
+  const firsts: Partial<Record<InvariantName, number>> = {};
+  const record = (withOem: boolean): void => {
+    if (withOem) oemLines.push(oemRow());
+    Object.assign(maxDev, { energy: out[S.energy_dev]!, h: out[S.h_dev]!, ecc: out[S.ecc_dev]!, areal: out[S.areal_dev]! });
+    Object.assign(firsts, { energy: out[S.energy_step]!, h: out[S.h_step]!, ecc: out[S.ecc_step]!, areal: out[S.areal_step]! });
+    lines.push(row());
+  };
+  record(true);
   let status = 0;
   let done = 0;
   const tick = Math.max(1, Math.floor(sc.steps / 200));
@@ -259,8 +300,7 @@ export function runTrajectory(k: Kernels, sc: Plan, opts: TrajectoryOptions): Tr
     status = k.call("integrate_step", [1]);
     if (status !== 0) break;
     done = i;
-    lines.push(row());
-    if (i % sc.oemEvery === 0 || i === sc.steps) oemLines.push(oemRow());
+    record(i % sc.oemEvery === 0 || i === sc.steps);
     if (lines.length >= ROWS_PER_CHUNK) {
       enc(lines.join("\n") + "\n");
       lines = [];
@@ -269,13 +309,15 @@ export function runTrajectory(k: Kernels, sc: Plan, opts: TrajectoryOptions): Tr
   }
   if (lines.length > 0) enc(lines.join("\n") + "\n");
   if (opts.progress) opts.progress(done, sc.steps);
-  // A failing integrate_step writes only slot 14 (the failed step): slots 6..13 still hold the last good step's.
-  const maxDev = { energy: out[S.energy_dev]!, h: out[S.h_dev]!, ecc: out[S.ecc_dev]!, areal: out[S.areal_dev]! };
-  const firsts = { energy: out[S.energy_step]!, h: out[S.h_step]!, ecc: out[S.ecc_step]!, areal: out[S.areal_step]! };
+  // A failing step writes nothing but the failed step number: the summary is the last good step's (record()).
+  if (sc.transition) {
+    maxDev.symp = sympMax;
+    firsts.symp = sympFirst;
+  }
   const breaches: Breach[] = [];
-  for (const n of INVARIANTS) {
-    const f = firsts[n];
-    if (f >= 0) breaches.push({ invariant: n, budget: b[n], step: f, t: f * sc.step, max: maxDev[n] });
+  for (const n of invariants) {
+    const f = firsts[n]!;
+    if (f >= 0) breaches.push({ invariant: n, budget: b[n], step: f, t: f * sc.step, max: maxDev[n]! });
   }
   const oem = formatOem(sc, oemLines, opts, done);
   return { steps: done, status, csv: Buffer.concat(chunks), oem, maxDev, breaches };
