@@ -47,6 +47,8 @@ export const OPTIONS = {
   shard: { type: "string", value: "k/n", help: "only shard k of n, for job arrays: sweep, the cases of shard k (join the parts with areal merge); eval, the rows starting in byte range k of n of the input (part 1 has the header; the parts joined in order are one run's bytes)" },
   resume: { type: "boolean", help: "sweep: when --out already holds this shard of this sweep (same routine, grid, module, shard; whole), keep it and exit 0 (safe resubmission)" },
   report: { type: "string", value: "DIR", help: "also write the HTML report (one self-contained file) and its JSON into this folder" },
+  "bench-json": { type: "string", value: "FILE", help: "--report: timings from `areal bench --json FILE` for the report's speed section (without it: not measured)" },
+  "counts-json": { type: "string", value: "FILE", help: "--report: instruction counts from `areal count --json FILE` for the report's counts section (without it: not measured)" },
   long: { type: "boolean", help: "bench: longer timings and a finer iteration grid (several minutes)" },
   profile: { type: "string", value: "FILE", help: "bench: target profile JSON (cycles per operation; bench/profiles/example-target.json)" },
   help: { type: "boolean", short: "h", help: "show help" },

@@ -65,8 +65,19 @@ function argIndices(routine: Routine, v: VectorSet): number[] {
   return routine.inputs.map((inp) => col(v, inp.name));
 }
 
+/** One compared output on one case, as runSuite's `onCase` sees it (the report's per-case plots). */
+export interface CaseError {
+  readonly row: number;
+  readonly output: string;
+  /** The error in the comparison's metric, and this case's limit in the same unit. */
+  readonly err: number;
+  readonly limit: number;
+  /** The case's conditioning column, when the comparison names one. */
+  readonly cond?: number;
+}
+
 /** Run one suite against a loaded build. `rows` limits the run to some row indices (all by default). */
-export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly number[]; vectors?: VectorSet; limits?: Limits } = {}): SuiteResult {
+export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly number[]; vectors?: VectorSet; limits?: Limits; onCase?: (c: CaseError) => void } = {}): SuiteResult {
   const routine = findRoutine(spec.routine);
   if (!routine) throw new Error(`suite ${spec.suite}: unknown routine ${spec.routine}`);
   const v = opts.vectors ?? readVectors(vectorPath(spec.suite));
@@ -153,6 +164,7 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
       const err = m.c.metric === "abs" && m.scale >= 0 ? caseError("abs", got, want, absErr / Math.abs(row[m.scale]!), single) : caseError(m.c.metric, got, want, absErr, single);
       const lim = caseLimit(m.c, limits, m.cond >= 0 ? row[m.cond]! : undefined, m.revs >= 0 ? row[m.revs]! : 0, want);
       const ratio = lim > 0 ? err / lim : err > 0 ? Infinity : 0;
+      opts.onCase?.({ row: r, output: m.c.output, err, limit: lim, ...(m.cond >= 0 ? { cond: row[m.cond]! } : {}) });
       if (absErr > a.maxAbs) a.maxAbs = absErr;
       if (err > a.max) a.max = err;
       if (ratio > a.maxRatio || (a.worst === undefined && err > 0)) {
