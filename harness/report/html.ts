@@ -14,7 +14,7 @@ import { join, resolve } from "node:path";
 import { writeAtomic } from "../core/atomic.js";
 import type { SuiteResult, MetricResult } from "../verify/check.js";
 import { formatFigure } from "../verify/check.js";
-import { CAUTION } from "../verify/summary.js";
+import { CAUTION, singleLossLine } from "../verify/summary.js";
 import type { Kernels } from "../module/load.js";
 import { renderSvg, heatmapSpec, driftSpec, ulpHistogramSpec, linearisationSpec } from "./plots.js";
 import { errorMap, iterationMap, drift, buildHistograms, linearisation } from "./data.js";
@@ -101,6 +101,8 @@ function summaryText(results: readonly SuiteResult[], k: Kernels): string {
   const lines = [`The ${esc(k.label)} build was run on ${cases.toLocaleString("en")} reference cases in ${ran.length} vector suites, each compared with values computed independently at 50 to 60 significant digits; a case passes when its error is within the suite's limit (a flat limit, widened where the problem itself is ill-conditioned by a stated factor times its conditioning) and its iteration count within the cap.`];
   lines.push(failed.length === 0 ? `<strong>All ${ran.length} suites passed.</strong>` : `<strong>${failed.length} of ${ran.length} suites FAILED:</strong> ${failed.map((r) => `${esc(r.suite)} (${esc(r.reasons.join("; "))})`).join("; ")}.`);
   if (na) lines.push(`${na} suite(s) were not applicable to this build (no case has inputs exact in its precision): neither passed nor failed.`);
+  const lost = singleLossLine(results);
+  if (lost) lines.push(esc(lost));
   return lines.join(" ");
 }
 

@@ -6,7 +6,7 @@ import { readVectors, vectorPath, col, type VectorSet } from "./vectors.js";
 import { findRoutine, type Routine } from "../module/routines.js";
 import type { Kernels } from "../module/load.js";
 import { limitsFor, type Limits } from "./limits.js";
-import { ulpDistance, ulpDistance32 } from "../core/float.js";
+import { ulpDistance, ulpDistance32, singlePrecisionLoss } from "../core/float.js";
 import { isOk, statusWord, abiViolation, abiViolationMessage } from "../module/status.js";
 import type { VectorSpec, Comparison } from "./specs/types.js";
 import { statSync } from "node:fs";
@@ -58,6 +58,11 @@ export interface SuiteResult {
   readonly pass: boolean;
   /** Plain reasons for a failure. */
   readonly reasons: readonly string[];
+  /**
+   * Single-precision build: of the rows skipped as not exact in f32, those whose inputs would also lose their
+   * meaning (core/float.ts singlePrecisionLoss): rows in all under "rows", and rows per kind of loss.
+   */
+  readonly lostInSingle?: Readonly<Record<string, number>>;
 }
 
 /** Arguments for a routine from a row of a vector file (inputs matched by column name). */
@@ -104,6 +109,7 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
   let abiViolations = 0;
   let firstViolation: string | undefined;
   let skipped = 0;
+  const lost: Record<string, number> = {};
   let firstFail: SuiteResult["firstStatusFailure"];
   const args: number[] = new Array(argCols.length).fill(0);
   const inputsOf = (r: number): Record<string, number> => Object.fromEntries(routine.inputs.map((inp, i) => [inp.name, v.values[r]![argCols[i]!]!]));
@@ -119,6 +125,7 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
     }
     if (!representable) {
       skipped++;
+      countLoss(routine, args, lost);
       continue;
     }
     const status = k.call(routine.exportName, args);
@@ -200,7 +207,16 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
     verdict: reasons.length > 0 ? "fail" : applicable ? "pass" : "not-applicable",
     pass: reasons.length === 0 && applicable,
     reasons,
+    ...(single && Object.keys(lost).length > 0 ? { lostInSingle: lost } : {}),
   };
+}
+
+/** Count a row's single-precision losses of meaning: once under "rows", once per kind. */
+function countLoss(routine: Routine, args: readonly number[], lost: Record<string, number>): void {
+  const kinds = routine.inputs.flatMap((inp, i) => (inp.choices ? [] : [singlePrecisionLoss(inp.name, args[i]!)])).filter((w): w is string => w !== undefined);
+  if (kinds.length === 0) return;
+  lost.rows = (lost.rows ?? 0) + 1;
+  for (const w of new Set(kinds)) lost[w] = (lost[w] ?? 0) + 1;
 }
 
 /**
