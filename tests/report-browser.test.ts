@@ -63,7 +63,7 @@ function openInBrowser(htmlPath: string, screenshot?: string): Seen {
 describe("areal check --report", () => {
   let html = "";
   let htmlPath = "";
-  let json: { pass: boolean; caution: string; sections: { id: string; shown: boolean; plot: boolean; absent?: string }[]; suites: unknown[]; f32_physical: { rows: { scenario: string; unit: string; difference: number }[] } };
+  let json: { pass: boolean; caution: string; sections: { id: string; shown: boolean; plot: boolean; absent?: string; outcome?: string }[]; suites: unknown[]; f32_physical: { rows: { scenario: string; unit: string; difference: number }[] } };
   beforeAll(async () => {
     const dir = mkdtempSync(join(tmpdir(), "areal-report-"));
     const k = release();
@@ -112,6 +112,18 @@ describe("areal check --report", () => {
     expect(readSpeed(undefined)).toMatch(/^not measured: run `areal bench --json FILE`/);
     expect(readCounts(undefined)).toMatch(/^not measured: run `areal count --json FILE`/);
     expect(readCounts(join(ROOT, "package.json"))).toMatch(/package\.json: no "targets" object; expected \{ "targets"/);
+  });
+
+  it("plots per case the figures the suite table gives: the largest error / limit of propagate and lambert", () => {
+    const k = release();
+    for (const [suite, id] of [["propagate", "propagation"], ["lambert", "lambert"]] as const) {
+      const cases = (json as unknown as Record<string, { cases: [string, string, number, number, number][] }>)[id]!.cases;
+      const r = runSuite(findSpec(suite)!, k);
+      expect(cases.length, suite).toBe((r.cases - r.skipped - r.statusFailures) * r.metrics.length);
+      expect(Math.max(...cases.map((c) => c[4])), suite).toBe(Math.max(...r.metrics.map((m) => m.maxRatio)));
+      expect(json.sections.find((s) => s.id === id)?.outcome, suite).toMatch(new RegExp(`^${suite}: [\\d,]+ cases, the worst at [\\d.e-]+ of its limit; passed\\.$`));
+    }
+    expect(html).toMatch(/The family sections below run their own suites on this build, case by case: all passed/);
   });
 
   it("gives single precision in physical units: metres and mm/s after a low-orbit revolution", () => {

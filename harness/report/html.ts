@@ -93,7 +93,7 @@ function suiteTables(results: readonly SuiteResult[]): string {
 }
 
 /** The plain-language conclusion at the top: what was checked, what passed, what failed and why. */
-function summaryText(results: readonly SuiteResult[], k: Kernels): string {
+function summaryText(results: readonly SuiteResult[], k: Kernels, sections: readonly Section[]): string {
   const ran = results.filter((r) => r.applicable);
   const failed = ran.filter((r) => !r.pass);
   const na = results.length - ran.length;
@@ -103,6 +103,13 @@ function summaryText(results: readonly SuiteResult[], k: Kernels): string {
   if (na) lines.push(`${na} suite(s) were not applicable to this build (no case has inputs exact in its precision): neither passed nor failed.`);
   const lost = singleLossLine(results);
   if (lost) lines.push(esc(lost));
+  const fam = sections.filter((s) => s.outcome !== undefined);
+  if (fam.length > 0) {
+    const bad = fam.filter((s) => s.pass === false);
+    lines.push(`The family sections below run their own suites on this build, case by case: ${bad.length === 0 ? "all passed" : `<strong>${bad.length} FAILED</strong>`} (${fam.map((s) => esc(s.outcome!)).join(" ")})`);
+  }
+  const absent = sections.filter((s) => s.svg === undefined && s.table === undefined);
+  if (absent.length > 0) lines.push(`Not shown: ${absent.map((s) => `${esc(s.title)} (${esc(s.absent ?? "")})`).join("; ")}.`);
   return lines.join(" ");
 }
 
@@ -181,7 +188,7 @@ export async function writeReport(dir: string, results: readonly SuiteResult[], 
 <style>${STYLE}</style></head><body>
 <h1>areal verification report</h1>
 <p class="caution"><strong>Caution.</strong> ${esc(CAUTION)}</p>
-<section id="summary"><h2>Summary</h2><p>${summaryText(results, k)}</p></section>
+<section id="summary"><h2>Summary</h2><p>${summaryText(results, k, sections)}</p></section>
 <section id="provenance"><h2>What was checked, with what</h2>${provenanceTable(prov, k)}</section>
 <section id="suites"><h2>Vector suites</h2><p>Errors in ulp are distances to the correctly rounded reference; relative errors are |got - want| / |want| (of the vector, for grouped outputs); units are those of the inputs (km, s, km^3/s^2 in the built-in suites). The same results are in areal-report.json beside this file.</p>${suiteTables(results)}</section>
 ${body}
@@ -191,7 +198,7 @@ ${body}
 `;
   const htmlPath = resolve(join(dir, "areal-report.html"));
   const jsonPath = resolve(join(dir, "areal-report.json"));
-  const json = { tool: "areal report", generated, provenance: prov, build: k.label, real_bytes: k.realBytes, pass, caution: CAUTION, suites: results, sections: sections.map((s) => ({ id: s.id, title: s.title, shown: s.svg !== undefined || s.table !== undefined, plot: s.svg !== undefined, ...(s.absent ? { absent: s.absent } : {}) })), ...data };
+  const json = { tool: "areal report", generated, provenance: prov, build: k.label, real_bytes: k.realBytes, pass, caution: CAUTION, suites: results, sections: sections.map((s) => ({ id: s.id, title: s.title, shown: s.svg !== undefined || s.table !== undefined, plot: s.svg !== undefined, ...(s.absent ? { absent: s.absent } : {}), ...(s.outcome ? { outcome: s.outcome, pass: s.pass } : {}) })), ...data };
   writeAtomic(htmlPath, html);
   writeAtomic(jsonPath, JSON.stringify(json, null, 2) + "\n");
   return { html: htmlPath, json: jsonPath };

@@ -213,7 +213,7 @@ export function barSpec(title: string, bars: readonly { label: string; value: nu
     },
     layer: [
       { mark: { type: "bar", height: { band: 0.9 } }, encoding: { x2: { datum: Math.min(...shown.map((b) => b.value)) / 3 } } },
-      { mark: { type: "text", align: "left", dx: 3, fontSize: 9 }, encoding: { text: { field: "value", type: "quantitative", format: ".2~g" } } },
+      { mark: { type: "text", align: "left", dx: 3, fontSize: 9 }, encoding: { text: { field: "value", type: "quantitative", format: ",.3~r" } } },
     ],
   } as TopLevelSpec;
 }

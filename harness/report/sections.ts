@@ -23,6 +23,10 @@ export interface Section {
   readonly absent?: string;
   /** The section's data for the JSON. */
   readonly data?: unknown;
+  /** The outcome of the suite behind the section, in one sentence, for the report's summary. */
+  readonly outcome?: string;
+  /** False when that suite failed. */
+  readonly pass?: boolean;
 }
 
 export const esc = (s: string): string => s.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;");
@@ -49,7 +53,7 @@ async function hyperbolic(k: Kernels): Promise<Section> {
   if (typeof m === "string") return { id, title, intro: "", absent: m };
   return { id, title, intro: `Largest error per cell in ulp (whole numbers: one legend entry each) of the hyperbolic solver against the 50-digit references, over e from just above 1 to 1.8e308 and |M| up to 1.8e308. ${esc(outcome(m.result))}`,
     svg: await renderSvg(heatmapSpec("largest error (ulp) per cell", m.cells, "log10(e - 1)", "log10 |M| (M in rad)", "error (ulp)", "oranges", false, true)),
-    data: { x: "log10(e - 1)", y: "log10 |M|", value: "largest error (ulp)", cells: m.cells } };
+    data: { x: "log10(e - 1)", y: "log10 |M|", value: "largest error (ulp)", cells: m.cells }, outcome: outcome(m.result), pass: m.result.pass };
 }
 
 async function propagation(k: Kernels): Promise<Section> {
@@ -59,7 +63,7 @@ async function propagation(k: Kernels): Promise<Section> {
   if (typeof p === "string") return { id, title, intro: "", absent: p };
   return { id, title, intro: `Every case of the propagate suite: the error of r and of v (relative, as vectors) over that case's own limit, max(1e-13 (1 + revolutions), 10 x cond), against the case's conditioning (the relative change of r when one input moves by one ulp, computed at high precision). Near-parabolic cases have the largest conditioning, and the limit grows with it. ${esc(outcome(p.result))}`,
     svg: await renderSvg(ratioSpec("error / limit per case against conditioning", ratioPoints(p.points, (q) => q.x), { title: "conditioning of r (relative change per input ulp, log)", log: true }, { title: "orbit class" })),
-    data: { columns: ["tag", "output", "cond", "error (rel)", "error / limit"], cases: compact(p.points) } };
+    data: { columns: ["tag", "output", "cond", "error (rel)", "error / limit"], cases: compact(p.points) }, outcome: outcome(p.result), pass: p.result.pass };
 }
 
 async function lambert(k: Kernels): Promise<Section> {
@@ -69,7 +73,7 @@ async function lambert(k: Kernels): Promise<Section> {
   if (typeof p === "string") return { id, title, intro: "", absent: p };
   return { id, title, intro: `Every case of the lambert suite: the error of v1 and of v2 (relative, as vectors) over that case's limit, max(1e-13, 16 x cond), against the transfer angle; colour is the number of whole revolutions (0 to 5). The conditioning, and with it the limit, grows next to 180 deg, where the transfer plane is undefined. ${esc(outcome(p.result))}`,
     svg: await renderSvg(ratioSpec("error / limit per case against the transfer angle", ratioPoints(p.points, (q) => q.x), { title: "transfer angle (deg)", domain: [0, 360] }, { title: "revolutions", ordinal: true })),
-    data: { columns: ["tag", "output", "transfer angle (deg)", "error (rel)", "error / limit"], cases: compact(p.points) } };
+    data: { columns: ["tag", "output", "transfer angle (deg)", "error (rel)", "error / limit"], cases: compact(p.points) }, outcome: outcome(p.result), pass: p.result.pass };
 }
 
 async function transition(k: Kernels): Promise<Section> {
@@ -79,7 +83,7 @@ async function transition(k: Kernels): Promise<Section> {
   if (typeof p === "string") return { id, title, intro: "", absent: p };
   return { id, title, intro: `Every case of the transition suite (up to 25 revolutions, forwards and backwards), per orbit class: r and v as in propagation, and each 3x3 block of the scale-free matrix Phi~ = D^-1 Phi D against central differences of the 60-digit propagation, over the largest entry, each over its case's limit. ${esc(outcome(p.result))}`,
     svg: await renderSvg(ratioSpec("error / limit per case and orbit class", ratioPoints(p.points, (q) => q.group), { title: "orbit class", nominal: true }, { title: "orbit class" })),
-    data: { columns: ["tag", "output", "-", "error", "error / limit"], cases: compact(p.points) } };
+    data: { columns: ["tag", "output", "-", "error", "error / limit"], cases: compact(p.points) }, outcome: outcome(p.result), pass: p.result.pass };
 }
 
 /** The f32 build against the release build in metres and metres a second. */
