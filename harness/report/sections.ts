@@ -90,17 +90,18 @@ async function transition(k: Kernels): Promise<Section> {
 async function physical(k: Kernels): Promise<Section> {
   const id = "f32-physical";
   const title = "Single precision in physical units";
-  if (k.realBytes !== 8) return { id, title, intro: "", absent: `this report is for the ${k.label} build; the comparison runs the f32 build against the release build` };
+  // This report's build is one side: the f32 build against it, or (a single-precision report) it against f64.
+  let f64: Kernels;
   let f32: Kernels;
   try {
     const { loadNamedBuild } = await import("../module/builds.js");
-    f32 = loadNamedBuild("f32");
+    [f64, f32] = k.realBytes === 8 ? [k, loadNamedBuild("f32")] : [loadNamedBuild("f64"), k];
   } catch (err) {
-    return { id, title, intro: "", absent: `the f32 build could not be loaded (${(err as Error).message})` };
+    return { id, title, intro: "", absent: `the other build could not be loaded (${(err as Error).message})` };
   }
-  const rows = physicalRows(k, f32);
+  const rows = physicalRows(f64, f32);
   const fig = (x: number): string => (Number.isNaN(x) ? "-" : x.toPrecision(2));
-  return { id, title, intro: "The single-precision build (build/areal-f32.wasm, same source) and the release build on invented scenarios with the same inputs (rounded to single precision first, so only the arithmetic differs): the difference in metres, millimetres a second and metres a second. Earth GM of WGS 84. What single precision costs in flight terms, where ulps of a 7000 km coordinate say little.",
+  return { id, title, intro: `The single-precision build (${esc(f32.label)}) and the double-precision build (${esc(f64.label)}) on invented scenarios with the same inputs (rounded to single precision first, so only the arithmetic differs): the difference in metres, millimetres a second and metres a second. Earth GM of WGS 84. What single precision costs in flight terms, where ulps of a 7000 km coordinate say little.`,
     svg: await renderSvg(barSpec("f32 against f64: difference per scenario", rows.map((r) => ({ label: r.scenario, value: r.difference, group: `${r.quantity} (${r.unit})` })), "|f32 - f64| (log; m, mm/s or m/s as the colour says)", "quantity (unit)")),
     table: htmlTable(["scenario", "quantity", "|f32 - f64|", "unit", "note"], rows.map((r) => [r.scenario, r.quantity, fig(r.difference), r.unit, r.note ?? ""])),
     data: { baseline: "f64 on the f32-rounded inputs", rows } };
