@@ -10,7 +10,9 @@ import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { areal } from "./helpers.js";
+import { areal, single, release } from "./helpers.js";
+import { evaluateCsv, LOST_IN_F32 } from "../harness/run/evaluate.js";
+import { findRoutine } from "../harness/module/routines.js";
 import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
 
 let dir: string;
@@ -33,6 +35,17 @@ describe("eval on the f32 build", () => {
     expect(r.err).toContain("e rounded to 1 (1)");
     expect(r.err).toContain("M beyond the f32 range, became infinite (1)");
     expect(r.err).toContain("M below the f32 range, became 0 (1)");
+  });
+
+  it("in process: the status counts carry the rows lost and each kind (what the command line's summary prints)", () => {
+    const routine = findRoutine("kepler-elliptic")!;
+    const text = ROWS.join("\n") + "\n";
+    const st = evaluateCsv(routine, text, "in.csv", single()).statuses;
+    expect(st[LOST_IN_F32]).toBe(3);
+    expect(st[`${LOST_IN_F32}:e rounded to 1`]).toBe(1);
+    expect(st[`${LOST_IN_F32}:M beyond the f32 range, became infinite`]).toBe(1);
+    expect(st[`${LOST_IN_F32}:M below the f32 range, became 0`]).toBe(1);
+    expect(Object.keys(evaluateCsv(routine, text, "in.csv", release()).statuses).some((w) => w.startsWith(LOST_IN_F32))).toBe(false);
   });
 
   it("the same rows on the f64 build: nothing lost, exit 0; on f32 rows that keep their meaning: exit 0", () => {
