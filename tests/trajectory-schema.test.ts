@@ -68,6 +68,15 @@ describe("the schema", () => {
     expect(() => parsePlan(readFileSync(DEMO, "utf8"), "demo.json")).not.toThrow();
   });
 
+  it("the elements example plan runs, and starts at periapsis (mean anomaly 0 on an ellipse is the periapsis)", () => {
+    const file = fileURLToPath(new URL("../examples/plans/marrowfield-survey-elements.json", import.meta.url));
+    const got = run(readFileSync(file, "utf8"));
+    expect(got.rows.length).toBe(298);
+    const row = got.rows[0]!;
+    const r = Math.hypot(...["rx", "ry", "rz"].map((n) => row[got.cols.indexOf(n)]!));
+    expect(Math.abs(r - 7078.137 * (1 - 0.001))).toBeLessThan(1e-9); // a (1 - e), the periapsis radius
+  });
+
   it("docs/trajectory-plan.md points to it", () => {
     expect(readFileSync(join(ROOT, "docs", "trajectory-plan.md"), "utf8")).toContain("trajectory-plan.schema.json");
   });

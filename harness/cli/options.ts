@@ -39,7 +39,7 @@ export const OPTIONS = {
   verbose: { type: "boolean", short: "v", help: "more detail: iteration histograms, limits and their reasons" },
   date: { type: "string", value: "YYYY-MM-DD", help: "date written into the files' headers (default today): vector headers, the OEM's CREATION_DATE" },
   "out-dir": { type: "string", value: "DIR", help: "folder for generated vector files (default vectors/)" },
-  plan: { type: "string", short: "p", value: "FILE", help: "trajectory plan JSON (docs/trajectory-plan.md lists its fields)" },
+  plan: { type: "string", short: "p", value: "FILE", help: "trajectory plan JSON: a state vector or orbital elements, the force model and the run (schema docs/trajectory-plan.schema.json, fields in docs/trajectory-plan.md)" },
   csv: { type: "string", value: "FILE", help: "trajectory CSV to write (default <plan name>.csv here)" },
   oem: { type: "string", value: "FILE", help: "CCSDS OEM (KVN) file to write (default <plan name>.oem here)" },
   workers: { type: "string", value: "N", help: "worker threads, each with its own module instance (default: the number of cores)" },
