@@ -258,7 +258,7 @@ describe("areal trajectory", () => {
     const csv = join(dir, "p3.csv");
     const sc = JSON.parse(readFileSync(SCENARIO, "utf8")) as Record<string, unknown>;
     sc.mu = "398600.4418";
-    bad("trajectory", "plan mu as text", ["trajectory", "-p", file("textmu.json", JSON.stringify(sc)), "--csv", csv, "--oem", `${csv}.oem`], /field 'mu' must be a finite number/, [csv, `${csv}.oem`]);
+    bad("trajectory", "plan mu as text", ["trajectory", "-p", file("textmu.json", JSON.stringify(sc)), "--csv", csv, "--oem", `${csv}.oem`], /textmu\.json: \$\.mu: expected a number/, [csv, `${csv}.oem`]);
   });
 
   it("plan with CRLF line ends: accepted", () => {

@@ -71,3 +71,10 @@ export async function writeReport(...args: Parameters<typeof import("../report/h
   const m = await import("../report/html.js");
   return m.writeReport(...args);
 }
+
+/** The measurement files the report shows (--bench-json, --counts-json), as writeReport's options. */
+export function reportFiles(values: Record<string, unknown>): { benchJson?: string; countsJson?: string } {
+  const b = values["bench-json"] as string | undefined;
+  const c = values["counts-json"] as string | undefined;
+  return { ...(b !== undefined ? { benchJson: b } : {}), ...(c !== undefined ? { countsJson: c } : {}) };
+}

@@ -126,3 +126,18 @@ export function parseNumber(cell: string): number | undefined {
   if (!DECIMAL.test(s)) return undefined;
   return Number(s);
 }
+
+/**
+ * What single precision does to an input that changes its meaning, or undefined when it keeps it: a finite double
+ * beyond the f32 range becomes infinite, a non-zero one below half the smallest f32 subnormal becomes 0, and an
+ * eccentricity (an input named `e`) other than 1 rounds to exactly 1 (a parabola: 1 - 2^-25 < e < 1 + 2^-24).
+ * Rounding within the range is not a loss of meaning; the f32 build's suites hold exact f32 inputs for that.
+ */
+export function singlePrecisionLoss(name: string, x: number): string | undefined {
+  if (!Number.isFinite(x)) return undefined;
+  const f = Math.fround(x);
+  if (!Number.isFinite(f)) return `${name} beyond the f32 range, became infinite`;
+  if (x !== 0 && f === 0) return `${name} below the f32 range, became 0`;
+  if (name === "e" && x !== 1 && f === 1) return "e rounded to 1";
+  return undefined;
+}

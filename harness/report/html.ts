@@ -1,21 +1,26 @@
 /**
  * `areal check --report DIR` (and `npm start`): one self-contained HTML file, areal-report.html, and the same
- * results as JSON beside it (areal-report.json). Sections: the suite table; the error map of the elliptic solver
- * over the (e, M) plane; its iteration-count map; invariant drift against time for the integrators; ULP histograms
- * of the other builds against the release build; the caution on flight use. Plots are Vega-Lite specifications
- * rendered to inline SVG in Node (plots.ts); the file loads nothing from anywhere.
- * A section whose data cannot be had (no integrator in the module, no other build) says why instead of a plot.
+ * results as JSON beside it (areal-report.json). Sections: a plain-language summary; the provenance; the suite
+ * tables per family; the error map of the elliptic solver over the (e, M) plane; its iteration-count map;
+ * invariant drift of the integrators; linear guidance against the two-body problem; ULP histograms of the other
+ * builds; then per family (sections.ts): hyperbolic Kepler, propagation, transition matrices, Lambert, the
+ * single-precision build in physical units, speed (--bench-json) and instruction counts (--counts-json); the
+ * caution on flight use. Plots are Vega-Lite specifications rendered to inline SVG in Node (plots.ts); the file
+ * loads nothing from anywhere and prints to PDF (print styles below).
+ * A section whose data cannot be had (no integrator in the module, no other build) says why instead of a plot;
+ * speed and counts without their files say "not measured".
  */
 import { join, resolve } from "node:path";
 import { writeAtomic } from "../core/atomic.js";
 import type { SuiteResult, MetricResult } from "../verify/check.js";
 import { formatFigure } from "../verify/check.js";
-import { CAUTION } from "../verify/summary.js";
+import { CAUTION, singleLossLine } from "../verify/summary.js";
 import type { Kernels } from "../module/load.js";
 import { renderSvg, heatmapSpec, driftSpec, ulpHistogramSpec, linearisationSpec } from "./plots.js";
 import { errorMap, iterationMap, drift, buildHistograms, linearisation } from "./data.js";
 import { provenanceOf, type Provenance } from "./provenance.js";
 import { ABI_TABLE } from "../module/abi-table.js";
+import { familySections, esc, type Section } from "./sections.js";
 
 export interface ReportOptions {
   /** Builds compared with the release build in the ULP histograms (default js, and native when built). */
@@ -24,15 +29,10 @@ export interface ReportOptions {
   readonly compareRows?: number;
   /** Orbits of the integrator drift runs (default 100, 100 steps an orbit). */
   readonly orbits?: number;
-}
-
-interface Section {
-  readonly id: string;
-  readonly title: string;
-  readonly intro: string;
-  readonly svg?: string;
-  /** Why there is no plot. */
-  readonly absent?: string;
+  /** `areal bench --json` output for the speed section ("not measured" without it). */
+  readonly benchJson?: string;
+  /** `areal count --json` output for the instruction-count section ("not measured" without it). */
+  readonly countsJson?: string;
 }
 
 /** The provenance as a two-column table. */
@@ -49,7 +49,6 @@ function provenanceTable(p: Provenance, k: Kernels): string {
   return `<table class="prov"><tbody>${rows.map(([a, b]) => `<tr><th>${esc(a)}</th><td>${esc(b)}</td></tr>`).join("")}</tbody></table>`;
 }
 
-const esc = (s: string): string => s.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;");
 
 /** The unit of a routine's output column (from the ABI table), for the tables. */
 function unitOf(routine: string, output: string): string {
@@ -94,7 +93,7 @@ function suiteTables(results: readonly SuiteResult[]): string {
 }
 
 /** The plain-language conclusion at the top: what was checked, what passed, what failed and why. */
-function summaryText(results: readonly SuiteResult[], k: Kernels): string {
+function summaryText(results: readonly SuiteResult[], k: Kernels, sections: readonly Section[]): string {
   const ran = results.filter((r) => r.applicable);
   const failed = ran.filter((r) => !r.pass);
   const na = results.length - ran.length;
@@ -102,6 +101,15 @@ function summaryText(results: readonly SuiteResult[], k: Kernels): string {
   const lines = [`The ${esc(k.label)} build was run on ${cases.toLocaleString("en")} reference cases in ${ran.length} vector suites, each compared with values computed independently at 50 to 60 significant digits; a case passes when its error is within the suite's limit (a flat limit, widened where the problem itself is ill-conditioned by a stated factor times its conditioning) and its iteration count within the cap.`];
   lines.push(failed.length === 0 ? `<strong>All ${ran.length} suites passed.</strong>` : `<strong>${failed.length} of ${ran.length} suites FAILED:</strong> ${failed.map((r) => `${esc(r.suite)} (${esc(r.reasons.join("; "))})`).join("; ")}.`);
   if (na) lines.push(`${na} suite(s) were not applicable to this build (no case has inputs exact in its precision): neither passed nor failed.`);
+  const lost = singleLossLine(results);
+  if (lost) lines.push(esc(lost));
+  const fam = sections.filter((s) => s.outcome !== undefined);
+  if (fam.length > 0) {
+    const bad = fam.filter((s) => s.pass === false);
+    lines.push(`The family sections below run their own suites on this build, case by case: ${bad.length === 0 ? "all passed" : `<strong>${bad.length} FAILED</strong>`} (${fam.map((s) => esc(s.outcome!)).join(" ")})`);
+  }
+  const absent = sections.filter((s) => s.svg === undefined && s.table === undefined);
+  if (absent.length > 0) lines.push(`Not shown: ${absent.map((s) => `${esc(s.title)} (${esc(s.absent ?? "")})`).join("; ")}.`);
   return lines.join(" ");
 }
 
@@ -109,7 +117,9 @@ const STYLE = `body{font-family:Helvetica,Arial,sans-serif;max-width:1100px;marg
 h1{font-size:1.5em}h2{font-size:1.2em;margin-top:2em;border-bottom:1px solid #ccc}
 table{border-collapse:collapse;font-size:.9em}td,th{border:1px solid #ccc;padding:.25em .5em;text-align:left}
 tr.fail td{background:#fdd}.caution{background:#fff4d6;border:1px solid #e0b000;padding:.6em 1em}
-.absent{color:#666;font-style:italic}figure{margin:1em 0}`;
+.absent{color:#666;font-style:italic}figure{margin:1em 0}svg{max-width:100%;height:auto}
+@media print{body{max-width:none;margin:0}h2{break-after:avoid}figure,tr{break-inside:avoid}table{font-size:.75em}}
+@page{size:A4;margin:15mm}`;
 
 /** Checks in the browser that every plot has a rendered SVG with marks; the result goes to data attributes. */
 export const CHECK_SCRIPT = `(function(){var f=document.querySelectorAll('figure.plot'),ok=0;f.forEach(function(x){var s=x.querySelector('svg');
@@ -164,16 +174,21 @@ export async function writeReport(dir: string, results: readonly SuiteResult[], 
       svg: await renderSvg(ulpHistogramSpec("output values per ULP difference", hb.bars)) });
   }
 
+  for (const s of await familySections(k, opts)) {
+    sections.push(s);
+    if (s.data !== undefined) data[s.id.replace(/-/g, "_")] = s.data;
+  }
+
   const pass = results.every((r) => r.verdict !== "fail");
   const prov = provenanceOf(k.label);
   const generated = prov.generated;
-  const body = sections.map((s) => `<section id="${s.id}"><h2>${esc(s.title)}</h2>${s.svg ? `<p>${s.intro}</p><figure class="plot" data-plot="${s.id}">${s.svg}</figure>` : `<p class="absent">Not shown: ${esc(s.absent ?? "")}.</p>`}</section>`).join("\n");
+  const body = sections.map((s) => `<section id="${s.id}"><h2>${esc(s.title)}</h2>${s.svg || s.table ? `<p>${s.intro}</p>${s.svg ? `<figure class="plot" data-plot="${s.id}">${s.svg}</figure>` : ""}${s.table ?? ""}` : `<p class="absent">${/^not measured/.test(s.absent ?? "") ? "" : "Not shown: "}${esc(s.absent ?? "")}.</p>`}</section>`).join("\n");
   const html = `<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8"><title>areal verification report</title>
 <style>${STYLE}</style></head><body>
 <h1>areal verification report</h1>
 <p class="caution"><strong>Caution.</strong> ${esc(CAUTION)}</p>
-<section id="summary"><h2>Summary</h2><p>${summaryText(results, k)}</p></section>
+<section id="summary"><h2>Summary</h2><p>${summaryText(results, k, sections)}</p></section>
 <section id="provenance"><h2>What was checked, with what</h2>${provenanceTable(prov, k)}</section>
 <section id="suites"><h2>Vector suites</h2><p>Errors in ulp are distances to the correctly rounded reference; relative errors are |got - want| / |want| (of the vector, for grouped outputs); units are those of the inputs (km, s, km^3/s^2 in the built-in suites). The same results are in areal-report.json beside this file.</p>${suiteTables(results)}</section>
 ${body}
@@ -183,7 +198,7 @@ ${body}
 `;
   const htmlPath = resolve(join(dir, "areal-report.html"));
   const jsonPath = resolve(join(dir, "areal-report.json"));
-  const json = { tool: "areal report", generated, provenance: prov, build: k.label, real_bytes: k.realBytes, pass, caution: CAUTION, suites: results, sections: sections.map((s) => ({ id: s.id, title: s.title, shown: s.svg !== undefined, ...(s.absent ? { absent: s.absent } : {}) })), ...data };
+  const json = { tool: "areal report", generated, provenance: prov, build: k.label, real_bytes: k.realBytes, pass, caution: CAUTION, suites: results, sections: sections.map((s) => ({ id: s.id, title: s.title, shown: s.svg !== undefined || s.table !== undefined, plot: s.svg !== undefined, ...(s.absent ? { absent: s.absent } : {}), ...(s.outcome ? { outcome: s.outcome, pass: s.pass } : {}) })), ...data };
   writeAtomic(htmlPath, html);
   writeAtomic(jsonPath, JSON.stringify(json, null, 2) + "\n");
   return { html: htmlPath, json: jsonPath };

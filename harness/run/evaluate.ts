@@ -9,7 +9,7 @@ import { closeSync, mkdtempSync, openSync, renameSync, rmSync, writeSync, create
 import { tmpdir } from "node:os";
 import { basename, dirname, join } from "node:path";
 import { parseCsv, CsvError, cell, lostOnParse } from "../core/csv.js";
-import { parseNumber } from "../core/float.js";
+import { parseNumber, singlePrecisionLoss } from "../core/float.js";
 import { cannotWrite as cannotWriteFile, makeDirs, outputIsInput } from "../core/atomic.js";
 import { removeOnSignal } from "../core/cleanup.js";
 import type { Routine, InputSpec } from "../module/routines.js";
@@ -27,6 +27,13 @@ export class EvalError extends Error {}
  * failure of the run that the status alone does not show.
  */
 export const BUDGET_BROKEN = "budget-broken";
+
+/**
+ * The key under which the status counts of an eval on a single-precision build count the rows whose inputs lost
+ * their meaning on the way to f32 (core/float.ts singlePrecisionLoss), and, under `LOST_IN_F32:<what>`, the rows
+ * per kind of loss: such a row's status (nonfinite-input, out-of-domain, ...) is single precision's doing.
+ */
+export const LOST_IN_F32 = "lost-in-f32";
 
 /** The output slots that name the first step over a budget (-1: none), for routines that have them. */
 function budgetSlots(routine: Routine): number[] {
@@ -406,8 +413,10 @@ export function evaluateLines(routine: Routine, plan: Plan, width: number, sourc
   const budgets = budgetSlots(routine);
   const a: number[] = new Array<number>(na).fill(0);
   let out = "";
+  const single = k.realBytes === 4;
   for (let r = 0; r < rows; r++) {
     for (let i = 0; i < na; i++) a[i] = args[r * na + i]!;
+    if (single) countLosses(plan.specs, a, statuses);
     const st = k.call(plan.exportName, a);
     const broken = abiViolation(st, k.out, routine.outputs);
     if (broken !== undefined) throw new ModuleError(abiViolationMessage(k.label, plan.exportName, a, broken));
@@ -422,6 +431,20 @@ export function evaluateLines(routine: Routine, plan: Plan, width: number, sourc
     out += line + word + "\n";
   }
   return { text: out, rows, lineCount, statuses };
+}
+
+/** Count a row's single-precision losses of meaning into `statuses` (LOST_IN_F32 once, and once per kind). */
+function countLosses(specs: readonly InputSpec[], a: readonly number[], statuses: Record<string, number>): void {
+  let lost = false;
+  for (let i = 0; i < specs.length; i++) {
+    if (specs[i]!.choices) continue;
+    const what = singlePrecisionLoss(specs[i]!.name, a[i]!);
+    if (what === undefined) continue;
+    const key = `${LOST_IN_F32}:${what}`;
+    statuses[key] = (statuses[key] ?? 0) + 1;
+    lost = true;
+  }
+  if (lost) statuses[LOST_IN_F32] = (statuses[LOST_IN_F32] ?? 0) + 1;
 }
 
 function copyToStdout(path: string): Promise<void> {

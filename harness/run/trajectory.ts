@@ -15,6 +15,7 @@ import type { Kernels } from "../module/load.js";
 import { statusWord } from "../module/status.js";
 import { shortest } from "../core/float.js";
 import { abiExport, choicesOf, slotsOf } from "../module/routines.js";
+import { schemaErrors } from "./plan-schema.js";
 
 export class PlanError extends Error {}
 
@@ -47,8 +48,13 @@ export interface Plan {
   readonly radius: number;
   readonly j2: number;
   readonly j3: number;
-  readonly r: readonly [number, number, number];
-  readonly v: readonly [number, number, number];
+  /** The initial state as given (r, v) or, with `elements`, undefined until initialState converts them. */
+  readonly r?: readonly [number, number, number];
+  readonly v?: readonly [number, number, number];
+  /** The initial state as orbital elements (docs/trajectory-plan.schema.json, $defs/elements). */
+  readonly elements?: PlanElements;
+  /** The plan file's name, for messages. */
+  readonly source: string;
   readonly method: MethodName;
   readonly step: number;
   readonly steps: number;
@@ -58,19 +64,49 @@ export interface Plan {
   readonly transition: boolean;
 }
 
-const KNOWN_FIELDS = new Set(["mission", "spacecraft", "object_id", "epoch", "time_system", "center_name", "ref_frame",
-  "mu", "radius", "j2", "j3", "r", "v", "method", "step", "duration", "steps", "budgets", "oem_every", "comment", "transition"]);
+/** Orbital elements of a plan, in the plan's units (km, degrees); exactly one of a_km, p_km and of the anomalies. */
+export interface PlanElements {
+  readonly a_km?: number;
+  readonly p_km?: number;
+  readonly e: number;
+  readonly i_deg: number;
+  readonly raan_deg: number;
+  readonly argp_deg: number;
+  readonly true_anomaly_deg?: number;
+  readonly mean_anomaly_deg?: number;
+}
 
-/** Parse and check a trajectory plan. Errors name the file and the field. */
+/** Every number in a parsed JSON value is finite (JSON.parse gives Infinity for 1e400); the path of the first that is not. */
+function nonFinitePath(x: unknown, path: string): string | undefined {
+  if (typeof x === "number") return Number.isFinite(x) ? undefined : path;
+  if (Array.isArray(x)) {
+    for (let i = 0; i < x.length; i++) {
+      const p = nonFinitePath(x[i], `${path}[${i}]`);
+      if (p) return p;
+    }
+  } else if (typeof x === "object" && x !== null) {
+    for (const [k, v] of Object.entries(x)) {
+      const p = nonFinitePath(v, `${path}.${k}`);
+      if (p) return p;
+    }
+  }
+  return undefined;
+}
+
+/**
+ * Parse and check a trajectory plan against docs/trajectory-plan.schema.json (plan-schema.ts), then what a schema
+ * cannot say. Errors name the file, the JSON path and what was expected; all schema errors at once.
+ */
 export function parsePlan(text: string, source: string): Plan {
-  let raw: unknown;
-  raw = parseJsonText(text, source, (m) => new PlanError(m));
-  if (typeof raw !== "object" || raw === null || Array.isArray(raw)) throw new PlanError(`${source}: expected a JSON object`);
+  const raw = parseJsonText(text, source, (m) => new PlanError(m));
+  const inf = nonFinitePath(raw, "$");
+  if (inf) throw new PlanError(`${source}: ${inf}: expected a finite number (the value is beyond the double range)`);
+  const errors = schemaErrors(raw, source);
+  if (errors.length > 0) throw new PlanError(errors.join("\n"));
   const o = raw as Record<string, unknown>;
   const bad = (field: string, what: string): never => {
-    throw new PlanError(`${source}: field '${field}' ${what}`);
+    throw new PlanError(`${source}: $.${field}: ${what}`);
   };
-  for (const key of Object.keys(o)) if (!KNOWN_FIELDS.has(key)) bad(key, `is not a plan field (known: ${[...KNOWN_FIELDS].join(", ")})`);
   const text_ = (f: string, def?: string): string => {
     const v = o[f];
     if (v === undefined) return def ?? bad(f, "is required");
@@ -105,8 +141,9 @@ export function parsePlan(text: string, source: string): Plan {
   if (!(radius > 0)) bad("radius", "must be positive");
   const j2 = num("j2", 0);
   const j3 = num("j3", 0);
-  const r = vec("r");
-  const v = vec("v");
+  const elements = o.elements as PlanElements | undefined;
+  const r = elements ? undefined : vec("r");
+  const v = elements ? undefined : vec("v");
   const m = text_("method");
   if (!(m in METHODS)) bad("method", `is '${m}'; expected one of ${Object.keys(METHODS).join(", ")}`);
   const step = num("step");
@@ -120,7 +157,7 @@ export function parsePlan(text: string, source: string): Plan {
     const duration = num("duration");
     steps = Math.round(duration / step);
     if (steps < 0 || Math.abs(steps * step - duration) > 1e-9 * Math.max(1, Math.abs(duration))) {
-      bad("duration", `(${duration} s) is not a whole number of steps of ${step} s in the step's direction`);
+      bad("duration", `expected a whole number of steps of ${step} s in the step's direction; got ${duration} s`);
     }
   }
   if (steps > MAX_PLAN_STEPS) bad(o.steps !== undefined ? "steps" : "duration", `asks for ${steps} steps; at most ${MAX_PLAN_STEPS}`);
@@ -139,8 +176,8 @@ export function parsePlan(text: string, source: string): Plan {
   }
   const oemEvery = num("oem_every", 1);
   if (!Number.isInteger(oemEvery) || oemEvery < 1) bad("oem_every", "must be a whole number >= 1");
-  return { mission, spacecraft, objectId, epoch, timeSystem, centerName, refFrame, mu, radius, j2, j3, r, v,
-    method: m as MethodName, step, steps, budgets, oemEvery, transition };
+  return { mission, spacecraft, objectId, epoch, timeSystem, centerName, refFrame, mu, radius, j2, j3,
+    ...(r && v ? { r, v } : {}), ...(elements ? { elements } : {}), source, method: m as MethodName, step, steps, budgets, oemEvery, transition };
 }
 
 /** An epoch split as whole days since 1970-01-01 and seconds of that day (keeps sub-millisecond steps exact-ish). */
@@ -151,13 +188,13 @@ interface Epoch {
 
 function parseEpoch(s: string, source: string): Epoch {
   const m = /^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2}):(\d{2}(?:\.\d+)?)$/.exec(s);
-  if (!m) throw new PlanError(`${source}: field 'epoch' is '${s}'; expected YYYY-MM-DDThh:mm:ss[.fff] (no zone suffix)`);
+  if (!m) throw new PlanError(`${source}: $.epoch: expected YYYY-MM-DDThh:mm:ss[.fff] (no zone suffix); got '${s}'`);
   const [y, mo, d, hh, mm] = [m[1], m[2], m[3], m[4], m[5]].map(Number) as [number, number, number, number, number];
   const ss = Number(m[6]);
   const ms = Date.UTC(y, mo - 1, d);
   const back = new Date(ms);
   if (back.getUTCFullYear() !== y || back.getUTCMonth() !== mo - 1 || back.getUTCDate() !== d || hh > 23 || mm > 59 || ss >= 60) {
-    throw new PlanError(`${source}: field 'epoch' is '${s}', which is not a valid date and time`);
+    throw new PlanError(`${source}: $.epoch: expected a valid date and time; got '${s}'`);
   }
   return { day: Math.round(ms / 86400000), sec: hh * 3600 + mm * 60 + ss };
 }
@@ -223,33 +260,104 @@ export interface TrajectoryOptions {
 
 const ROWS_PER_CHUNK = 20_000;
 
+/**
+ * Each CSV column: its unit and meaning, under a point mass and, where it differs, in a zonal field (j2 or j3 not
+ * 0). The same table is in the README ("Trajectory files"); tests/trajectory-plan.test.ts checks that both list
+ * every column. The deviations are this step's (the kernel's *_now slots), not running maxima.
+ */
+export const COLUMN_DOCS: Readonly<Record<(typeof CSV_COLUMNS)[number], { unit: string; doc: string; zonal?: string }>> = {
+  step: { unit: "count", doc: "step index k (0 is the initial state)" },
+  t: { unit: "s", doc: "time from the epoch, k * step" },
+  rx: { unit: "km", doc: "position x in ref_frame" },
+  ry: { unit: "km", doc: "position y" },
+  rz: { unit: "km", doc: "position z" },
+  vx: { unit: "km/s", doc: "velocity x in ref_frame" },
+  vy: { unit: "km/s", doc: "velocity y" },
+  vz: { unit: "km/s", doc: "velocity z" },
+  energy: { unit: "km^2/s^2", doc: "specific energy v.v/2 - mu/r", zonal: "v.v/2 + V(r) with the J2, J3 terms of V (conserved: the field is static)" },
+  hx: { unit: "km^2/s", doc: "angular momentum r x v, x" },
+  hy: { unit: "km^2/s", doc: "angular momentum r x v, y" },
+  hz: { unit: "km^2/s", doc: "angular momentum r x v, z (the conserved component in a zonal field)" },
+  ex: { unit: "1", doc: "eccentricity vector ((v.v - mu/r) r - (r.v) v) / mu, x (osculating)" },
+  ey: { unit: "1", doc: "eccentricity vector, y" },
+  ez: { unit: "1", doc: "eccentricity vector, z" },
+  areal_velocity: { unit: "km^2/s", doc: "areal velocity |h| / 2", zonal: "h_z / 2, that of the projection on the equator (the conserved part): hz / 2 on every row" },
+  energy_dev: { unit: "1", doc: "|E - E0| / |E0| at this step" },
+  h_dev: { unit: "1", doc: "|h - h0| / |h0| at this step (the whole vector)", zonal: "|h_z - h_z0| / |h0|: the same value as areal_dev on every row" },
+  ecc_dev: { unit: "1", doc: "|e - e0| at this step", zonal: "not an invariant (J2 turns the orbit); an ecc budget is ignored" },
+  areal_dev: { unit: "1", doc: "||h| - |h0|| / |h0| at this step (the size of h only)", zonal: "|h_z - h_z0| / |h0|: the same value as h_dev on every row" },
+};
+
 /** Columns added when the run carries the transition matrix: this step's symplectic defect, then Phi. */
 export const CSV_TRANSITION_COLUMNS: readonly string[] = ["symp_dev", ...PHI_COLUMNS];
 const CSV_TRANSITION_SLOTS: readonly number[] = [T.symp_dev_now, ...PHI_COLUMNS.map((_, q) => T.phi_11 + q)];
 
-/** One header line per CSV column: its meaning and unit, from the ABI table's integration layouts. */
-function columnNotes(transition: boolean): string[] {
+/** Header lines of the transition columns: meaning and unit from the ABI table's integration_transition layout. */
+function transitionNotes(): string[] {
+  const outs = abiExport("integrate_phi").outputs;
   const unit = (u: string): string => u.replace(/length/g, "km").replace(/time/g, "s");
-  const note = (outs: readonly { doc?: string; unit: string }[], c: string, slot: number): string => {
-    const o = outs[slot]!;
-    const doc = o.doc ?? (c.length <= 2 ? `component ${c}` : c);
-    return `# column ${c}: ${doc} [${unit(o.unit)}]`;
+  return CSV_TRANSITION_COLUMNS.map((c, i) => {
+    const o = outs[CSV_TRANSITION_SLOTS[i]!]!;
+    return `# column ${c} [${unit(o.unit)}]: ${o.doc ?? c}`;
+  });
+}
+
+/** One header line per CSV column: its unit and its meaning under this plan's force model. */
+function columnNotes(zonal: boolean, transition: boolean): string[] {
+  const lines = CSV_COLUMNS.map((c) => {
+    const d = COLUMN_DOCS[c];
+    return `# column ${c} [${d.unit}]: ${zonal && d.zonal ? d.zonal : d.doc}`;
+  });
+  if (zonal) lines.push("# zonal field on: only h_z of the angular momentum is conserved, so h_dev and areal_dev carry one quantity and areal_velocity is hz / 2; the columns stay so that every plan has the same columns");
+  return transition ? [...lines, ...transitionNotes()] : lines;
+}
+
+const DEG = Math.PI / 180;
+const NU = slotsOf("mean_to_true", "nu");
+const SV = slotsOf("state", "rx", "ry", "rz", "vx", "vy", "vz");
+
+/**
+ * The plan's initial state: r and v as given, or the elements converted by the module's own kernels (degrees to
+ * radians; a mean anomaly to the true anomaly by mean_to_true; then state with a_km, state_p with p_km). A status
+ * other than ok is an error naming the file, $.elements and the kernel's word (out-of-domain for a of the wrong
+ * sign for e, unreachable for a true anomaly beyond a hyperbola's asymptote, ...).
+ */
+export function initialState(k: Kernels, sc: Plan): { r: [number, number, number]; v: [number, number, number]; nu?: number } {
+  if (sc.r && sc.v) return { r: [...sc.r], v: [...sc.v] };
+  const el = sc.elements!;
+  const fail = (what: string): never => {
+    throw new PlanError(`${sc.source}: $.elements: ${what}`);
   };
-  const outs = abiExport("integrate_step").outputs;
-  const lines = CSV_COLUMNS.map((c, i) => note(outs, c, CSV_SLOTS[i]!));
-  if (!transition) return lines;
-  const phiOuts = abiExport("integrate_phi").outputs;
-  return [...lines, ...CSV_TRANSITION_COLUMNS.map((c, i) => note(phiOuts, c, CSV_TRANSITION_SLOTS[i]!))];
+  let nu = (el.true_anomaly_deg ?? 0) * DEG;
+  if (el.mean_anomaly_deg !== undefined) {
+    const st = k.call("mean_to_true", [el.e, el.mean_anomaly_deg * DEG]);
+    if (st >= 16) fail(`the mean anomaly is rejected by mean_to_true (e ${shortest(el.e)}): ${statusWord(st)}`);
+    nu = k.out[NU.nu]!;
+  }
+  const [name, size] = el.a_km !== undefined ? ["state", el.a_km] : ["state_p", el.p_km!];
+  if (name === "state" && el.e === 1) fail("e = 1 (a parabola) has no semi-major axis; give p_km");
+  if (name === "state" && (el.e < 1) !== (size > 0)) fail(`a_km ${shortest(size)} with e ${shortest(el.e)}: expected a_km > 0 for e < 1 (ellipse), a_km < 0 for e > 1 (hyperbola)`);
+  const st = k.call(name, [sc.mu, size, el.e, el.i_deg * DEG, el.raan_deg * DEG, el.argp_deg * DEG, nu]);
+  if (st >= 16) fail(`rejected by the ${name} kernel: ${statusWord(st)}${statusWord(st) === "unreachable" ? " (the true anomaly is beyond the hyperbola's asymptote)" : ""}`);
+  const o = k.out;
+  return { r: [o[SV.rx]!, o[SV.ry]!, o[SV.rz]!], v: [o[SV.vx]!, o[SV.vy]!, o[SV.vz]!], nu };
+}
+
+/** The elements as given, with units, for the file headers. */
+function elementsText(el: PlanElements): string {
+  return Object.entries(el).map(([k, v]) => `${k} ${shortest(v as number)}`).join(", ");
 }
 
 /** Run a plan on a loaded module. Pure apart from calling the kernels: files are the caller's job. */
 export function runTrajectory(k: Kernels, sc: Plan, opts: TrajectoryOptions): TrajectoryResult {
   const beginName = sc.transition ? "integrate_transition_begin" : "integrate_begin";
-  for (const name of [beginName, "integrate_step", ...(sc.transition ? ["integrate_phi"] : [])]) {
+  const needs = [beginName, "integrate_step", ...(sc.transition ? ["integrate_phi"] : []), ...(sc.elements ? ["state", "state_p", "mean_to_true"] : [])];
+  for (const name of needs) {
     if (!k.has(name)) throw new PlanError(`${k.label}: the module has no export ${name} (docs/abi.md)`);
   }
   const b = sc.budgets;
-  const args = [sc.mu, ...sc.r, ...sc.v, sc.step, METHODS[sc.method]!, sc.j2, sc.j3, sc.radius, b.energy, b.h, b.ecc, b.areal];
+  const init = initialState(k, sc);
+  const args = [sc.mu, ...init.r, ...init.v, sc.step, METHODS[sc.method]!, sc.j2, sc.j3, sc.radius, b.energy, b.h, b.ecc, b.areal];
   const st0 = k.call(beginName, sc.transition ? [...args, b.symp] : args);
   if (st0 !== 0) throw new PlanError(`the initial state is rejected by ${beginName}: ${statusWord(st0)}`);
   const invariants = INVARIANTS.filter((n) => sc.transition || n !== "symp");
@@ -260,7 +368,8 @@ export function runTrajectory(k: Kernels, sc: Plan, opts: TrajectoryOptions): Tr
     `# areal trajectory: mission ${sc.mission}, spacecraft ${sc.spacecraft}, module ${opts.source}`,
     `# method ${sc.method}, step ${shortest(sc.step)} s, ${sc.steps} steps, mu ${shortest(sc.mu)} km^3/s^2, radius ${shortest(sc.radius)} km, j2 ${shortest(sc.j2)}, j3 ${shortest(sc.j3)}`,
     `# epoch ${sc.epoch} ${sc.timeSystem}, frame ${sc.refFrame}, centre ${sc.centerName}; t in s from the epoch, km, km/s`,
-    ...columnNotes(sc.transition),
+    `# initial state ${init.r.map(shortest).join(" ")} km, ${init.v.map(shortest).join(" ")} km/s${sc.elements ? ` from the plan's elements (${elementsText(sc.elements)}) by areal's ${sc.elements.a_km !== undefined ? "state" : "state_p"} kernel${sc.elements.mean_anomaly_deg !== undefined ? ` (true anomaly ${shortest(init.nu! / DEG)} deg from mean_to_true)` : ""}` : " as given"}`,
+    ...columnNotes(sc.j2 !== 0 || sc.j3 !== 0, sc.transition),
     `# budgets: ${invariants.map((n) => `${n} ${b[n] > 0 ? shortest(b[n]) : "none"}`).join(", ")}`,
     [...CSV_COLUMNS, ...(sc.transition ? CSV_TRANSITION_COLUMNS : [])].join(","),
   ];
@@ -346,6 +455,7 @@ export function formatOem(sc: Plan, data: readonly string[], opts: TrajectoryOpt
     "",
     `COMMENT mission ${sc.mission}; propagated by areal (${opts.source}), method ${sc.method}, step ${shortest(sc.step)} s`,
     `COMMENT force model: mu ${shortest(sc.mu)} km**3/s**2, radius ${shortest(sc.radius)} km, J2 ${shortest(sc.j2)}, J3 ${shortest(sc.j3)}`,
+    ...(sc.elements ? [`COMMENT initial state from orbital elements: ${elementsText(sc.elements)}`] : []),
     "COMMENT units: km and km/s; not flight-qualified",
     ...ordered,
     "",

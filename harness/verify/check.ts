@@ -6,7 +6,7 @@ import { readVectors, vectorPath, col, type VectorSet } from "./vectors.js";
 import { findRoutine, type Routine } from "../module/routines.js";
 import type { Kernels } from "../module/load.js";
 import { limitsFor, type Limits } from "./limits.js";
-import { ulpDistance, ulpDistance32 } from "../core/float.js";
+import { ulpDistance, ulpDistance32, singlePrecisionLoss } from "../core/float.js";
 import { isOk, statusWord, abiViolation, abiViolationMessage } from "../module/status.js";
 import type { VectorSpec, Comparison } from "./specs/types.js";
 import { statSync } from "node:fs";
@@ -58,6 +58,11 @@ export interface SuiteResult {
   readonly pass: boolean;
   /** Plain reasons for a failure. */
   readonly reasons: readonly string[];
+  /**
+   * Single-precision build: of the rows skipped as not exact in f32, those whose inputs would also lose their
+   * meaning (core/float.ts singlePrecisionLoss): rows in all under "rows", and rows per kind of loss.
+   */
+  readonly lostInSingle?: Readonly<Record<string, number>>;
 }
 
 /** Arguments for a routine from a row of a vector file (inputs matched by column name). */
@@ -65,8 +70,19 @@ function argIndices(routine: Routine, v: VectorSet): number[] {
   return routine.inputs.map((inp) => col(v, inp.name));
 }
 
+/** One compared output on one case, as runSuite's `onCase` sees it (the report's per-case plots). */
+export interface CaseError {
+  readonly row: number;
+  readonly output: string;
+  /** The error in the comparison's metric, and this case's limit in the same unit. */
+  readonly err: number;
+  readonly limit: number;
+  /** The case's conditioning column, when the comparison names one. */
+  readonly cond?: number;
+}
+
 /** Run one suite against a loaded build. `rows` limits the run to some row indices (all by default). */
-export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly number[]; vectors?: VectorSet; limits?: Limits } = {}): SuiteResult {
+export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly number[]; vectors?: VectorSet; limits?: Limits; onCase?: (c: CaseError) => void } = {}): SuiteResult {
   const routine = findRoutine(spec.routine);
   if (!routine) throw new Error(`suite ${spec.suite}: unknown routine ${spec.routine}`);
   const v = opts.vectors ?? readVectors(vectorPath(spec.suite));
@@ -93,6 +109,7 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
   let abiViolations = 0;
   let firstViolation: string | undefined;
   let skipped = 0;
+  const lost: Record<string, number> = {};
   let firstFail: SuiteResult["firstStatusFailure"];
   const args: number[] = new Array(argCols.length).fill(0);
   const inputsOf = (r: number): Record<string, number> => Object.fromEntries(routine.inputs.map((inp, i) => [inp.name, v.values[r]![argCols[i]!]!]));
@@ -108,6 +125,7 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
     }
     if (!representable) {
       skipped++;
+      countLoss(routine, args, lost);
       continue;
     }
     const status = k.call(routine.exportName, args);
@@ -153,6 +171,7 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
       const err = m.c.metric === "abs" && m.scale >= 0 ? caseError("abs", got, want, absErr / Math.abs(row[m.scale]!), single) : caseError(m.c.metric, got, want, absErr, single);
       const lim = caseLimit(m.c, limits, m.cond >= 0 ? row[m.cond]! : undefined, m.revs >= 0 ? row[m.revs]! : 0, want);
       const ratio = lim > 0 ? err / lim : err > 0 ? Infinity : 0;
+      opts.onCase?.({ row: r, output: m.c.output, err, limit: lim, ...(m.cond >= 0 ? { cond: row[m.cond]! } : {}) });
       if (absErr > a.maxAbs) a.maxAbs = absErr;
       if (err > a.max) a.max = err;
       if (ratio > a.maxRatio || (a.worst === undefined && err > 0)) {
@@ -188,7 +207,16 @@ export function runSuite(spec: VectorSpec, k: Kernels, opts: { rows?: readonly n
     verdict: reasons.length > 0 ? "fail" : applicable ? "pass" : "not-applicable",
     pass: reasons.length === 0 && applicable,
     reasons,
+    ...(single && Object.keys(lost).length > 0 ? { lostInSingle: lost } : {}),
   };
+}
+
+/** Count a row's single-precision losses of meaning: once under "rows", once per kind. */
+function countLoss(routine: Routine, args: readonly number[], lost: Record<string, number>): void {
+  const kinds = routine.inputs.flatMap((inp, i) => (inp.choices ? [] : [singlePrecisionLoss(inp.name, args[i]!)])).filter((w): w is string => w !== undefined);
+  if (kinds.length === 0) return;
+  lost.rows = (lost.rows ?? 0) + 1;
+  for (const w of new Set(kinds)) lost[w] = (lost[w] ?? 0) + 1;
 }
 
 /**

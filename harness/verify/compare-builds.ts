@@ -208,6 +208,11 @@ export function compareTraces(spec: VectorSpec, v: VectorSet, base: Trace, other
 /** Units of outputs compared against references, for the physical-error lines. */
 const UNITS: Readonly<Record<string, string>> = {
   E: "rad", H: "rad", nu: "rad", anomaly: "rad", M: "rad", D: "(tan of half the true anomaly)", tof: "time units of the case",
+  i: "rad", raan: "rad", argp: "rad", L: "rad", e: "1", f: "1", g: "1", h: "1", k: "1",
+  // The built-in suites are in km, s (vectors/*.csv headers); a canonical case (mu = 1) in its own units.
+  rx: "km (suite units)", ry: "km (suite units)", rz: "km (suite units)", a: "km (suite units)", p: "km (suite units)",
+  vx: "km/s (suite units)", vy: "km/s (suite units)", vz: "km/s (suite units)",
+  area: "km^2 (suite units)", areal_velocity: "km^2/s (suite units)",
 };
 
 export interface PhysicalError {
@@ -218,8 +223,10 @@ export interface PhysicalError {
   readonly cases: number;
   /** Largest |got - ref| over all compared rows. */
   readonly maxAbs: number;
-  /** Largest |got - ref| over rows whose reference is within one turn (|ref| <= pi), the everyday range. */
+  /** Largest |got - ref| over rows whose reference is within one turn (|ref| <= pi), the everyday range; NaN for an output that is not an angle. */
   readonly maxAbsOneTurn: number;
+  /** Largest |got - ref| / |ref| (over rows with ref != 0): what a length or a speed error means. */
+  readonly maxRel: number;
   readonly worst?: { readonly row: number; readonly inputs: Readonly<Record<string, number>>; readonly got: number; readonly want: number };
 }
 
@@ -234,6 +241,7 @@ export function physicalErrors(spec: VectorSpec, v: VectorSet, t: Trace): Physic
     let cases = 0;
     let maxAbs = 0;
     let maxAbsOneTurn = 0;
+    let maxRel = 0;
     let worst: PhysicalError["worst"];
     for (let r = 0; r < v.values.length; r++) {
       if (t.statuses[r] === -1 || !isOk(t.statuses[r]!)) continue;
@@ -247,8 +255,10 @@ export function physicalErrors(spec: VectorSpec, v: VectorSet, t: Trace): Physic
         worst = { row: r, inputs: Object.fromEntries(routine.inputs.map((inp, i) => [inp.name, v.values[r]![cols[i]!]!])), got, want };
       }
       if (Math.abs(want) <= Math.PI && d > maxAbsOneTurn) maxAbsOneTurn = d;
+      if (want !== 0 && d / Math.abs(want) > maxRel) maxRel = d / Math.abs(want);
     }
-    return { suite: spec.suite, build: t.build, output: c.output, unit: UNITS[c.output] ?? "", cases, maxAbs, maxAbsOneTurn, worst };
+    const unit = UNITS[c.output] ?? "";
+    return { suite: spec.suite, build: t.build, output: c.output, unit, cases, maxAbs, maxAbsOneTurn: unit === "rad" ? maxAbsOneTurn : NaN, maxRel, worst };
   });
 }
 
@@ -388,8 +398,8 @@ export function formatBuildsReport(rep: BuildsReport): string {
   if (rep.physical.length) {
     out.push("", "single precision against the references (absolute error in the output's units):");
     out.push(...table(
-      ["suite", "build", "output", "cases", "max error", "within |ref| <= pi", "unit", "worst case"],
-      rep.physical.map((p) => [p.suite, p.build, p.output, String(p.cases), fig(p.maxAbs), fig(p.maxAbsOneTurn), p.unit,
+      ["suite", "build", "output", "cases", "max error", "unit", "max relative", "angles: |ref| <= pi", "worst case"],
+      rep.physical.map((p) => [p.suite, p.build, p.output, String(p.cases), fig(p.maxAbs), p.unit, fig(p.maxRel), Number.isNaN(p.maxAbsOneTurn) ? "-" : fig(p.maxAbsOneTurn),
         p.worst ? `${Object.entries(p.worst.inputs).map(([k, v]) => `${k}=${v}`).join(" ")} got ${p.worst.got} want ${p.worst.want}` : "-"]),
     ));
   }

@@ -12,7 +12,7 @@ import { selectSpecs } from "../../verify/generate.js";
 import { formatCheckTable, checkJson } from "../../verify/summary.js";
 import { UsageError, type Command } from "../options.js";
 import { arealPolicy, externalPolicy, readUserLimits, userPolicy, LimitsFileError, type LimitsPolicy } from "../../verify/limits.js";
-import { callLimit, kernelSource, loadKernels, writeReport } from "../shared.js";
+import { callLimit, kernelSource, loadKernels, reportFiles, writeReport } from "../shared.js";
 
 /** The user's limits file over a default policy (the default alone without one); a bad file is a usage error. */
 function limitsPolicy(file: string | undefined, base: LimitsPolicy): LimitsPolicy {
@@ -28,7 +28,7 @@ function limitsPolicy(file: string | undefined, base: LimitsPolicy): LimitsPolic
 
 export const checkCommand: Command = {
   summary: "run the vector suites against a build or a module and compare with the references (exit 1 if one fails)",
-  options: ["build", "module", "library", "call-limit", "suite", "limits", "json", "verbose", "workers", "report"],
+  options: ["build", "module", "library", "call-limit", "suite", "limits", "json", "verbose", "workers", "report", "bench-json", "counts-json"],
   async run(_pos, values) {
     const workers = parseWorkers(values.workers as string | undefined);
     const lib = values.library as string | undefined;
@@ -59,7 +59,7 @@ export const checkCommand: Command = {
     }
     process.stdout.write(formatCheckTable(results, k, Boolean(values.verbose)));
     if (values.json !== undefined) writeAtomic(values.json as string, JSON.stringify(checkJson(results, k), null, 2) + "\n");
-    if (values.report !== undefined) process.stderr.write(`report: ${(await writeReport(values.report as string, results, k)).html}\n`);
+    if (values.report !== undefined) process.stderr.write(`report: ${(await writeReport(values.report as string, results, k, reportFiles(values))).html}\n`);
     return results.every((r) => r.verdict !== "fail") ? 0 : 1;
   },
 };

@@ -1,6 +1,6 @@
 /** `areal eval <routine>`: run a routine over a CSV of inputs. */
 import { existsSync } from "node:fs";
-import { evaluateFile, BUDGET_BROKEN } from "../../run/evaluate.js";
+import { evaluateFile, BUDGET_BROKEN, LOST_IN_F32 } from "../../run/evaluate.js";
 import { parseShard } from "../../run/sweep.js";
 import { parseWorkers } from "../../core/pool.js";
 import { progressLine, progressWanted } from "../../core/progress.js";
@@ -8,7 +8,7 @@ import { UsageError, type Command } from "../options.js";
 import { kernelSource, loadKernels, routineArg } from "../shared.js";
 
 export const evalCommand: Command = {
-  summary: "run a routine over a CSV of inputs; one output row per input row, with its status (exit 1 when a row of integrate broke an invariant budget)",
+  summary: "run a routine over a CSV of inputs; one output row per input row, with its status (exit 1 when a row of integrate broke an invariant budget, or an input lost its meaning in single precision)",
   args: "<routine>",
   options: ["input", "out", "shard", "build", "module", "library", "call-limit", "workers"],
   required: ["input"],
@@ -32,9 +32,12 @@ export const evalCommand: Command = {
       bar.end();
     }
     const broken = res.statuses[BUDGET_BROKEN] ?? 0;
-    const counts = Object.entries(res.statuses).filter(([w]) => w !== BUDGET_BROKEN).map(([w, n]) => `${n} ${w}`).join(", ");
+    const lost = res.statuses[LOST_IN_F32] ?? 0;
+    const counts = Object.entries(res.statuses).filter(([w]) => w !== BUDGET_BROKEN && !w.startsWith(LOST_IN_F32)).map(([w, n]) => `${n} ${w}`).join(", ");
     const budgets = broken > 0 ? `; an invariant budget broken on ${broken} of them (the *_step columns name the first step over it)` : "";
-    if (out !== undefined || broken > 0) process.stderr.write(`${routine.name}: ${res.rows} rows (${counts || "none"}${budgets})${out !== undefined ? ` -> ${out}` : ""}\n`);
-    return broken > 0 ? 1 : 0;
+    const kinds = Object.entries(res.statuses).filter(([w]) => w.startsWith(`${LOST_IN_F32}:`)).map(([w, n]) => `${w.slice(LOST_IN_F32.length + 1)} (${n})`);
+    const single = lost > 0 ? `; ${lost} row${lost === 1 ? "" : "s"} lost meaning in single precision: ${kinds.join(", ")}` : "";
+    if (out !== undefined || broken > 0 || lost > 0) process.stderr.write(`${routine.name}: ${res.rows} rows (${counts || "none"}${budgets}${single})${out !== undefined ? ` -> ${out}` : ""}\n`);
+    return broken > 0 || lost > 0 ? 1 : 0;
   },
 };
