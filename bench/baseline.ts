@@ -11,12 +11,16 @@
 //    operations (for the per-operation cost model of harness/opcount.ts).
 // Inputs: pairs (e, M) as f64 at bench_inputs(), at most BENCH_CAPACITY pairs.
 
-import { kepler_elliptic } from "../assembly/kepler_elliptic";
+import { kepler_elliptic, correctionStep } from "../assembly/kepler_elliptic";
+import { kepler_hyperbolic } from "../assembly/kepler_hyperbolic";
 import { got } from "../assembly/io";
+import { reduceTurns, reducedLo } from "../assembly/reduce";
 
 /** Largest number of (e, M) pairs the input region holds. */
 export const BENCH_CAPACITY: i32 = 2048;
 const INPUTS: usize = memory.data(BENCH_CAPACITY * 16, 16);
+/** Per case, the solver's own reduced root |E_m| (the perfect starter of the floor loop), set by the host. */
+const ROOTS: usize = memory.data(BENCH_CAPACITY * 8, 16);
 /** Iteration cap of the Newton baseline (far above what it needs on the elliptic domain). */
 const NEWTON_MAX_ITER: i32 = 100;
 /** Stop when |step| <= NEWTON_TOL_REL * |E| (4 ulp of E). */
@@ -28,6 +32,10 @@ let newtonIters: i32 = 0;
 
 export function bench_inputs(): usize {
   return INPUTS;
+}
+
+export function bench_roots(): usize {
+  return ROOTS;
 }
 
 export function bench_capacity(): i32 {
@@ -135,6 +143,46 @@ export function op_chain(kind: i32, n: i32, x0: f64): f64 {
     case 14: for (let i = 0; i < n; i++) { x = Math.tan(x - 1.0) + 1.2; } break;
     case 15: for (let i = 0; i < n; i++) { x = Math.hypot(x, 0.5) - 0.3; } break;
     default: return -1;
+  }
+  return x;
+}
+
+/**
+ * The floor of the solver's design: the reduction of M plus ONE correction step from a perfect starter (the
+ * solver's own root, placed at bench_roots() by the host), no starter. Same code as kepler_elliptic's.
+ */
+export function loop_floor(n: i32): f64 {
+  let s: f64 = 0;
+  for (let i = 0; i < n && i < BENCH_CAPACITY; i++) {
+    const p = INPUTS + (<usize>i << 4);
+    const e = load<f64>(p);
+    const m = reduceTurns(load<f64>(p, 8));
+    const ml = reducedLo();
+    const E = load<f64>(ROOTS + (<usize>i << 3));
+    const mh = abs(m);
+    s += E + correctionStep(e, 1.0 - e, mh, m < 0 ? -ml : ml, E);
+  }
+  return s;
+}
+
+/** One sincos (the library's, one argument reduction for both) per case, each fed by the previous result: latency. */
+export function loop_sincos_dep(n: i32): f64 {
+  let x: f64 = 0;
+  for (let i = 0; i < n && i < BENCH_CAPACITY; i++) {
+    const p = INPUTS + (<usize>i << 4);
+    NativeMath.sincos(load<f64>(p, 8) + x * 1e-300);
+    x = NativeMath.sincos_sin + NativeMath.sincos_cos;
+  }
+  return x;
+}
+
+/** The solver with each case fed by the previous result (latency rather than throughput). */
+export function loop_elliptic_dep(n: i32): f64 {
+  let x: f64 = 0;
+  for (let i = 0; i < n && i < BENCH_CAPACITY; i++) {
+    const p = INPUTS + (<usize>i << 4);
+    kepler_elliptic(load<f64>(p), load<f64>(p, 8) + x * 1e-300);
+    x = got(0);
   }
   return x;
 }
