@@ -203,11 +203,12 @@ export function markleyStarter(e: real, inv: real, q: real, mh: real): real {
 //    (truncation below 91/729 |t|^5 = 1.4e-6). No division, no loop.
 function invCbrt2(X: real): real {
   let y0: real;
+  // (Integer quotients and 64-bit shifts written with explicit conversions, so the host-JS build reads them alike.)
   if (IS_F32) {
-    y0 = <real>reinterpret<f32>(INV_CBRT_MAGIC_F32 - reinterpret<u32>(<f32>X) / 3);
+    y0 = <real>reinterpret<f32>(INV_CBRT_MAGIC_F32 - <u32>(reinterpret<u32>(<f32>X) / 3));
   } else {
-    const hi = <u32>(reinterpret<u64>(<f64>X) >>> 32);
-    y0 = <real>reinterpret<f64>(<u64>(INV_CBRT_MAGIC_F64_HI - hi / 3) << 32);
+    const hi = <u32>(reinterpret<u64>(<f64>X) >> <u64>32);
+    y0 = <real>reinterpret<f64>(<u64>(INV_CBRT_MAGIC_F64_HI - <u32>(hi / 3)) << <u64>32);
   }
   const xy = X * y0;
   const t = <real>1.0 - xy * (y0 * y0);
