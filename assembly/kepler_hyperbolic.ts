@@ -88,7 +88,6 @@ function solvePositive(e: real, m: real): i32 {
   }
   let H = starter(e, em1, m);
   if (!(H > 0)) H = m / em1 < <real>1.0 ? m / em1 : <real>1.0; // underflowed starter: linear regime
-  const lnE = RMath.log(e);
   // For e near the top of the range, e cosh H overflows although the root is moderate: the equation is then
   // divided through by e (the steps are ratios, unchanged); below HUGE_E nothing is scaled, bit for bit.
   const scaled = e > HUGE_E;
@@ -101,7 +100,7 @@ function solvePositive(e: real, m: real): i32 {
       // g = ln e - ln(M + H) + H - ln 2 + log1p(-exp(-2H)). With e and M both huge the two logarithms are
       // large and nearly equal; take them as one logarithm of the ratio while the ratio is a normal real.
       const ratio = e / (m + H);
-      const lnRatio = ratio >= MIN_NORMAL ? RMath.log(ratio) : lnE - RMath.log(m + H);
+      const lnRatio = ratio >= MIN_NORMAL ? RMath.log(ratio) : RMath.log(e) - RMath.log(m + H); // ln e only here
       const g = (H - LN2 + RMath.log1p(-RMath.exp(<real>-2.0 * H))) + lnRatio;
       const g1 = <real>1.0 / RMath.tanh(H) - <real>1.0 / (m + H);
       step = -g / g1;

@@ -4,7 +4,7 @@
  * the bench-only module. `areal bench` gives the same figures with ratios, iteration and operation counts.
  */
 import { describe, bench } from "vitest";
-import { ROUTINES } from "../harness/module/routines.js";
+import { ROUTINES, slotsOf } from "../harness/module/routines.js";
 import { loadBuild, loadFile, type Kernels } from "../harness/module/load.js";
 import { loadNamedBuild } from "../harness/module/builds.js";
 import { routineInputs, ensureBenchModules, BASELINE_FILE, domainCases, DOMAIN_CASES } from "../harness/perf/bench.js";
@@ -47,4 +47,11 @@ describe("elliptic solver and baselines (loops in the bench module)", () => {
   bench("kepler_elliptic", () => void ex.loop_elliptic!(DOMAIN_CASES), OPTS);
   bench("Newton from E = M", () => void ex.loop_newton!(DOMAIN_CASES), OPTS);
   bench("one sin + one cos", () => void ex.loop_sincos!(DOMAIN_CASES), OPTS);
+  bench("one sincos fed by the previous one", () => void ex.loop_sincos_dep!(DOMAIN_CASES), OPTS);
+  const roots = new Float64Array(m.memory.buffer, (m.exports.bench_roots as () => number)(), DOMAIN_CASES);
+  domainCases().forEach(([e, M], i) => {
+    wasm.call("kepler_elliptic", [e!, M!]);
+    roots[i] = Math.abs(wasm.out[slotsOf("kepler_elliptic", "E").E]!); // |M| <= pi: the reduced root is |E|
+  });
+  bench("floor: reduction + one correction from a perfect starter", () => void ex.loop_floor!(DOMAIN_CASES), OPTS);
 });

@@ -13,6 +13,12 @@ import { SPECS } from "../harness/verify/specs/index.js";
 import { readVectors, vectorPath, col } from "../harness/verify/vectors.js";
 import { sameBits } from "../harness/core/float.js";
 import { release } from "./helpers.js";
+import { readFileSync } from "node:fs";
+import { join } from "node:path";
+import { moduleSizes } from "../harness/perf/size.js";
+import { BUILD_DIR } from "../harness/core/paths.js";
+
+const r0Sizes = () => moduleSizes();
 // @ts-expect-error: a plain JavaScript build script without types
 import { instrument } from "../scripts/instrument-wat.mjs";
 import { slotsOf } from "../harness/module/routines.js";
@@ -37,7 +43,11 @@ describe("areal bench result", () => {
     // the ratio definitions stated in harness/bench.ts
     expect(r.ratios.elliptic_vs_newton).toBeCloseTo(r.baselines.newtonNs / r.baselines.solverNs, 12);
     expect(r.ratios.elliptic_vs_sincos).toBeCloseTo(r.baselines.solverNs / r.baselines.sincosNs, 12);
-    expect(r.targets.map((t) => t.name)).toEqual(["elliptic_vs_newton", "elliptic_vs_sincos", "wasm_vs_js"]);
+    expect(r.ratios.floor_vs_sincos).toBeCloseTo(r.baselines.floorNs / r.baselines.sincosNs, 12);
+    expect(r.ratios.sincos_dep_vs_sincos).toBeCloseTo(r.baselines.sincosDepNs / r.baselines.sincosNs, 12);
+    for (const o of r.others) expect(o.speedup).toBeCloseTo(o.baselineNs / o.solverNs, 12);
+    expect(r.others.map((o) => o.routine)).toEqual(["kepler-hyperbolic", "propagate"]);
+    expect(r.targets.map((t) => t.name)).toEqual(["elliptic_vs_newton", "elliptic_vs_sincos", "hyperbolic_vs_newton", "propagate_vs_naive", "wasm_vs_js"]);
     expect(JSON.parse(JSON.stringify(r)).ratios.wasm_vs_js).toEqual(r.ratios.wasm_vs_js);
   });
 
@@ -69,6 +79,24 @@ describe("areal bench result", () => {
     expect(r.model.map((m) => m.routine)).toEqual(timed);
     for (const o of r.opcounts) for (const n of OP_NAMES) expect(o.mean[n]).toBeLessThanOrEqual(o.max[n]);
     expect(r.profile?.predictions.map((p) => p.routine)).toEqual(timed);
+  });
+});
+
+describe("module sizes per export (harness/perf/size.ts)", () => {
+  it("lists every function export of the release module, the file size, and at least as many functions as binaryen reads", () => {
+    const s = r0Sizes();
+    const file = readFileSync(join(BUILD_DIR, "areal.wasm"));
+    const exported = WebAssembly.Module.exports(new WebAssembly.Module(file)).filter((x) => x.kind === "function").map((x) => x.name).sort();
+    expect(s.exports.map((x) => x.name).sort()).toEqual(exported);
+    expect(s.totalBytes).toBe(file.length);
+    for (const x of s.exports) expect(x.reachedBytes).toBeGreaterThanOrEqual(x.ownBytes);
+    // binaryen (independent of size.ts) reads the functions of the same binary
+    const m = binaryen.readBinary(file);
+    expect(m.getNumFunctions()).toBeGreaterThanOrEqual(s.exports.length);
+    m.dispose();
+    expect(s.codeBytes + s.dataBytes).toBeLessThan(s.totalBytes);
+    // the elliptic solver's node table (assembly/sincos_table.ts, 8,224 bytes) is in the static data
+    expect(s.dataBytes).toBeGreaterThanOrEqual(8224);
   });
 });
 
@@ -148,17 +176,23 @@ describe("operation counters", () => {
     expect(compared).toBeGreaterThan(1000);
   });
 
-  it("kepler_elliptic: one sin and one cos per correction step (the step uses f, f', f'', f''' at one E), none for e = 0", () => {
+  it("kepler_elliptic: no library sin, cos or cube root (node table, short cube root); one sqrt and 2 + steps divisions (1/(1+e), Markley's quotient, one per step), none for e = 0", () => {
     const cm = loadCounting();
     const r = findRoutine("kepler-elliptic")!;
     const { rows } = routineInputs(r, release(), 200);
     const stats = countOps(cm, r.name, r.exportName, rows);
+    let stepped = 0;
     for (const c of stats.perCase) {
       cm.count("kepler_elliptic", c.inputs);
       const steps = cm.kernels.out[slotsOf("kepler_elliptic", "iterations").iterations]!;
-      expect(c.counts.sin).toBe(steps);
-      expect(c.counts.cos).toBe(steps);
+      expect([c.counts.sin, c.counts.cos, c.counts.cbrt]).toEqual([0, 0, 0]);
+      if (steps >= 1) {
+        expect(c.counts.sqrt).toBe(1);
+        expect(c.counts.div).toBe(2 + steps);
+        stepped++;
+      }
     }
+    expect(stepped).toBeGreaterThan(100);
     const e0 = cm.count("kepler_elliptic", [0, 1.5]).counts;
     expect([e0.sin, e0.cos, e0.cbrt, e0.div]).toEqual([0, 0, 0, 0]);
   });

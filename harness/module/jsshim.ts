@@ -36,8 +36,12 @@ function intConv(bits: 8 | 16 | 32, signed: boolean): (x: Num) => number {
   };
 }
 
-function int64Conv(signed: boolean): (x: Num) => number | bigint {
-  return (x) => (typeof x === "bigint" ? (signed ? BigInt.asIntN(64, x) : BigInt.asUintN(64, x)) : truncSat(+x, signed ? -(2 ** 63) : 0, signed ? 2 ** 63 : 2 ** 64));
+/** 64-bit conversions always give a BigInt (so `<u64>a << <u64>32` shifts like i64.shl instead of mixing types). */
+function int64Conv(signed: boolean): (x: Num) => bigint {
+  return (x) => {
+    const b = typeof x === "bigint" ? x : BigInt(truncSat(+x, signed ? -(2 ** 63) : 0, signed ? 2 ** 63 : 2 ** 64));
+    return signed ? BigInt.asIntN(64, b) : BigInt.asUintN(64, b);
+  };
 }
 
 const i32 = intConv(32, true);
@@ -113,11 +117,16 @@ export interface Shim {
 export function makeShim(memory: WebAssembly.Memory): Shim {
   const view = new DataView(memory.buffer);
   let top = 1024; // static data starts here, as in the compiled module (address 0 stays unused)
-  const data = (size: number, align = 16): number => {
+  // memory.data(size, align) reserves bytes; memory.data<T>([values]) (the type argument is erased by the
+  // transpiler) places the values: as f64, the one element type the kernels' tables use here (real is f64).
+  const data = (size: number | readonly number[], align = 16): number => {
+    const values = typeof size === "number" ? undefined : size;
+    const bytes = values ? values.length * 8 : (size as number);
     top = Math.ceil(top / align) * align;
     const at = top;
-    top += size;
+    top += bytes;
     if (top > memory.buffer.byteLength) throw new Error("memory.data: static data exceeds the js build's one page");
+    values?.forEach((v, i) => view.setFloat64(at + 8 * i, v, true));
     return at;
   };
   const load = (t: string, addr: number, off = 0): Num => {
