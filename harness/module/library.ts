@@ -19,7 +19,7 @@ import { createRequire } from "node:module";
 import { constants, tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { compiledScript } from "../core/paths.js";
-import { ModuleError, type Kernels } from "./load.js";
+import { ModuleError, setRowCaller, type Kernels, type RowCaller } from "./load.js";
 import { ROUTINES } from "./routines.js";
 import { ABI_VERSION, CORE_EXPORTS, OUT_SLOTS, kernelExports, kernelSignature, type ExportInfo, type ValType } from "./signatures.js";
 
@@ -83,7 +83,37 @@ export function openLibrary(path: string, label = path): { kernels: Kernels; tab
     if (v !== ABI_VERSION) throw new ModuleError(`${label}: areal_abi_version() returned ${v}; this harness implements ABI version ${ABI_VERSION} (docs/abi.md)`);
   }
   const kernels = tableKernels(label, realBytes, out, table, (name, args) => fns.get(name)!(...args));
+  // The batch entry points areal_rows_NAME (scripts/build-native.mjs generates them beside the module): one
+  // foreign call per chunk of rows, the typed arrays passed by reference.
+  const rowFns = new Map<string, (...a: unknown[]) => number>();
+  if (realBytes === 8) {
+    for (const name of table.keys()) {
+      const fn = find(`areal_rows_${name}`, "int32", ["int32", "double *", "int32", "double *", "int32 *"]);
+      if (fn) rowFns.set(name, fn as (...a: unknown[]) => number);
+    }
+  }
+  if (rowFns.size > 0) {
+    const each = rowsByCall(kernels);
+    setRowCaller(kernels, (name, args, na, rows, o, nOut, status) => {
+      const fn = rowFns.get(name);
+      if (!fn || nOut > OUT_SLOTS) return each(name, args, na, rows, o, nOut, status);
+      if (na !== table.get(name)!.length) throw new ModuleError(`${label}: ${name} takes ${table.get(name)!.length} arguments, got ${na}`);
+      fn(rows, args, nOut, o, status);
+    });
+  }
   return { kernels, table };
+}
+
+/** A RowCaller through `call`, one row at a time. */
+function rowsByCall(k: Kernels): RowCaller {
+  return (name, args, na, rows, o, nOut, status) => {
+    const a = new Array<number>(na).fill(0);
+    for (let r = 0; r < rows; r++) {
+      for (let i = 0; i < na; i++) a[i] = args[r * na + i]!;
+      status[r] = k.call(name, a);
+      for (let i = 0; i < nOut; i++) o[r * nOut + i] = k.out[i]!;
+    }
+  };
 }
 
 /** Kernels over a table of exports and a function that calls one (checks the name and the argument count). */
