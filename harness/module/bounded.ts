@@ -11,7 +11,7 @@
 import { Worker, MessageChannel, receiveMessageOnPort, type MessagePort } from "node:worker_threads";
 import { existsSync, readFileSync } from "node:fs";
 import { compiledScript } from "../core/paths.js";
-import { ModuleError, type Kernels } from "./load.js";
+import { ModuleError, setRowCaller, type Kernels } from "./load.js";
 
 /** Default time limit of one call into a foreign module, start function included (seconds; --call-limit). */
 export const DEFAULT_CALL_LIMIT_S = 10;
@@ -22,10 +22,19 @@ const WORKER_START_MS = 60_000;
 
 /** Layout of the shared buffer: control words, then the arguments, then the output slots (as f64). */
 export const SHARED = { ctrlWords: 16, maxArgs: 32, outSlots: 64, argsByte: 64, outByte: 64 + 8 * 32, bytes: 64 + 8 * 32 + 8 * 64 } as const;
-/** Control word indices. */
-export const CTRL = { state: 0, fn: 1, nargs: 2, status: 3 } as const;
-/** States of the control word `state`. */
-export const STATE = { boot: 0, started: 1, idle: 2, request: 3, done: 4, failed: 5 } as const;
+/** Control word indices (rows, nout, row: a request of many rows, see BATCH). */
+export const CTRL = { state: 0, fn: 1, nargs: 2, status: 3, rows: 4, nout: 5, row: 6 } as const;
+/** States of the control word `state` (rows: a request of many rows). */
+export const STATE = { boot: 0, started: 1, idle: 2, request: 3, done: 4, failed: 5, rows: 6 } as const;
+/**
+ * The second shared buffer, for requests of many rows (Kernels batch calls, load.ts callRows): `doubles` f64
+ * words, row r's arguments at [r * nargs], then the outputs of the rows at [rows * nargs + r * nout], then the
+ * statuses at [rows * (nargs + nout) + r]. The worker writes the index of the row it is about to call into the
+ * control word `row` before each call, so the waiting thread holds each call to the limit and names its inputs.
+ */
+export const BATCH = { doubles: 1 << 15 } as const;
+/** How often the waiting thread looks at the row being called, as a fraction of the limit (a call is stopped within limit * (1 + 1/8)). */
+const LIMIT_SLICES = 8;
 
 /** What the worker reports once the module is instantiated. */
 export interface BoundedInfo {
@@ -38,6 +47,8 @@ export interface BoundedInit {
   readonly bytes: Uint8Array;
   readonly label: string;
   readonly sab: SharedArrayBuffer;
+  /** The rows of a batch request (BATCH). */
+  readonly batch: SharedArrayBuffer;
   readonly port: MessagePort;
   readonly memoryLimit: number;
 }
@@ -70,8 +81,10 @@ export function loadBounded(path: string, limitS = DEFAULT_CALL_LIMIT_S, label =
   const ctrl = new Int32Array(sab, 0, SHARED.ctrlWords);
   const argv = new Float64Array(sab, SHARED.argsByte, SHARED.maxArgs);
   const out = new Float64Array(sab, SHARED.outByte, SHARED.outSlots);
+  const batch = new SharedArrayBuffer(8 * BATCH.doubles);
+  const bv = new Float64Array(batch);
   const { port1, port2 } = new MessageChannel();
-  const init: BoundedInit = { bytes, label, sab, port: port2, memoryLimit: MEMORY_LIMIT_BYTES };
+  const init: BoundedInit = { bytes, label, sab, batch, port: port2, memoryLimit: MEMORY_LIMIT_BYTES };
   const worker = new Worker(entryPath(), { workerData: init, transferList: [port2], resourceLimits: { maxOldGenerationSizeMb: 64 } });
   worker.unref();
   port1.unref();
@@ -116,9 +129,51 @@ export function loadBounded(path: string, limitS = DEFAULT_CALL_LIMIT_S, label =
     stop();
     throw new ModuleError(msg);
   };
+  /**
+   * One request of `rows` rows (they fit in BATCH): the limit holds for each call, as for `call`. The waiting
+   * thread wakes every limit / LIMIT_SLICES and notes when it first saw each row being called; a row seen for
+   * the whole limit is a call that did not return (stopped between limit and limit * (1 + 1 / LIMIT_SLICES)).
+   */
+  const callBatch = (name: string, i: number, args: Float64Array, at: number, na: number, rows: number, o: Float64Array, nOut: number, status: Int32Array): void => {
+    bv.set(args.subarray(at * na, (at + rows) * na), 0);
+    ctrl[CTRL.fn] = i;
+    ctrl[CTRL.nargs] = na;
+    ctrl[CTRL.rows] = rows;
+    ctrl[CTRL.nout] = nOut;
+    Atomics.store(ctrl, CTRL.row, -1);
+    Atomics.store(ctrl, CTRL.state, STATE.rows);
+    Atomics.notify(ctrl, CTRL.state);
+    const sliceMs = (limitS * 1000) / LIMIT_SLICES;
+    let seen = -2;
+    let since = 0;
+    for (;;) {
+      Atomics.wait(ctrl, CTRL.state, STATE.rows, sliceMs);
+      const s = Atomics.load(ctrl, CTRL.state);
+      if (s === STATE.done) break;
+      if (s !== STATE.rows) {
+        stop();
+        throw new ModuleError(failure());
+      }
+      const row = Atomics.load(ctrl, CTRL.row);
+      const now = performance.now();
+      if (row !== seen) {
+        seen = row;
+        since = now;
+      } else if (now - since >= limitS * 1000) {
+        const r = Math.max(0, row); // -1: the worker has not taken the request (a worker that died)
+        const a = Array.from(args.subarray((at + r) * na, (at + r + 1) * na));
+        stop();
+        throw new ModuleError(`${label}: ${callText(name, a)} did not return within ${limitS} s (--call-limit); the module was stopped, nothing was written`);
+      }
+    }
+    const outAt = rows * na;
+    const stAt = rows * (na + nOut);
+    o.set(bv.subarray(outAt, outAt + rows * nOut), at * nOut);
+    for (let r = 0; r < rows; r++) status[at + r] = bv[stAt + r]!;
+  };
   const exportsObj: Record<string, unknown> = {};
   for (const [n] of info.exports) exportsObj[n] = (...a: number[]): number => call(n, a);
-  return {
+  const kernels: Kernels = {
     label,
     realBytes: info.realBytes,
     exportNames: info.exports.map(([n]) => n),
@@ -130,6 +185,15 @@ export function loadBounded(path: string, limitS = DEFAULT_CALL_LIMIT_S, label =
     call,
     close: stop,
   };
+  setRowCaller(kernels, (name, args, na, rows, o, nOut, status) => {
+    if (dead) throw new ModuleError(`${label}: the module was stopped after an earlier failure`);
+    const i = index.get(name);
+    if (i === undefined) throw new ModuleError(`${label}: no export named ${name}`);
+    if (na > SHARED.maxArgs) throw new ModuleError(`${label}: ${name} called with ${na} arguments, more than ${SHARED.maxArgs}`);
+    const per = Math.floor(BATCH.doubles / (na + nOut + 1));
+    for (let at = 0; at < rows; at += per) callBatch(name, i, args, at, na, Math.min(per, rows - at), o, nOut, status);
+  });
+  return kernels;
 }
 
 export { callText };
