@@ -316,8 +316,8 @@ export function evalRange(routine: Routine, plan: Plan, init: { readonly columns
     if (err instanceof CsvError || err instanceof EvalError) return { ...none, error: err.message };
     throw err;
   }
-  // A buffer of its own (ByteSink.take copies out of its growing buffer), transferred back without a copy.
-  return { bytes: res.bytes, rows: res.rows, lineCount: res.lineCount, statuses: res.statuses, begin: own.begin, finish: own.finish };
+  // A buffer of its own (the output of evaluateBytes is a view of a buffer it reuses), transferred back without a copy.
+  return { bytes: res.bytes.slice(), rows: res.rows, lineCount: res.lineCount, statuses: res.statuses, begin: own.begin, finish: own.finish };
 }
 
 const ENCODER = new TextEncoder();
@@ -453,6 +453,9 @@ function statusText(code: number): StatusText {
   return t;
 }
 
+/** The output of evaluateBytes is written here: one buffer for the thread, grown as needed, never shrunk. */
+const SINK = new ByteSink(1 << 18);
+
 /** Thrown inside evaluateBytes to hand the whole run to evaluateLines (the reference for messages and bytes). */
 const FALL_BACK = new Error("fall back to evaluateLines");
 
@@ -477,6 +480,7 @@ function slowLine(line: string, width: number): { cells: string[]; echo: string 
  * once over all rows (Kernels.callRows); numbers are written as bytes (ByteSink.number). Any bad cell, bad row
  * or over-long line hands the whole run to evaluateLines, which throws its message (the line numbers and
  * messages are its own). tests/eval-bytes.test.ts compares the bytes with evaluateLines on generated text.
+ * The bytes returned are a view of a buffer the next call writes over: write or copy them before calling again.
  */
 export function evaluateBytes(routine: Routine, plan: Plan, width: number, source: string, k: Kernels, b: Uint8Array, firstLine: number): { bytes: Uint8Array; rows: number; lineCount: number; statuses: Record<string, number> } {
   try {
@@ -529,7 +533,7 @@ function evaluateBytesFast(routine: Routine, plan: Plan, width: number, source: 
         const c = wanted[i]!;
         const spec = plan.specs[i]!;
         if (c < 0) args[at + i] = spec.default!;
-        else args[at + i] = spec.choices ? stringCell(buf.toString("latin1", cs[c]!, cs[c + 1]! - 1), spec) : numberCell(b, buf, cs[c]!, cs[c + 1]! - 1, spec);
+        else args[at + i] = spec.choices ? stringCell(latin1(buf, cs[c]!, cs[c + 1]! - 1), spec) : numberCell(b, buf, cs[c]!, cs[c + 1]! - 1, spec);
       }
     } else {
       const line = slowLine(buf.toString("utf8", start, end), width);
@@ -552,6 +556,11 @@ function evaluateBytesFast(routine: Routine, plan: Plan, width: number, source: 
   return { ...formatRows(routine, plan, k, b, rows, starts, ends, echoes, args, outs, status), lineCount: lfs };
 }
 
+/** Bytes [p, end) as text, one character a byte (Buffer's latin1Slice without toString's argument checks). */
+function latin1(buf: Buffer, p: number, end: number): string {
+  return (buf as unknown as { latin1Slice(start: number, end: number): string }).latin1Slice(p, end);
+}
+
 /** A cell read through the string path (cellValue's checks); a bad cell hands the run to evaluateLines. */
 function stringCell(word: string, spec: InputSpec): number {
   try {
@@ -568,10 +577,10 @@ function numberCell(b: Uint8Array, buf: Buffer, p: number, end: number, spec: In
   let v: number;
   if (r === 0) v = decimalValue[0]!;
   else if (r === NOT_EXACT) {
-    const word = buf.toString("latin1", p, end);
+    const word = latin1(buf, p, end);
     v = Number(word);
     if ((v === 0 || !Number.isFinite(v)) && lostOnParse(word, v)) throw FALL_BACK;
-  } else return stringCell(buf.toString("latin1", p, end), spec);
+  } else return stringCell(latin1(buf, p, end), spec);
   if (spec.integer && !Number.isInteger(v)) throw FALL_BACK;
   return v;
 }
@@ -585,7 +594,9 @@ function formatRows(routine: Routine, plan: Plan, k: Kernels, b: Uint8Array, row
   const budgets = budgetSlots(routine);
   const failed = ENCODER.encode(",NaN".repeat(nOut) + ",");
   const one = new Float64Array(nOut);
-  const sink = new ByteSink(b.length + rows * (nOut * 24 + 12));
+  const sink = SINK;
+  sink.len = 0;
+  sink.room(b.length + rows * (nOut * 24 + 12));
   for (let r = 0; r < rows; r++) {
     const st = status[r]!;
     const o = r * nOut;
@@ -610,5 +621,5 @@ function formatRows(routine: Routine, plan: Plan, k: Kernels, b: Uint8Array, row
   const statuses: Record<string, number> = {};
   for (const [code, n] of counts) statuses[statusText(code).word] = (statuses[statusText(code).word] ?? 0) + n;
   if (broken > 0) statuses[BUDGET_BROKEN] = broken;
-  return { bytes: sink.take(), rows, statuses };
+  return { bytes: sink.buf.subarray(0, sink.len), rows, statuses };
 }
