@@ -56,6 +56,37 @@ describe("readDecimal", () => {
     expect(converted).toBeGreaterThan(30000); // the fast path is taken, not only declined
   });
 
+  it("gives the bits of Number() on decimals of 16 to 20 digits next to the midpoints between doubles (near ties)", () => {
+    const rng = new Rng(20261206);
+    const f = new Float64Array(1);
+    const u = new BigUint64Array(f.buffer);
+    let converted = 0;
+    let n = 0;
+    for (let i = 0; i < 4000; i++) {
+      f[0] = rng.between(1e-4, 1e3) * (i % 2 ? 1 : 1e-3);
+      const bits = u[0]!;
+      const E = Number((bits >> 52n) & 0x7ffn) - 1075; // x = M * 2^E
+      const M = (bits & ((1n << 52n) - 1n)) | (1n << 52n);
+      // the midpoint above x, (2M + 1) * 2^(E - 1), exactly in decimal: (2M + 1) * 5^(1 - E) / 10^(1 - E)
+      const k = 1 - E;
+      const digits = ((2n * M + 1n) * 5n ** BigInt(k)).toString();
+      const point = digits.length - k; // digits before the decimal point
+      for (const keep of [16, 17, 18, 19, 20]) {
+        for (const bump of [-1n, 0n, 1n]) {
+          const d = (BigInt(digits.slice(0, keep)) + bump).toString();
+          const s = point > 0 ? `${d.slice(0, point)}.${d.slice(point)}` : `0.${"0".repeat(-point)}${d}`;
+          const { code, v } = read(s);
+          n++;
+          if (code === 0) {
+            expect(Object.is(v, Number(s)), s).toBe(true);
+            converted++;
+          } else expect(code, s).toBe(NOT_EXACT);
+        }
+      }
+    }
+    expect(converted).toBeGreaterThan(n / 4); // the exact path is taken, not only declined
+  });
+
   it("declines what is not a decimal (the string path names or reads it)", () => {
     for (const s of ["", "+", "-", ".", "e5", "1e", "1e+", "--1", "1.2.3", " 1", "1 ", "nan", "inf", "0x3ff0000000000000", "1,5", "1_000", "١"]) {
       expect(read(s).code, s).toBe(NOT_DECIMAL);

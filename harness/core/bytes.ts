@@ -38,7 +38,9 @@ export function readDecimal(b: Uint8Array, p: number, end: number): number {
     p++;
   }
   let w = 0;
-  let scale = 0; // power of ten the digits in w are short of: + for integer digits dropped, - for fraction digits kept
+  let extra = 0; // up to EXTRA_DIGITS digits after w is full: the significand is w * 10^nExtra + extra
+  let nExtra = 0;
+  let scale = 0; // power of ten the digits kept are short of: + for integer digits dropped, - for fraction digits kept
   let digits = 0;
   let exact = true;
   for (; p < end; p++) {
@@ -46,7 +48,10 @@ export function readDecimal(b: Uint8Array, p: number, end: number): number {
     if (c < 0 || c > 9) break;
     digits++;
     if (w <= W_MAX) w = w * 10 + c;
-    else {
+    else if (nExtra < EXTRA_DIGITS) {
+      extra = extra * 10 + c;
+      nExtra++;
+    } else {
       scale++;
       if (c !== 0) exact = false;
     }
@@ -58,6 +63,10 @@ export function readDecimal(b: Uint8Array, p: number, end: number): number {
       digits++;
       if (w <= W_MAX) {
         w = w * 10 + c;
+        scale--;
+      } else if (nExtra < EXTRA_DIGITS) {
+        extra = extra * 10 + c;
+        nExtra++;
         scale--;
       } else if (c !== 0) exact = false;
     }
@@ -90,9 +99,73 @@ export function readDecimal(b: Uint8Array, p: number, end: number): number {
     return 0;
   }
   if (!exact || scale > 22 || scale < -22) return NOT_EXACT;
-  const v = scale >= 0 ? w * POW10[scale]! : w / POW10[-scale]!;
+  let v: number;
+  if (nExtra === 0) v = scale >= 0 ? w * POW10[scale]! : w / POW10[-scale]!;
+  else {
+    if (scale >= 0) return NOT_EXACT;
+    v = divideExactly(w, nExtra, extra, POW10[-scale]!);
+    if (v !== v) return NOT_EXACT;
+  }
   decimalValue[0] = neg ? -v : v;
   return 0;
+}
+
+/** Digits kept beyond W_MAX for divideExactly: w * 10^3 + 999 < 2^63. */
+const EXTRA_DIGITS = 3;
+/** Veltkamp's splitter for binary64: 2^27 + 1. */
+const SPLITTER = 134217729;
+const F = new Float64Array(1);
+const U32 = new Uint32Array(F.buffer);
+const HI = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 1 : 0; // index of the high word
+
+/** a * b - fl(a * b), exactly (Dekker 1971, "A floating-point technique for extending the available precision"). */
+function productError(a: number, b: number, p: number): number {
+  let t = SPLITTER * a;
+  const ah = t - (t - a);
+  const al = a - ah;
+  t = SPLITTER * b;
+  const bh = t - (t - b);
+  const bl = b - bh;
+  return al * bl - (p - ah * bh - al * bh - ah * bl);
+}
+
+/** The spacing of doubles at positive normal x (x < 2^1023), or NaN where a neighbour is in another binade (x a power of 2). */
+function spacing(x: number): number {
+  F[0] = x;
+  const hi = U32[HI]!;
+  if ((hi & 0xfffff) === 0 && U32[1 - HI] === 0) return NaN;
+  return Math.pow(2, ((hi >>> 20) & 0x7ff) - 1075);
+}
+
+/**
+ * The double nearest to W / P, W = w * 10^n + extra (an integer below 2^63; n <= 3), P = 10^s (s <= 22, exact),
+ * or NaN where this cannot prove it (the caller then uses Number()). A candidate x from double arithmetic is
+ * tested by its residual R = W - x * P, computed exactly but for one rounding: W and x * P as sums of two
+ * doubles (Dekker's exact product), their high parts within a factor of 2 of each other (so their difference is
+ * exact, Sterbenz 1974), the small terms integers or multiples of the same power of two. x is the nearest double
+ * when |R| < U / 2 with U = ulp(x) * P; when |R| > U / 2 it moves one ulp towards W / P and is tested again. A
+ * residual within the rounding error of U / 2 (a near tie), a candidate that is a power of 2 (its interval is not
+ * symmetric), or more than 3 moves: NaN.
+ */
+function divideExactly(w: number, n: number, extra: number, P: number): number {
+  const m = POW10[n]!;
+  const t1 = w * m;
+  const t2 = productError(w, m, t1); // w * m = t1 + t2 exactly: an integer below 2^63
+  let x = t1 / P + (t2 + extra) / P;
+  for (let step = 0; step < 3; step++) {
+    const u = spacing(x);
+    if (u !== u) return NaN;
+    const p1 = x * P;
+    const p2 = productError(x, P, p1);
+    const r = t1 - p1 + t2 + extra - p2; // t1 - p1 exact; the integer terms exact; one rounding on p2
+    const half = (u * P) / 2;
+    const err = Math.abs(r) * 2.3e-16;
+    const a = Math.abs(r);
+    if (a + err < half) return x;
+    if (a - err <= half) return NaN;
+    x = r > 0 ? x + u : x - u;
+  }
+  return NaN;
 }
 
 /** A growing byte buffer written from the front, handed out as a copy of its own (transferable). */
