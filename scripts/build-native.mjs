@@ -101,6 +101,25 @@ for (const f of fns) {
   const args = f.params.map((p, j) => (p === "u32" ? `(u32)a${j}` : `a${j}`)).join(", ");
   w.push(`AREAL_EXPORT int32_t ${f.name}(${decl}) { return (int32_t)${f.sym}(${args}); }`);
 }
+// Batch entry points, one per kernel (not part of include/areal.h; library.ts uses them when it finds them):
+// areal_rows_NAME(rows, args, n_out, out, status) calls NAME once per row, row r's arguments at
+// args[r * NPARAMS ...] (as doubles; integer parameters converted), its status to status[r] and its first n_out
+// output slots to out[r * n_out ...]. One foreign call per chunk of rows instead of one per row.
+w.push("", "#include <stddef.h>");
+for (const f of fns) {
+  if (f.name === "areal_out" || f.params.length === 0) continue;
+  const np = f.params.length;
+  const args = f.params.map((p, j) => (p === "u32" ? `(u32)(int32_t)a[${j}]` : p === "f32" ? `(f32)a[${j}]` : `a[${j}]`)).join(", ");
+  w.push(`AREAL_EXPORT int32_t areal_rows_${f.name}(int32_t rows, const double *args, int32_t n_out, double *out, int32_t *status) {`,
+    `  for (int32_t r = 0; r < rows; r++) {`,
+    `    const double *a = args + (size_t)r * ${np};`,
+    `    status[r] = (int32_t)${f.sym}(${args});`,
+    `    const double *o = areal_out();`,
+    `    for (int32_t i = 0; i < n_out; i++) out[(size_t)r * n_out + i] = o[i];`,
+    `  }`,
+    `  return rows;`,
+    `}`);
+}
 w.push("");
 writeFileSync(join(outDir, "areal_lib.c"), w.join("\n"));
 

@@ -5,7 +5,7 @@
 import { describe, it, expect, beforeAll } from "vitest";
 import { existsSync } from "node:fs";
 import binaryen from "binaryen";
-import { runBench, tryLoadJs, ensureBenchModules, SMOKE_SETTINGS, EXAMPLE_PROFILE, routineInputs, type BenchResult } from "../harness/perf/bench.js";
+import { runBench, formatBench, tryLoadJs, ensureBenchModules, SMOKE_SETTINGS, EXAMPLE_PROFILE, routineInputs, type BenchResult } from "../harness/perf/bench.js";
 import { loadCounting, countOps, predictCost, validateProfile, readProfile, zeroCounts, ProfileError, OP_NAMES, type Profile } from "../harness/perf/opcount.js";
 import { loadNamedBuild } from "../harness/module/builds.js";
 import { findRoutine, ROUTINES } from "../harness/module/routines.js";
@@ -49,6 +49,15 @@ describe("areal bench result", () => {
     expect(r.others.map((o) => o.routine)).toEqual(["kepler-hyperbolic", "propagate"]);
     expect(r.targets.map((t) => t.name)).toEqual(["elliptic_vs_newton", "elliptic_vs_sincos", "hyperbolic_vs_newton", "propagate_vs_naive", "wasm_vs_js"]);
     expect(JSON.parse(JSON.stringify(r)).ratios.wasm_vs_js).toEqual(r.ratios.wasm_vs_js);
+  });
+
+  it("times eval against the kernel alone over the same rows, with the share as their ratio (no speed asserted)", () => {
+    const ev = r.eval;
+    expect([ev.routine, ev.rows]).toEqual(["kepler-elliptic", SMOKE_SETTINGS.evalRows]);
+    for (const v of [ev.bytesRowsPerS, ev.stringRowsPerS, ev.kernelCallsPerS]) expect(Number.isFinite(v) && v > 0).toBe(true);
+    expect(ev.kernelShare).toBeCloseTo(ev.bytesRowsPerS / ev.kernelCallsPerS, 12);
+    expect(ev.bytesVsString).toBeCloseTo(ev.bytesRowsPerS / ev.stringRowsPerS, 12);
+    expect(formatBench(r)).toMatch(/the kernel is [0-9.]+% of eval's time/);
   });
 
   it("lists every routine of the table, timed exactly when a vector suite gives it inputs", () => {

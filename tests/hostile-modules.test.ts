@@ -56,6 +56,17 @@ describe("every call into a module is bounded in time", () => {
     noLeftovers();
   });
 
+  it("eval: a call late in a batch of rows that does not return is named with its own inputs", () => {
+    const p = join(dir, "late.csv");
+    writeFileSync(p, "e,M\n" + "0.1,1\n".repeat(50) + "0.2,2\n0.3,1\n");
+    const r = areal("eval", "kepler-elliptic", "-i", p, "-o", join(dir, "out.csv"), "--module", mod("loops-when-M-above-1.5"), "--call-limit", LIMIT, "--workers", "1");
+    expect(r.timedOut).toBe(false);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/loops-when-M-above-1\.5\.wasm: kepler_elliptic\(0\.2, 2\) did not return within 0\.5 s \(--call-limit\)/);
+    expect(existsSync(join(dir, "out.csv"))).toBe(false);
+    noLeftovers();
+  });
+
   it("eval with two workers: the same bound in each worker", () => {
     const r = areal("eval", "kepler-elliptic", "-i", input(), "-o", join(dir, "out.csv"), "--module", mod("loops-forever"), "--call-limit", LIMIT, "--workers", "2");
     expect(r.timedOut).toBe(false);

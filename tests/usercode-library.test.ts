@@ -100,7 +100,7 @@ int32_t kepler_elliptic(double e, double M) {
     expect(err).toBeInstanceOf(ModuleError);
     expect((err as Error).message).toMatch(/signal SIGSEGV.*kepler_elliptic\(0\.5, 2\)/);
     const input = join(dir, "crash.csv");
-    writeFileSync(input, "e,M\n0.5,1\n0.5,2\n");
+    writeFileSync(input, "e,M\n" + "0.5,1\n".repeat(30) + "0.5,2\n0.5,0.5\n"); // the crash is in the middle of one batch of rows
     const r = areal("eval", "kepler-elliptic", "--input", input, "--library", so);
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/signal SIGSEGV.*kepler_elliptic\(0\.5, 2\)/);

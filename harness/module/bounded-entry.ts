@@ -8,12 +8,13 @@
 import { workerData } from "node:worker_threads";
 import { ownThreadId } from "../core/thread-cpu.js";
 import { instantiate, ModuleError, type Kernels } from "./load.js";
-import { CTRL, SHARED, STATE, callText, type BoundedInfo, type BoundedInit } from "./bounded.js";
+import { BATCH, CTRL, SHARED, STATE, callText, type BoundedInfo, type BoundedInit } from "./bounded.js";
 
 const init = workerData as BoundedInit;
 const ctrl = new Int32Array(init.sab, 0, SHARED.ctrlWords);
 const argv = new Float64Array(init.sab, SHARED.argsByte, SHARED.maxArgs);
 const outv = new Float64Array(init.sab, SHARED.outByte, SHARED.outSlots);
+const bv = new Float64Array(init.batch, 0, BATCH.doubles);
 
 function answer(state: number): void {
   Atomics.store(ctrl, CTRL.state, state);
@@ -37,11 +38,16 @@ function serve(k: Kernels): void {
   const args: number[] = [];
   for (;;) {
     let s = Atomics.load(ctrl, CTRL.state);
-    while (s !== STATE.request) {
+    while (s !== STATE.request && s !== STATE.rows) {
       Atomics.wait(ctrl, CTRL.state, s);
       s = Atomics.load(ctrl, CTRL.state);
     }
     const name = names[ctrl[CTRL.fn]!]!;
+    if (s === STATE.rows) {
+      if (!serveRows(k, name, args)) return;
+      answer(STATE.done);
+      continue;
+    }
     args.length = ctrl[CTRL.nargs]!;
     for (let i = 0; i < args.length; i++) args[i] = argv[i]!;
     let status: number;
@@ -63,7 +69,41 @@ function serve(k: Kernels): void {
   }
 }
 
+/**
+ * A request of many rows (BATCH): each row called as `serve` calls one, the index of the row written to the
+ * control word `row` before its call (the waiting thread holds each call to the limit by it). False on a failure
+ * (reported, the thread is done).
+ */
+function serveRows(k: Kernels, name: string, args: number[]): boolean {
+  const na = ctrl[CTRL.nargs]!;
+  const rows = ctrl[CTRL.rows]!;
+  const nOut = ctrl[CTRL.nout]!;
+  const outAt = rows * na;
+  const stAt = rows * (na + nOut);
+  args.length = na;
+  for (let r = 0; r < rows; r++) {
+    for (let i = 0; i < na; i++) args[i] = bv[r * na + i]!;
+    Atomics.store(ctrl, CTRL.row, r);
+    let status: number;
+    try {
+      status = k.call(name, args);
+    } catch (err) {
+      fail(err instanceof ModuleError ? err.message : `${init.label}: ${callText(name, args)} failed (${(err as Error).message}); the module is faulty, nothing was written`);
+      return false;
+    }
+    if (k.memory.buffer.byteLength > init.memoryLimit) {
+      fail(memoryOver(k, callText(name, args))!);
+      return false;
+    }
+    const o = k.out; // taken after the call: a module that grew its memory has a new buffer
+    for (let i = 0; i < nOut; i++) bv[outAt + r * nOut + i] = o[i]!;
+    bv[stAt + r] = status;
+  }
+  return true;
+}
+
 Atomics.store(ctrl, CTRL.tid, ownThreadId() ?? 0);
+
 answer(STATE.started);
 let k: Kernels | undefined;
 try {

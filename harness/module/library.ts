@@ -19,7 +19,7 @@ import { createRequire } from "node:module";
 import { constants, tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { compiledScript } from "../core/paths.js";
-import { ModuleError, type Kernels } from "./load.js";
+import { ModuleError, setRowCaller, type Kernels, type RowCaller } from "./load.js";
 import { ROUTINES } from "./routines.js";
 import { ABI_VERSION, CORE_EXPORTS, OUT_SLOTS, kernelExports, kernelSignature, type ExportInfo, type ValType } from "./signatures.js";
 
@@ -83,7 +83,37 @@ export function openLibrary(path: string, label = path): { kernels: Kernels; tab
     if (v !== ABI_VERSION) throw new ModuleError(`${label}: areal_abi_version() returned ${v}; this harness implements ABI version ${ABI_VERSION} (docs/abi.md)`);
   }
   const kernels = tableKernels(label, realBytes, out, table, (name, args) => fns.get(name)!(...args));
+  // The batch entry points areal_rows_NAME (scripts/build-native.mjs generates them beside the module): one
+  // foreign call per chunk of rows, the typed arrays passed by reference.
+  const rowFns = new Map<string, (...a: unknown[]) => number>();
+  if (realBytes === 8) {
+    for (const name of table.keys()) {
+      const fn = find(`areal_rows_${name}`, "int32", ["int32", "double *", "int32", "double *", "int32 *"]);
+      if (fn) rowFns.set(name, fn as (...a: unknown[]) => number);
+    }
+  }
+  if (rowFns.size > 0) {
+    const each = rowsByCall(kernels);
+    setRowCaller(kernels, (name, args, na, rows, o, nOut, status) => {
+      const fn = rowFns.get(name);
+      if (!fn || nOut > OUT_SLOTS) return each(name, args, na, rows, o, nOut, status);
+      if (na !== table.get(name)!.length) throw new ModuleError(`${label}: ${name} takes ${table.get(name)!.length} arguments, got ${na}`);
+      fn(rows, args, nOut, o, status);
+    });
+  }
   return { kernels, table };
+}
+
+/** A RowCaller through `call`, one row at a time. */
+function rowsByCall(k: Kernels): RowCaller {
+  return (name, args, na, rows, o, nOut, status) => {
+    const a = new Array<number>(na).fill(0);
+    for (let r = 0; r < rows; r++) {
+      for (let i = 0; i < na; i++) a[i] = args[r * na + i]!;
+      status[r] = k.call(name, a);
+      for (let i = 0; i < nOut; i++) o[r * nOut + i] = k.out[i]!;
+    }
+  };
 }
 
 /** Kernels over a table of exports and a function that calls one (checks the name and the argument count). */
@@ -170,12 +200,22 @@ export function childEnd(pid: number): string | undefined {
   return undefined;
 }
 
-/**
- * A library run in a child process. The child loads it with openLibrary, sends its export table, then answers
- * calls one at a time. The child ends when the pipes close (closeLibraries, or this process's exit).
- */
-export function loadLibrary(path: string, label = path): { kernels: Kernels; signatures: Map<string, ExportInfo> } {
-  if (!existsSync(path)) throw new ModuleError(`--library: no such file: ${path}`);
+/** Request marker of a batch of rows (library-host.ts): then u32 export index, u32 arguments, u32 rows, u32 outputs. */
+export const LIBRARY_BATCH = 0xfffffffe;
+/** Rows per batch request: the request and its response stay within a few hundred KB. */
+const LIBRARY_BATCH_ROWS = 4096;
+
+/** One child process serving a library (loadLibrary): its pipes, its handshake, reads that name the child's end. */
+interface LibraryChild {
+  readonly info: { error?: string; realBytes?: 4 | 8; exports?: [string, ValType[]][] };
+  send(q: Buffer): void;
+  /** Read n bytes of the response; throws ModuleError naming the child's end and `what()` when it ended. */
+  read(buf: Buffer, n: number, what: () => string): void;
+  readonly closed: boolean;
+  close(): void;
+}
+
+function startChild(path: string, label: string): LibraryChild {
   const dir = mkdtempSync(join(tmpdir(), "areal-library-"));
   const reqPath = join(dir, "req");
   const respPath = join(dir, "resp");
@@ -187,7 +227,6 @@ export function loadLibrary(path: string, label = path): { kernels: Kernels; sig
   (child.stderr as unknown as { unref(): void }).unref();
   const req = openSync(reqPath, "w");
   const resp = openSync(respPath, "r");
-  const rbuf = Buffer.alloc(LIBRARY_RESPONSE_BYTES);
   let closed = false;
   const handle = {
     close(): void {
@@ -207,7 +246,7 @@ export function loadLibrary(path: string, label = path): { kernels: Kernels; sig
     },
   };
   live.add(handle);
-  const readExactly = (buf: Buffer, n: number, what: () => string): void => {
+  const read = (buf: Buffer, n: number, what: () => string): void => {
     let got = 0;
     while (got < n) {
       const r = readSync(resp, buf, got, n - got, null);
@@ -221,30 +260,93 @@ export function loadLibrary(path: string, label = path): { kernels: Kernels; sig
   };
   // Handshake: u32 length, then JSON {realBytes, exports: [[name, params]...]} or {error}.
   const lenBuf = Buffer.alloc(4);
-  readExactly(lenBuf, 4, () => "while loading it");
+  read(lenBuf, 4, () => "while loading it");
   const hello = Buffer.alloc(lenBuf.readUInt32LE(0));
-  readExactly(hello, hello.length, () => "while loading it");
-  const info = JSON.parse(hello.toString("utf8")) as { error?: string; realBytes?: 4 | 8; exports?: [string, ValType[]][] };
-  if (info.error !== undefined) {
-    handle.close();
-    throw new ModuleError(info.error);
-  }
+  read(hello, hello.length, () => "while loading it");
+  const info = JSON.parse(hello.toString("utf8")) as LibraryChild["info"];
+  if (info.error !== undefined) handle.close();
+  return {
+    info,
+    send: (q) => writeSync(req, q),
+    read,
+    get closed() {
+      return closed;
+    },
+    close: () => handle.close(),
+  };
+}
+
+/**
+ * A library run in a child process. The child loads it with openLibrary, sends its export table, then answers
+ * calls one at a time, or many rows per request (a batch: Kernels batch calls, load.ts callRows). The child
+ * ends when the pipes close (closeLibraries, or this process's exit). A child that ends during a batch is
+ * replaced by a fresh one that runs the batch's rows one call at a time, so the message names the call that
+ * ended it, as without batches.
+ */
+export function loadLibrary(path: string, label = path): { kernels: Kernels; signatures: Map<string, ExportInfo> } {
+  if (!existsSync(path)) throw new ModuleError(`--library: no such file: ${path}`);
+  let proc = startChild(path, label);
+  const info = proc.info;
+  if (info.error !== undefined) throw new ModuleError(info.error);
   const table = new Map(info.exports!);
   const index = new Map([...table.keys()].map((n, i) => [n, i]));
   const realBytes = info.realBytes!;
   const out = realBytes === 8 ? new Float64Array(OUT_SLOTS) : new Float32Array(OUT_SLOTS);
+  const rbuf = Buffer.alloc(LIBRARY_RESPONSE_BYTES);
   const raw = (name: string, args: readonly number[]): number => {
-    if (closed) throw new ModuleError(`${label}: the library process was closed`);
+    if (proc.closed) throw new ModuleError(`${label}: the library process was closed`);
     const q = Buffer.alloc(8 + 8 * args.length);
     q.writeUInt32LE(index.get(name)!, 0);
     q.writeUInt32LE(args.length, 4);
     args.forEach((a, i) => q.writeDoubleLE(a, 8 + 8 * i));
-    writeSync(req, q);
-    readExactly(rbuf, LIBRARY_RESPONSE_BYTES, () => `in ${name}(${args.join(", ")})`);
+    proc.send(q);
+    proc.read(rbuf, LIBRARY_RESPONSE_BYTES, () => `in ${name}(${args.join(", ")})`);
     for (let i = 0; i < OUT_SLOTS; i++) out[i] = rbuf.readDoubleLE(8 + 8 * i);
     return rbuf.readInt32LE(0);
   };
-  return { kernels: tableKernels(label, realBytes, out, table, raw), signatures: librarySignatures(table) };
+  const kernels = tableKernels(label, realBytes, out, table, raw);
+  // A batch: request = marker, export, arguments, rows, outputs, then the rows' arguments (f64); response = the
+  // rows' statuses (as f64), then their outputs (f64).
+  const batch = (name: string, args: Float64Array, at: number, na: number, rows: number, o: Float64Array, nOut: number, status: Int32Array): void => {
+    const q = Buffer.alloc(20 + 8 * rows * na);
+    q.writeUInt32LE(LIBRARY_BATCH, 0);
+    q.writeUInt32LE(index.get(name)!, 4);
+    q.writeUInt32LE(na, 8);
+    q.writeUInt32LE(rows, 12);
+    q.writeUInt32LE(nOut, 16);
+    Buffer.from(args.buffer, args.byteOffset + 8 * at * na, 8 * rows * na).copy(q, 20);
+    const resp = Buffer.alloc(8 * rows * (1 + nOut));
+    try {
+      proc.send(q);
+      proc.read(resp, resp.length, () => `in a batch of ${name}`);
+    } catch (err) {
+      if (!(err instanceof ModuleError)) throw err;
+      replay(name, args, at, na, rows, err);
+    }
+    const f = new Float64Array(resp.buffer, resp.byteOffset, rows * (1 + nOut));
+    for (let r = 0; r < rows; r++) status[at + r] = f[r]!;
+    o.set(f.subarray(rows, rows + rows * nOut), at * nOut);
+  };
+  // The child ended during a batch: a fresh child runs its rows one call at a time; the call that ends it is named.
+  const replay = (name: string, args: Float64Array, at: number, na: number, rows: number, first: ModuleError): never => {
+    proc = startChild(path, label);
+    const a = new Array<number>(na).fill(0);
+    for (let r = 0; r < rows; r++) {
+      for (let i = 0; i < na; i++) a[i] = args[(at + r) * na + i]!;
+      raw(name, a); // throws, naming the call, when the child ends
+    }
+    proc.close();
+    throw first;
+  };
+  setRowCaller(kernels, (name, args, na, rows, o, nOut, status) => {
+    const params = table.get(name);
+    if (!params) throw new ModuleError(`${label}: no export named ${name}`);
+    if (na !== params.length) throw new ModuleError(`${label}: ${name} takes ${params.length} arguments, got ${na}`);
+    if (proc.closed) throw new ModuleError(`${label}: the library process was closed`);
+    if (nOut > OUT_SLOTS) return rowsByCall(kernels)(name, args, na, rows, o, nOut, status);
+    for (let at = 0; at < rows; at += LIBRARY_BATCH_ROWS) batch(name, args, at, na, Math.min(LIBRARY_BATCH_ROWS, rows - at), o, nOut, status);
+  });
+  return { kernels, signatures: librarySignatures(table) };
 }
 
 /** End every library child this process started (tests call it; the children also end at process exit). */

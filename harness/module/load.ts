@@ -81,7 +81,7 @@ export function instantiate(bytes: Uint8Array<ArrayBuffer>, label: string): Kern
   const fns = new Map<string, (...a: number[]) => number>();
   for (const [k, v] of Object.entries(ex)) if (typeof v === "function") fns.set(k, v as (...a: number[]) => number);
   const exportNames = [...fns.keys()];
-  return {
+  const k: Kernels = {
     label,
     realBytes,
     exportNames,
@@ -101,13 +101,78 @@ export function instantiate(bytes: Uint8Array<ArrayBuffer>, label: string): Kern
         if (out.buffer !== memory.buffer) out = view();
         return st;
       } catch (err) {
-        if (err instanceof WebAssembly.RuntimeError) {
-          throw new ModuleError(`${label}: the kernel module trapped in ${name}(${args.join(", ")}) (${err.message}); the module is faulty, nothing was written`);
-        }
-        throw err;
+        throw trapped(err, name, args);
       }
     },
   };
+  ROW_CALLERS.set(k, (name, args, na, rows, o, nOut, status) => {
+    const fn = fns.get(name);
+    if (!fn) throw new ModuleError(`${label}: no export named ${name}`);
+    const call = rowCaller(fn, args, na);
+    let r = 0;
+    try {
+      for (; r < rows; r++) {
+        status[r] = call(r * na);
+        if (out.buffer !== memory.buffer) out = view();
+        for (let i = 0, b = r * nOut; i < nOut; i++) o[b + i] = out[i]!;
+      }
+    } catch (err) {
+      throw trapped(err, name, Array.from(args.subarray(r * na, r * na + na)));
+    }
+  });
+  return k;
+  function trapped(err: unknown, name: string, args: readonly number[]): unknown {
+    if (err instanceof WebAssembly.RuntimeError) {
+      return new ModuleError(`${label}: the kernel module trapped in ${name}(${args.join(", ")}) (${err.message}); the module is faulty, nothing was written`);
+    }
+    return err;
+  }
+}
+
+/** A call of fn with the `na` arguments at args[at, at + na), without an array per call for up to 6 arguments. */
+export function rowCaller(fn: (...a: number[]) => number, args: Float64Array, na: number): (at: number) => number {
+  const a = args;
+  switch (na) {
+    case 0: return () => fn();
+    case 1: return (at) => fn(a[at]!);
+    case 2: return (at) => fn(a[at]!, a[at + 1]!);
+    case 3: return (at) => fn(a[at]!, a[at + 1]!, a[at + 2]!);
+    case 4: return (at) => fn(a[at]!, a[at + 1]!, a[at + 2]!, a[at + 3]!);
+    case 5: return (at) => fn(a[at]!, a[at + 1]!, a[at + 2]!, a[at + 3]!, a[at + 4]!);
+    case 6: return (at) => fn(a[at]!, a[at + 1]!, a[at + 2]!, a[at + 3]!, a[at + 4]!, a[at + 5]!);
+    default: return (at) => fn(...a.subarray(at, at + na));
+  }
+}
+
+/**
+ * Calls of one export over many rows at once: row r's arguments are args[r * na, r * na + na), its status goes
+ * to status[r] and its first nOut output slots to out[r * nOut, r * nOut + nOut). The same checks and messages
+ * as Kernels.call; a throw stops the batch (the rows before it are done).
+ */
+export type RowCaller = (name: string, args: Float64Array, na: number, rows: number, out: Float64Array, nOut: number, status: Int32Array) => void;
+
+/**
+ * The batch callers of the Kernels objects that have one, by object: a wrapper built from a Kernels (a spread
+ * with its own `call`, as tests build mutants) is another object and goes through its own `call`, row by row.
+ */
+const ROW_CALLERS = new WeakMap<Kernels, RowCaller>();
+
+/** Give a Kernels object a batch caller (load.ts, bounded.ts, library.ts). */
+export function setRowCaller(k: Kernels, caller: RowCaller): void {
+  ROW_CALLERS.set(k, caller);
+}
+
+/** One export over many rows (RowCaller): the object's own batch caller when it has one, else one `call` per row. */
+export function callRows(k: Kernels, name: string, args: Float64Array, na: number, rows: number, out: Float64Array, nOut: number, status: Int32Array): void {
+  const own = ROW_CALLERS.get(k);
+  if (own) return own(name, args, na, rows, out, nOut, status);
+  const a = new Array<number>(na).fill(0);
+  for (let r = 0; r < rows; r++) {
+    for (let i = 0; i < na; i++) a[i] = args[r * na + i]!;
+    status[r] = k.call(name, a);
+    const o = k.out;
+    for (let i = 0; i < nOut; i++) out[r * nOut + i] = o[i]!;
+  }
 }
 
 /** Load a module file. */

@@ -34,6 +34,7 @@ import { loadBuild, loadFile, type Kernels } from "../module/load.js";
 import { Rng } from "../core/rng.js";
 import { ulpDistance } from "../core/float.js";
 import { moduleSizes, type ModuleSizes } from "./size.js";
+import { measureEvalShare, type EvalShare } from "./evalshare.js";
 import { loadCounting, countOps, predict, OP_NAMES, type OpStats, type Profile, type Prediction, type OpName, readProfile, ProfileError } from "./opcount.js";
 
 /** Output slots of kepler_elliptic (ABI table). */
@@ -59,12 +60,17 @@ export interface BenchSettings {
   readonly casesPerKernel: number;
   /** Rows per cheap kernel for the operation counts and the profile's worst case (0: the timed rows only). */
   readonly countRows: number;
+  /** Generated kepler-elliptic rows of the eval timing (evalshare.ts); 0 or absent: DEFAULT_EVAL_ROWS. */
+  readonly evalRows?: number;
 }
 
+/** Rows of the eval timing when the settings do not say. */
+export const DEFAULT_EVAL_ROWS = 200_000;
+
 export const DEFAULT_SETTINGS: BenchSettings = { taskMs: 150, gridE: 160, gridM: 160, long: false, casesPerKernel: CASES_PER_KERNEL, countRows: 5000 };
-export const LONG_SETTINGS: BenchSettings = { taskMs: 1000, gridE: 500, gridM: 500, long: true, casesPerKernel: CASES_PER_KERNEL, countRows: 1_000_000 };
+export const LONG_SETTINGS: BenchSettings = { taskMs: 1000, gridE: 500, gridM: 500, long: true, casesPerKernel: CASES_PER_KERNEL, countRows: 1_000_000, evalRows: 1_000_000 };
 /** For tests of the plumbing: tiny budgets, the numbers mean nothing. */
-export const SMOKE_SETTINGS: BenchSettings = { taskMs: 5, gridE: 12, gridM: 12, long: false, casesPerKernel: 48, countRows: 0 };
+export const SMOKE_SETTINGS: BenchSettings = { taskMs: 5, gridE: 12, gridM: 12, long: false, casesPerKernel: 48, countRows: 0, evalRows: 3000 };
 
 export interface KernelTiming {
   readonly routine: string;
@@ -176,6 +182,8 @@ export interface BenchResult {
   readonly opcounts: readonly Omit<OpStats, "perCase">[];
   readonly hostCosts: Readonly<Partial<Record<OpName, number>>> & { readonly call: number };
   readonly model: readonly ModelCheck[];
+  /** `areal eval` against the kernel alone over the same rows (evalshare.ts): the kernel's share of eval's time. */
+  readonly eval: EvalShare;
   readonly profile?: { readonly name: string; readonly unit: string; readonly file: string; readonly predictions: readonly Prediction[] };
   readonly notes: readonly string[];
 }
@@ -579,6 +587,9 @@ export async function runBench(settings: BenchSettings = DEFAULT_SETTINGS, hooks
     const m = timed.find((x) => x.routine === p.routine)?.wasmNs;
     if (m !== undefined) model.push({ routine: p.routine, measuredNs: m, predictedNs: p.mean, ratio: p.mean / m });
   }
+  log("eval against the kernel alone ...");
+  const evalShare = measureEvalShare(wasm, settings.evalRows || DEFAULT_EVAL_ROWS);
+
   let profile: BenchResult["profile"];
   const ppath = hooks.profilePath ?? EXAMPLE_PROFILE;
   if (userProfile || existsSync(ppath)) {
@@ -625,6 +636,7 @@ export async function runBench(settings: BenchSettings = DEFAULT_SETTINGS, hooks
     opcounts: wide.map(({ perCase: _p, ...rest }) => rest),
     hostCosts,
     model,
+    eval: evalShare,
     ...(profile ? { profile } : {}),
     notes,
   };
@@ -693,6 +705,11 @@ export function formatBench(r: BenchResult): string {
   o.push("  fma = additions fed by a product (also in mul and add). Not counted: comparisons, branches, loads/stores, abs, integer work.");
   o.push("", "cost model on this host (per-operation costs from dependent chains + one empty call, times the mean counts):");
   o.push(...table(["kernel", "measured ns", "predicted ns", "predicted/measured"], r.model.map((m) => [m.routine, f(m.measuredNs), f(m.predictedNs), m.ratio.toFixed(2)])));
+  const ev = r.eval;
+  o.push("", `eval ${ev.routine} in this thread, ${ev.rows} generated rows in ${ev.chunkBytes / 1024} KB chunks, fastest of ${ev.reps} passes (no file reading or writing):`);
+  o.push(...table(["what", "rows/s", "share"], [["eval (bytes: parse, kernel, format)", f(ev.bytesRowsPerS), "1"], ["the kernel alone over the same rows", f(ev.kernelCallsPerS), ev.kernelShare.toFixed(3)],
+    ["eval through strings (the earlier path)", f(ev.stringRowsPerS), (1 / ev.bytesVsString).toFixed(2)]]));
+  o.push(`  the kernel is ${(100 * ev.kernelShare).toFixed(1)}% of eval's time; eval is ${ev.bytesVsString.toFixed(2)}x the string path's rows/s`);
   if (r.profile) {
     o.push("", `target profile '${r.profile.name}' (${r.profile.file}), ${r.profile.unit} per call, worst over the counted rows:`);
     o.push(...table(["kernel", "mean", "worst", "worst time", "worst case inputs"], r.profile.predictions.map((p) => [p.routine, f(p.mean), f(p.worst), p.worstSeconds !== undefined ? `${(p.worstSeconds * 1e6).toFixed(2)} us` : "-", p.worstInputs.join(", ")])));

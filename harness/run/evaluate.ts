@@ -13,9 +13,10 @@ import { parseNumber, singlePrecisionLoss } from "../core/float.js";
 import { cannotWrite as cannotWriteFile, makeDirs, outputIsInput } from "../core/atomic.js";
 import { removeOnSignal } from "../core/cleanup.js";
 import type { Routine, InputSpec } from "../module/routines.js";
-import type { Kernels } from "../module/load.js";
+import { callRows, type Kernels } from "../module/load.js";
 import { statusWord, isOk, abiViolation, abiViolationMessage } from "../module/status.js";
 import { ModuleError } from "../module/load.js";
+import { ByteSink, readDecimal, decimalValue, NOT_EXACT } from "../core/bytes.js";
 import { CsvFileStream, CHUNK_BYTES, readOwnedLines, isSkippedBeforeHeader, LineTooLong, MAX_LINE_BYTES } from "../core/stream.js";
 import { WorkerPool, type KernelSource } from "../core/pool.js";
 
@@ -133,8 +134,8 @@ export function evaluateCsv(routine: Routine, text: string, source: string, k: K
   }
   const t = parseCsv(text.slice(0, pos), source);
   const plan = prepareEval(routine, t.columns, source, k);
-  const res = evaluateLines(routine, plan, t.columns.length, source, k, text.slice(pos), lineNo + 1);
-  return { csv: outputHeader(routine, t.columns) + "\n" + res.text, rows: res.rows, statuses: res.statuses };
+  const res = evaluateBytes(routine, plan, t.columns.length, source, k, ENCODER.encode(text.slice(pos)), lineNo + 1);
+  return { csv: outputHeader(routine, t.columns) + "\n" + utf8(res.bytes), rows: res.rows, statuses: res.statuses };
 }
 
 /** How `evaluateFile` runs. */
@@ -220,8 +221,8 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
     };
     // In this thread: exact line numbers, so a bad cell throws the same message as evaluateCsv.
     const here = (chunk: Uint8Array): void => {
-      const res = evaluateLines(routine, plan, head.columns.length, source, opts.kernels, utf8(chunk), line);
-      write(Buffer.from(res.text));
+      const res = evaluateBytes(routine, plan, head.columns.length, source, opts.kernels, chunk, line);
+      write(res.bytes);
       line += res.lineCount;
       add(res.rows, res.statuses, stream.position);
     };
@@ -315,15 +316,15 @@ export interface EvalChunkResult {
 export function evalRange(routine: Routine, plan: Plan, init: { readonly columns: readonly string[]; readonly source: string; readonly path: string; readonly first: number; readonly size: number }, k: Kernels, start: number, end: number): EvalChunkResult {
   const own = readOwnedLines(init.path, init.first, init.size, start, end);
   const none = { bytes: new Uint8Array(0), rows: 0, lineCount: 0, statuses: {}, begin: own.begin, finish: own.finish };
-  let res: ReturnType<typeof evaluateLines>;
+  let res: ReturnType<typeof evaluateBytes>;
   try {
-    res = evaluateLines(routine, plan, init.columns.length, init.source, k, own.bytes.toString("utf8"), 1);
+    res = evaluateBytes(routine, plan, init.columns.length, init.source, k, own.bytes, 1);
   } catch (err) {
     if (err instanceof CsvError || err instanceof EvalError) return { ...none, error: err.message };
     throw err;
   }
-  // A buffer of its own (Buffer.from may hand out a slice of a shared pool), transferred back without a copy.
-  return { bytes: ENCODER.encode(res.text), rows: res.rows, lineCount: res.lineCount, statuses: res.statuses, begin: own.begin, finish: own.finish };
+  // A buffer of its own (the output of evaluateBytes is a view of a buffer it reuses), transferred back without a copy.
+  return { bytes: res.bytes.slice(), rows: res.rows, lineCount: res.lineCount, statuses: res.statuses, begin: own.begin, finish: own.finish };
 }
 
 const ENCODER = new TextEncoder();
@@ -454,4 +455,194 @@ function copyToStdout(path: string): Promise<void> {
     rs.on("end", () => resolve());
     rs.pipe(process.stdout, { end: false });
   });
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// the byte path
+
+/** A status code's word and the bytes written for it (the word and the line end). */
+interface StatusText {
+  readonly word: string;
+  readonly bytes: Uint8Array;
+}
+const STATUS_TEXT = new Map<number, StatusText>();
+function statusText(code: number): StatusText {
+  let t = STATUS_TEXT.get(code);
+  if (t === undefined) {
+    const word = statusWord(code);
+    t = { word, bytes: ENCODER.encode(word + "\n") };
+    STATUS_TEXT.set(code, t);
+  }
+  return t;
+}
+
+/** The output of evaluateBytes is written here: one buffer for the thread, grown as needed, never shrunk. */
+const SINK = new ByteSink(1 << 18);
+
+/** Thrown inside evaluateBytes to hand the whole run to evaluateLines (the reference for messages and bytes). */
+const FALL_BACK = new Error("fall back to evaluateLines");
+
+/** A line's cells as evaluateLines reads them (for a line with space, a CR or bytes beyond ASCII), or undefined for a skipped line. */
+function slowLine(line: string, width: number): { cells: string[]; echo: string } | undefined {
+  const c0 = line.charCodeAt(0);
+  if (line.length > 0 && c0 === 35) return undefined;
+  if (line.length === 0 || !keptByTrim(c0)) {
+    if (line.trim() === "" || line.startsWith("#")) return undefined;
+  }
+  const cells = line.split(",").map((c) => c.trim());
+  if (cells.length !== width) throw FALL_BACK;
+  return { cells, echo: cells.join(",") };
+}
+
+/**
+ * evaluateLines on bytes: the same checks, messages and output bytes, without decoding the text or building a
+ * string per cell or per line. A line of printable ASCII with no space around its cells is read in place: its
+ * cells are found by their commas, numbers read by readDecimal (Number() on the cell where it cannot be exact,
+ * the string path for anything else: enumerations, nan, inf, hex patterns), the line echoed as its bytes. Any
+ * other line (a space, a CR, a byte beyond ASCII) is decoded and read as evaluateLines reads it. The kernel runs
+ * once over all rows (Kernels.callRows); numbers are written as bytes (ByteSink.number). Any bad cell, bad row
+ * or over-long line hands the whole run to evaluateLines, which throws its message (the line numbers and
+ * messages are its own). tests/eval-bytes.test.ts compares the bytes with evaluateLines on generated text.
+ * The bytes returned are a view of a buffer the next call writes over: write or copy them before calling again.
+ */
+export function evaluateBytes(routine: Routine, plan: Plan, width: number, source: string, k: Kernels, b: Uint8Array, firstLine: number): { bytes: Uint8Array; rows: number; lineCount: number; statuses: Record<string, number> } {
+  try {
+    return evaluateBytesFast(routine, plan, width, source, k, b);
+  } catch (err) {
+    if (err !== FALL_BACK) throw err;
+  }
+  const res = evaluateLines(routine, plan, width, source, k, utf8(b), firstLine);
+  return { bytes: ENCODER.encode(res.text), rows: res.rows, lineCount: res.lineCount, statuses: res.statuses };
+}
+
+function evaluateBytesFast(routine: Routine, plan: Plan, width: number, source: string, k: Kernels, b: Uint8Array): { bytes: Uint8Array; rows: number; lineCount: number; statuses: Record<string, number> } {
+  const len = b.length;
+  let lfs = 0;
+  for (let i = b.indexOf(10); i >= 0; i = b.indexOf(10, i + 1)) lfs++;
+  const maxRows = lfs + 1;
+  const na = plan.specs.length;
+  const args = new Float64Array(maxRows * na);
+  const starts = new Int32Array(maxRows);
+  const ends = new Int32Array(maxRows);
+  const echoes: (Uint8Array | undefined)[] = [];
+  const cs = new Int32Array(width + 1); // cell j is bytes [cs[j], cs[j + 1] - 1)
+  const wanted = plan.cols;
+  const buf = Buffer.from(b.buffer, b.byteOffset, b.byteLength);
+  let rows = 0;
+  for (let pos = 0; pos < len; ) {
+    let lf = b.indexOf(10, pos);
+    if (lf < 0) lf = len;
+    const start = pos;
+    const end = lf < len && lf > pos && b[lf - 1] === 13 ? lf - 1 : lf;
+    pos = lf + 1;
+    if (end - start > MAX_LINE_BYTES) throw FALL_BACK;
+    if (end > start && b[start] === 35) continue; // '#': a comment
+    // Cut at commas; any byte that needs the string path makes the line slow.
+    let n = 0;
+    let slow = end === start || !keptByTrim(b[start]!) || !keptByTrim(b[end - 1]!);
+    cs[0] = start;
+    for (let p = start; !slow && p < end; p++) {
+      const c = b[p]!;
+      if (c === 44) {
+        if (++n >= width || p === start || !keptByTrim(b[p - 1]!) || p + 1 === end || !keptByTrim(b[p + 1]!)) slow = true;
+        else cs[n] = p + 1;
+      } else if (c >= 128) slow = true;
+    }
+    const at = rows * na;
+    if (!slow) {
+      if (n + 1 !== width) throw FALL_BACK;
+      cs[width] = end + 1;
+      for (let i = 0; i < na; i++) {
+        const c = wanted[i]!;
+        const spec = plan.specs[i]!;
+        if (c < 0) args[at + i] = spec.default!;
+        else args[at + i] = spec.choices ? stringCell(latin1(buf, cs[c]!, cs[c + 1]! - 1), spec) : numberCell(b, buf, cs[c]!, cs[c + 1]! - 1, spec);
+      }
+    } else {
+      const line = slowLine(buf.toString("utf8", start, end), width);
+      if (line === undefined) continue;
+      for (let i = 0; i < na; i++) {
+        const c = wanted[i]!;
+        const spec = plan.specs[i]!;
+        args[at + i] = c < 0 ? spec.default! : stringCell(line.cells[c]!, spec);
+      }
+      echoes[rows] = ENCODER.encode(line.echo);
+    }
+    starts[rows] = start;
+    ends[rows] = end;
+    rows++;
+  }
+  const nOut = routine.outputs.length;
+  const outs = new Float64Array(Math.max(1, rows * nOut));
+  const status = new Int32Array(Math.max(1, rows));
+  callRows(k, plan.exportName, args, na, rows, outs, nOut, status);
+  return { ...formatRows(routine, plan, k, b, rows, starts, ends, echoes, args, outs, status), lineCount: lfs };
+}
+
+/** Bytes [p, end) as text, one character a byte (Buffer's latin1Slice without toString's argument checks). */
+function latin1(buf: Buffer, p: number, end: number): string {
+  return (buf as unknown as { latin1Slice(start: number, end: number): string }).latin1Slice(p, end);
+}
+
+/** A cell read through the string path (cellValue's checks); a bad cell hands the run to evaluateLines. */
+function stringCell(word: string, spec: InputSpec): number {
+  try {
+    return cellValue(word, "", 0, spec.name, 0, spec);
+  } catch (err) {
+    if (err instanceof CsvError) throw FALL_BACK;
+    throw err;
+  }
+}
+
+/** A number cell, bytes [p, end) of printable ASCII: readDecimal, else Number(), else the string path. */
+function numberCell(b: Uint8Array, buf: Buffer, p: number, end: number, spec: InputSpec): number {
+  const r = readDecimal(b, p, end);
+  let v: number;
+  if (r === 0) v = decimalValue[0]!;
+  else if (r === NOT_EXACT) {
+    const word = latin1(buf, p, end);
+    v = Number(word);
+    if ((v === 0 || !Number.isFinite(v)) && lostOnParse(word, v)) throw FALL_BACK;
+  } else return stringCell(latin1(buf, p, end), spec);
+  if (spec.integer && !Number.isInteger(v)) throw FALL_BACK;
+  return v;
+}
+
+/** The output bytes of the rows (evaluateLines' second pass): echo, outputs, status word; counts per status. */
+function formatRows(routine: Routine, plan: Plan, k: Kernels, b: Uint8Array, rows: number, starts: Int32Array, ends: Int32Array, echoes: readonly (Uint8Array | undefined)[], args: Float64Array, outs: Float64Array, status: Int32Array): { bytes: Uint8Array; rows: number; statuses: Record<string, number> } {
+  const nOut = routine.outputs.length;
+  const na = plan.specs.length;
+  const counts = new Map<number, number>();
+  let broken = 0;
+  const budgets = budgetSlots(routine);
+  const failed = ENCODER.encode(",NaN".repeat(nOut) + ",");
+  const one = new Float64Array(nOut);
+  const sink = SINK;
+  sink.len = 0;
+  sink.room(b.length + rows * (nOut * 24 + 12));
+  for (let r = 0; r < rows; r++) {
+    const st = status[r]!;
+    const o = r * nOut;
+    for (let i = 0; i < nOut; i++) one[i] = outs[o + i]!;
+    const bad = abiViolation(st, one, routine.outputs);
+    if (bad !== undefined) throw new ModuleError(abiViolationMessage(k.label, plan.exportName, Array.from(args.subarray(r * na, r * na + na)), bad));
+    counts.set(st, (counts.get(st) ?? 0) + 1);
+    const echo = echoes[r];
+    if (echo === undefined) sink.copy(b, starts[r]!, ends[r]!);
+    else sink.copy(echo, 0, echo.length);
+    if (isOk(st)) {
+      if (budgets.length > 0 && budgets.some((i) => one[i]! >= 0)) broken++;
+      for (let i = 0; i < nOut; i++) {
+        sink.byte(44);
+        sink.number(one[i]!);
+      }
+      sink.byte(44);
+    } else sink.copy(failed, 0, failed.length);
+    const t = statusText(st).bytes;
+    sink.copy(t, 0, t.length);
+  }
+  const statuses: Record<string, number> = {};
+  for (const [code, n] of counts) statuses[statusText(code).word] = (statuses[statusText(code).word] ?? 0) + n;
+  if (broken > 0) statuses[BUDGET_BROKEN] = broken;
+  return { bytes: sink.buf.subarray(0, sink.len), rows, statuses };
 }
