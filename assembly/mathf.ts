@@ -521,7 +521,7 @@ function asinhf(x: f32): f32 {
 // ---- the RMath interface ---------------------------------------------------------------------------------------
 
 // @ts-ignore: decorator
-@global namespace ArealMathf {
+@global export namespace ArealMathf {
   export function sin(x: f32): f32 { return sinf(x); }
   export function cos(x: f32): f32 { return cosf(x); }
   export function tan(x: f32): f32 { return tanf(x); }
