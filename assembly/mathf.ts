@@ -9,7 +9,8 @@
 //     below 0.05 ulp there). Reduction: |x| <= MEDIUM_MAX by Cody & Waite ("Software Manual for the Elementary
 //     Functions", 1980): pi/2 as four floats (12, 12, 12 and 24 significant bits, to 2^-68 absolute), n P1, n P2,
 //     n P3 exact for n < 2^12, the sum carried as a float pair (Knuth's TwoSum, Knuth TAOCP vol. 2, 1969);
-//     beyond MEDIUM_MAX by Payne & Hanek ("Radian reduction for trigonometric functions", 1983) in integer
+//     beyond MEDIUM_MAX by Payne & Hanek ("Radian reduction for trigonometric functions", SIGNUM Newsletter
+//     1983; the reference recalled from memory) in integer
 //     arithmetic: the 24-bit significand times a 96-bit window of the bits of 2/pi (TWO_OVER_PI, 288 bits)
 //     gives the quarter turns mod 4 with 62 fraction bits, turned into a float pair with Dekker's exact product
 //     (Dekker 1971, Veltkamp's split). The reduced argument enters the polynomials as a pair (y, y_lo).
@@ -18,8 +19,8 @@
 //     ends of the range).
 //  3. log: x = 2^k m, m in [sqrt(1/2), sqrt(2)), f = m - 1, s = f / (2 + f), log m = 2 atanh s = 2s + 2s^3/3 +
 //     2s^5/5 + ... to s^11 (|s| <= 0.1716: truncation 2e-11 relative), with s as a float pair (the residual
-//     f - s (2 + f) taken exactly), the result log x = k ln 2 + log m as a float pair (Muller, "Elementary
-//     Functions", 2006, ch. 5 and 11 for the series and the double-word arithmetic).
+//     f - s (2 + f) taken exactly) and 2s^3/3 as a pair, the result log x = k ln 2 + log m as a float pair
+//     (Muller, "Elementary Functions", 2006, ch. 5 and 11 for the series and the double-word arithmetic).
 //  4. pow(x, y) = exp(y log x) with log x and the product y log x as float pairs (the exponent's error would
 //     otherwise grow with |y log x|, up to 88 ulp), and exp taking the pair. IEEE 754-2008 / C99 special cases.
 //  5. cbrt: starter from the exponent bits divided by three (the bit trick of fdlibm's s_cbrtf.c, Sun
@@ -40,9 +41,12 @@
 //   asinh 0.991; NativeMathf's kept: atan 0.633, atan2 0.936, acos 0.737, tanh 1.068, log1p 0.682, expm1 1.547
 //   (sinh's worst is expm1's).
 // Loops: none (the polynomials, the Newton steps and the table reads are written out). No allocation: the 2/pi
-// table is a static read-only data segment (36 bytes). File-private scratch: LOG_LO, the low part of the last
-// logPair, read right after the call (documented beside it); sincos_sin / sincos_cos, the results of sincos,
-// are the two exported mutable variables that NativeMath's interface requires (kepler_elliptic.ts reads them).
+// table is a static read-only data segment (40 bytes with its leading zero word). File-private scratch: redLo
+// and redN (the low part and quadrant of the last reduction) and LOG_LO (the low part of the last logPair),
+// each read right after the call that sets it; sincos_sin / sincos_cos, the results of sincos, are the two
+// exported mutable variables that NativeMath's interface requires (kepler_elliptic.ts reads them).
+// The constants that sinh, cosh and asinh share with musl (0x42B17217 = ln FLT_MAX, 0x4322E3BC = 235 ln 2,
+// 0x3F317218 = ln 2) are read from AssemblyScript's std/assembly/math.ts, not recalled.
 
 // ---- constants (bits from decimal.js at 120 digits; decimal values for reading) ----------------------------
 
@@ -341,7 +345,8 @@ function logPair(x: f32): f32 {
   const b = <f32>2.0 * s;
   const h1 = a + b;
   const h2 = h1 + t3;
-  const lo = (sumError(a, b, h1) + sumError(h1, t3, h2)) + ((<f32>2.0 * sl / (<f32>1.0 - z) + (t3e + rest)) + kf * LN2_2);
+  const small = (<f32>2.0 * sl / (<f32>1.0 - z) + (t3e + rest)) + kf * LN2_2;
+  const lo = (sumError(a, b, h1) + sumError(h1, t3, h2)) + small;
   const out = h2 + lo;
   LOG_LO = lo - (out - h2);
   return out;
