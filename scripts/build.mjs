@@ -12,8 +12,9 @@ const run = (cmd, args) => execFileSync(cmd, args, { cwd: root, stdio: "inherit"
 
 // The files generated from the ABI table must be current (npm run abi writes them): a stale one stops the build.
 run(process.execPath, [join(root, "scripts", "gen-abi.mjs"), "--check"]);
+// The single-precision build's entry, assembly/index_f32.ts, adds assembly/mathf.ts (its RMath, ArealMathf).
 for (const target of ["release", "single", "debug"]) {
-  run(bin("asc"), ["assembly/index.ts", "--target", target]);
+  run(bin("asc"), [target === "single" ? "assembly/index_f32.ts" : "assembly/index.ts", "--target", target]);
 }
 // dist/ is rebuilt whole: a module left from a moved or deleted source must not be found at run time.
 rmSync(join(root, "dist"), { recursive: true, force: true });

@@ -91,7 +91,8 @@ export async function buildTargets(dir, targets) {
       if (r.code !== 0) return r;
       continue;
     }
-    const r = await runIn(dir, process.execPath, [join(dir, "node_modules", "assemblyscript", "bin", "asc.js"), "assembly/index.ts", "--target", t]);
+    const entry = t === "single" ? "assembly/index_f32.ts" : "assembly/index.ts"; // as scripts/build.mjs
+    const r = await runIn(dir, process.execPath, [join(dir, "node_modules", "assemblyscript", "bin", "asc.js"), entry, "--target", t]);
     if (r.code !== 0) return r;
   }
   return { code: 0, out: "" };
