@@ -2,6 +2,190 @@
 /* eslint-disable */
 import type { AbiOutput, AbiTable } from "./abi-types.js";
 
+/** The block of output slots phi. */
+const BLOCK_PHI: readonly AbiOutput[] = [
+ {
+  "name": "phi_11",
+  "unit": "1",
+  "doc": "transition matrix, row-major: phi_ij = d(component i at the output time) / d(component j at the start), components x, y, z, vx, vy, vz (the export says which times)"
+ },
+ {
+  "name": "phi_12",
+  "unit": "1",
+  "doc": "d x / d y0"
+ },
+ {
+  "name": "phi_13",
+  "unit": "1",
+  "doc": "d x / d z0"
+ },
+ {
+  "name": "phi_14",
+  "unit": "time",
+  "doc": "d x / d vx0"
+ },
+ {
+  "name": "phi_15",
+  "unit": "time",
+  "doc": "d x / d vy0"
+ },
+ {
+  "name": "phi_16",
+  "unit": "time",
+  "doc": "d x / d vz0"
+ },
+ {
+  "name": "phi_21",
+  "unit": "1",
+  "doc": "d y / d x0"
+ },
+ {
+  "name": "phi_22",
+  "unit": "1",
+  "doc": "d y / d y0"
+ },
+ {
+  "name": "phi_23",
+  "unit": "1",
+  "doc": "d y / d z0"
+ },
+ {
+  "name": "phi_24",
+  "unit": "time",
+  "doc": "d y / d vx0"
+ },
+ {
+  "name": "phi_25",
+  "unit": "time",
+  "doc": "d y / d vy0"
+ },
+ {
+  "name": "phi_26",
+  "unit": "time",
+  "doc": "d y / d vz0"
+ },
+ {
+  "name": "phi_31",
+  "unit": "1",
+  "doc": "d z / d x0"
+ },
+ {
+  "name": "phi_32",
+  "unit": "1",
+  "doc": "d z / d y0"
+ },
+ {
+  "name": "phi_33",
+  "unit": "1",
+  "doc": "d z / d z0"
+ },
+ {
+  "name": "phi_34",
+  "unit": "time",
+  "doc": "d z / d vx0"
+ },
+ {
+  "name": "phi_35",
+  "unit": "time",
+  "doc": "d z / d vy0"
+ },
+ {
+  "name": "phi_36",
+  "unit": "time",
+  "doc": "d z / d vz0"
+ },
+ {
+  "name": "phi_41",
+  "unit": "1/time",
+  "doc": "d vx / d x0"
+ },
+ {
+  "name": "phi_42",
+  "unit": "1/time",
+  "doc": "d vx / d y0"
+ },
+ {
+  "name": "phi_43",
+  "unit": "1/time",
+  "doc": "d vx / d z0"
+ },
+ {
+  "name": "phi_44",
+  "unit": "1",
+  "doc": "d vx / d vx0"
+ },
+ {
+  "name": "phi_45",
+  "unit": "1",
+  "doc": "d vx / d vy0"
+ },
+ {
+  "name": "phi_46",
+  "unit": "1",
+  "doc": "d vx / d vz0"
+ },
+ {
+  "name": "phi_51",
+  "unit": "1/time",
+  "doc": "d vy / d x0"
+ },
+ {
+  "name": "phi_52",
+  "unit": "1/time",
+  "doc": "d vy / d y0"
+ },
+ {
+  "name": "phi_53",
+  "unit": "1/time",
+  "doc": "d vy / d z0"
+ },
+ {
+  "name": "phi_54",
+  "unit": "1",
+  "doc": "d vy / d vx0"
+ },
+ {
+  "name": "phi_55",
+  "unit": "1",
+  "doc": "d vy / d vy0"
+ },
+ {
+  "name": "phi_56",
+  "unit": "1",
+  "doc": "d vy / d vz0"
+ },
+ {
+  "name": "phi_61",
+  "unit": "1/time",
+  "doc": "d vz / d x0"
+ },
+ {
+  "name": "phi_62",
+  "unit": "1/time",
+  "doc": "d vz / d y0"
+ },
+ {
+  "name": "phi_63",
+  "unit": "1/time",
+  "doc": "d vz / d z0"
+ },
+ {
+  "name": "phi_64",
+  "unit": "1",
+  "doc": "d vz / d vx0"
+ },
+ {
+  "name": "phi_65",
+  "unit": "1",
+  "doc": "d vz / d vy0"
+ },
+ {
+  "name": "phi_66",
+  "unit": "1",
+  "doc": "d vz / d vz0"
+ }
+];
+
 /** The shared output layout integration. */
 const LAYOUT_INTEGRATION: readonly AbiOutput[] = [
  {
@@ -178,186 +362,7 @@ const LAYOUT_INTEGRATION_TRANSITION: readonly AbiOutput[] = [
   "unit": "length/time",
   "doc": "velocity z at step k"
  },
- {
-  "name": "phi_11",
-  "unit": "1",
-  "doc": "transition matrix of the discrete map from step 0 to step k, row-major: phi_ij = d(component i at step k) / d(component j at step 0), components x, y, z, vx, vy, vz"
- },
- {
-  "name": "phi_12",
-  "unit": "1",
-  "doc": "d x / d y0"
- },
- {
-  "name": "phi_13",
-  "unit": "1",
-  "doc": "d x / d z0"
- },
- {
-  "name": "phi_14",
-  "unit": "time",
-  "doc": "d x / d vx0"
- },
- {
-  "name": "phi_15",
-  "unit": "time",
-  "doc": "d x / d vy0"
- },
- {
-  "name": "phi_16",
-  "unit": "time",
-  "doc": "d x / d vz0"
- },
- {
-  "name": "phi_21",
-  "unit": "1",
-  "doc": "d y / d x0"
- },
- {
-  "name": "phi_22",
-  "unit": "1",
-  "doc": "d y / d y0"
- },
- {
-  "name": "phi_23",
-  "unit": "1",
-  "doc": "d y / d z0"
- },
- {
-  "name": "phi_24",
-  "unit": "time",
-  "doc": "d y / d vx0"
- },
- {
-  "name": "phi_25",
-  "unit": "time",
-  "doc": "d y / d vy0"
- },
- {
-  "name": "phi_26",
-  "unit": "time",
-  "doc": "d y / d vz0"
- },
- {
-  "name": "phi_31",
-  "unit": "1",
-  "doc": "d z / d x0"
- },
- {
-  "name": "phi_32",
-  "unit": "1",
-  "doc": "d z / d y0"
- },
- {
-  "name": "phi_33",
-  "unit": "1",
-  "doc": "d z / d z0"
- },
- {
-  "name": "phi_34",
-  "unit": "time",
-  "doc": "d z / d vx0"
- },
- {
-  "name": "phi_35",
-  "unit": "time",
-  "doc": "d z / d vy0"
- },
- {
-  "name": "phi_36",
-  "unit": "time",
-  "doc": "d z / d vz0"
- },
- {
-  "name": "phi_41",
-  "unit": "1/time",
-  "doc": "d vx / d x0"
- },
- {
-  "name": "phi_42",
-  "unit": "1/time",
-  "doc": "d vx / d y0"
- },
- {
-  "name": "phi_43",
-  "unit": "1/time",
-  "doc": "d vx / d z0"
- },
- {
-  "name": "phi_44",
-  "unit": "1",
-  "doc": "d vx / d vx0"
- },
- {
-  "name": "phi_45",
-  "unit": "1",
-  "doc": "d vx / d vy0"
- },
- {
-  "name": "phi_46",
-  "unit": "1",
-  "doc": "d vx / d vz0"
- },
- {
-  "name": "phi_51",
-  "unit": "1/time",
-  "doc": "d vy / d x0"
- },
- {
-  "name": "phi_52",
-  "unit": "1/time",
-  "doc": "d vy / d y0"
- },
- {
-  "name": "phi_53",
-  "unit": "1/time",
-  "doc": "d vy / d z0"
- },
- {
-  "name": "phi_54",
-  "unit": "1",
-  "doc": "d vy / d vx0"
- },
- {
-  "name": "phi_55",
-  "unit": "1",
-  "doc": "d vy / d vy0"
- },
- {
-  "name": "phi_56",
-  "unit": "1",
-  "doc": "d vy / d vz0"
- },
- {
-  "name": "phi_61",
-  "unit": "1/time",
-  "doc": "d vz / d x0"
- },
- {
-  "name": "phi_62",
-  "unit": "1/time",
-  "doc": "d vz / d y0"
- },
- {
-  "name": "phi_63",
-  "unit": "1/time",
-  "doc": "d vz / d z0"
- },
- {
-  "name": "phi_64",
-  "unit": "1",
-  "doc": "d vz / d vx0"
- },
- {
-  "name": "phi_65",
-  "unit": "1",
-  "doc": "d vz / d vy0"
- },
- {
-  "name": "phi_66",
-  "unit": "1",
-  "doc": "d vz / d vz0"
- },
+ ...BLOCK_PHI,
  {
   "name": "energy_dev",
   "unit": "1",
@@ -953,186 +958,7 @@ export const ABI_TABLE: AbiTable = {
      "name": "vz",
      "unit": "length/time"
     },
-    {
-     "name": "phi_11",
-     "unit": "1",
-     "doc": "state transition matrix, row-major: phi_ij = d(final component i) / d(initial component j), components x, y, z, vx, vy, vz"
-    },
-    {
-     "name": "phi_12",
-     "unit": "1",
-     "doc": "d x / d y0"
-    },
-    {
-     "name": "phi_13",
-     "unit": "1",
-     "doc": "d x / d z0"
-    },
-    {
-     "name": "phi_14",
-     "unit": "time",
-     "doc": "d x / d vx0"
-    },
-    {
-     "name": "phi_15",
-     "unit": "time",
-     "doc": "d x / d vy0"
-    },
-    {
-     "name": "phi_16",
-     "unit": "time",
-     "doc": "d x / d vz0"
-    },
-    {
-     "name": "phi_21",
-     "unit": "1",
-     "doc": "d y / d x0"
-    },
-    {
-     "name": "phi_22",
-     "unit": "1",
-     "doc": "d y / d y0"
-    },
-    {
-     "name": "phi_23",
-     "unit": "1",
-     "doc": "d y / d z0"
-    },
-    {
-     "name": "phi_24",
-     "unit": "time",
-     "doc": "d y / d vx0"
-    },
-    {
-     "name": "phi_25",
-     "unit": "time",
-     "doc": "d y / d vy0"
-    },
-    {
-     "name": "phi_26",
-     "unit": "time",
-     "doc": "d y / d vz0"
-    },
-    {
-     "name": "phi_31",
-     "unit": "1",
-     "doc": "d z / d x0"
-    },
-    {
-     "name": "phi_32",
-     "unit": "1",
-     "doc": "d z / d y0"
-    },
-    {
-     "name": "phi_33",
-     "unit": "1",
-     "doc": "d z / d z0"
-    },
-    {
-     "name": "phi_34",
-     "unit": "time",
-     "doc": "d z / d vx0"
-    },
-    {
-     "name": "phi_35",
-     "unit": "time",
-     "doc": "d z / d vy0"
-    },
-    {
-     "name": "phi_36",
-     "unit": "time",
-     "doc": "d z / d vz0"
-    },
-    {
-     "name": "phi_41",
-     "unit": "1/time",
-     "doc": "d vx / d x0"
-    },
-    {
-     "name": "phi_42",
-     "unit": "1/time",
-     "doc": "d vx / d y0"
-    },
-    {
-     "name": "phi_43",
-     "unit": "1/time",
-     "doc": "d vx / d z0"
-    },
-    {
-     "name": "phi_44",
-     "unit": "1",
-     "doc": "d vx / d vx0"
-    },
-    {
-     "name": "phi_45",
-     "unit": "1",
-     "doc": "d vx / d vy0"
-    },
-    {
-     "name": "phi_46",
-     "unit": "1",
-     "doc": "d vx / d vz0"
-    },
-    {
-     "name": "phi_51",
-     "unit": "1/time",
-     "doc": "d vy / d x0"
-    },
-    {
-     "name": "phi_52",
-     "unit": "1/time",
-     "doc": "d vy / d y0"
-    },
-    {
-     "name": "phi_53",
-     "unit": "1/time",
-     "doc": "d vy / d z0"
-    },
-    {
-     "name": "phi_54",
-     "unit": "1",
-     "doc": "d vy / d vx0"
-    },
-    {
-     "name": "phi_55",
-     "unit": "1",
-     "doc": "d vy / d vy0"
-    },
-    {
-     "name": "phi_56",
-     "unit": "1",
-     "doc": "d vy / d vz0"
-    },
-    {
-     "name": "phi_61",
-     "unit": "1/time",
-     "doc": "d vz / d x0"
-    },
-    {
-     "name": "phi_62",
-     "unit": "1/time",
-     "doc": "d vz / d y0"
-    },
-    {
-     "name": "phi_63",
-     "unit": "1/time",
-     "doc": "d vz / d z0"
-    },
-    {
-     "name": "phi_64",
-     "unit": "1",
-     "doc": "d vz / d vx0"
-    },
-    {
-     "name": "phi_65",
-     "unit": "1",
-     "doc": "d vz / d vy0"
-    },
-    {
-     "name": "phi_66",
-     "unit": "1",
-     "doc": "d vz / d vz0"
-    },
+    ...BLOCK_PHI,
     {
      "name": "iterations",
      "unit": "count",
