@@ -435,7 +435,7 @@ export function evaluateLines(routine: Routine, plan: Plan, width: number, sourc
 }
 
 /** Count a row's single-precision losses of meaning into `statuses` (LOST_IN_F32 once, and once per kind). */
-function countLosses(specs: readonly InputSpec[], a: readonly number[], statuses: Record<string, number>): void {
+function countLosses(specs: readonly InputSpec[], a: ArrayLike<number>, statuses: Record<string, number>): void {
   let lost = false;
   for (let i = 0; i < specs.length; i++) {
     if (specs[i]!.choices) continue;
@@ -644,5 +644,6 @@ function formatRows(routine: Routine, plan: Plan, k: Kernels, b: Uint8Array, row
   const statuses: Record<string, number> = {};
   for (const [code, n] of counts) statuses[statusText(code).word] = (statuses[statusText(code).word] ?? 0) + n;
   if (broken > 0) statuses[BUDGET_BROKEN] = broken;
+  if (k.realBytes === 4) for (let r = 0; r < rows; r++) countLosses(plan.specs, args.subarray(r * na, r * na + na), statuses);
   return { bytes: sink.buf.subarray(0, sink.len), rows, statuses };
 }
