@@ -25,6 +25,15 @@ export function removeRegistered(): void {
   paths.clear();
 }
 
+/**
+ * Install the signal handlers now (removeOnSignal does it too). Call it before creating a temporary path whose
+ * name is known only once created (mkdtemp): a signal between the creation and the registration would otherwise
+ * meet no handler and end the process with the path left behind.
+ */
+export function armSignalCleanup(): void {
+  install();
+}
+
 function install(): void {
   if (installed) return;
   installed = true;

@@ -11,7 +11,7 @@ import { basename, dirname, join } from "node:path";
 import { parseCsv, CsvError, cell, lostOnParse } from "../core/csv.js";
 import { parseNumber, singlePrecisionLoss } from "../core/float.js";
 import { cannotWrite as cannotWriteFile, makeDirs, outputIsInput } from "../core/atomic.js";
-import { removeOnSignal } from "../core/cleanup.js";
+import { armSignalCleanup, removeOnSignal } from "../core/cleanup.js";
 import type { Routine, InputSpec } from "../module/routines.js";
 import { callRows, type Kernels } from "../module/load.js";
 import { statusWord, isOk, abiViolation, abiViolationMessage } from "../module/status.js";
@@ -195,6 +195,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
         tmp = join(dirname(target), `.${basename(target)}.${process.pid}.tmp`);
         forget = removeOnSignal(tmp);
       } else {
+        armSignalCleanup(); // before the folder exists: a signal after mkdtemp finds the handler in place
         tmpDir = mkdtempSync(join(tmpdir(), "areal-eval-"));
         forget = removeOnSignal(tmpDir);
         tmp = join(tmpDir, "out.csv");
