@@ -49,6 +49,7 @@ export const OPTIONS = {
   report: { type: "string", value: "DIR", help: "also write the HTML report (one self-contained file) and its JSON into this folder" },
   long: { type: "boolean", help: "bench: longer timings and a finer iteration grid (several minutes)" },
   profile: { type: "string", value: "FILE", help: "bench: target profile JSON (cycles per operation; bench/profiles/example-target.json)" },
+  targets: { type: "string", value: "LIST", help: "count: comma-separated instruction sets (x86-64, armhf, riscv64, cortex-m4f; default all four)" },
   help: { type: "boolean", short: "h", help: "show help" },
 } as const satisfies Record<string, OptionDef>;
 
