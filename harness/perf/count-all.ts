@@ -97,7 +97,7 @@ async function countTarget(target: TargetName, b: CountBuild, dir: string, sigs:
 }
 
 /** Count the builds on the targets that have their tools; missing tools give one note per target. */
-export async function countAll(targets: readonly TargetName[], builds: readonly CountBuild[], opts: { jobs?: number; kernels?: readonly string[]; log?: (s: string) => void } = {}): Promise<CountResult> {
+export async function countAll(targets: readonly TargetName[], builds: readonly CountBuild[], opts: { jobs?: number; kernels?: readonly string[]; dir?: string; log?: (s: string) => void } = {}): Promise<CountResult> {
   const log = opts.log ?? (() => {});
   const res: CountResult = { targets: {}, sizes: {}, notes: [], tools: {} };
   const usable = targets.filter((t) => {
@@ -108,10 +108,10 @@ export async function countAll(targets: readonly TargetName[], builds: readonly 
   if (usable.length === 0) return res;
   res.tools.wasm2c = `wasm2c ${versionOf("wasm2c")}`;
   for (const t of usable) res.tools[t] = `${versionOf(TARGET_SPECS[t].cc)}; ${versionOf(TARGET_SPECS[t].command("", [], "")[0]!)}`;
-  const plugin = await buildPlugin();
+  const plugin = await buildPlugin(opts.dir);
   const inputs = readCountInputs();
   for (const b of builds) {
-    const dir = join(COUNT_DIR, b.key.replace(/[^\w.-]/g, "_"));
+    const dir = join(opts.dir ?? COUNT_DIR, b.key.replace(/[^\w.-]/g, "_"));
     const sigs = await translate(b.wasm, dir, "module");
     const wanted = opts.kernels ?? Object.keys(inputs);
     const kernels = wanted.filter((k) => {

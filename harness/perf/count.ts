@@ -15,7 +15,7 @@
  * Inputs: vectors/count-inputs.json (typical and worst inputs per export, with the argument for the worst).
  */
 import { execFile } from "node:child_process";
-import { copyFileSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
+import { copyFileSync, mkdirSync, renameSync, readFileSync, writeFileSync } from "node:fs";
 import { basename, join } from "node:path";
 import { promisify } from "node:util";
 import { BUILD_DIR, ROOT, VECTORS_DIR } from "../core/paths.js";
@@ -34,7 +34,10 @@ export const N_HIGH = 2000;
 export interface CountCase {
   readonly args: Readonly<Record<string, number | string>>;
   readonly setup?: { readonly export: string; readonly args: Readonly<Record<string, number | string>> };
+  /** Why these inputs: for a worst case, the argument from the iteration caps and the code paths. */
   readonly why: string;
+  /** For a worst case: how it was found (count-screen.ts). */
+  readonly measured?: string;
 }
 export interface KernelInputs {
   readonly typical: CountCase;
@@ -166,10 +169,13 @@ export function runtimeDir(bareMetal: boolean): string {
 }
 
 /** Build the plugin (host gcc) into build/count/, once per run. */
-export async function buildPlugin(): Promise<string> {
-  mkdirSync(COUNT_DIR, { recursive: true });
-  const out = join(COUNT_DIR, "insn-plugin.so");
-  await run("gcc", ["-O2", "-shared", "-fPIC", "-o", out, PLUGIN_SOURCE]);
+export async function buildPlugin(dir = COUNT_DIR): Promise<string> {
+  mkdirSync(dir, { recursive: true });
+  const out = join(dir, "insn-plugin.so");
+  // Built beside, then renamed: a count running at the same time keeps loading a whole file.
+  const tmp = `${out}.${process.pid}.tmp`;
+  await run("gcc", ["-O2", "-shared", "-fPIC", "-o", tmp, PLUGIN_SOURCE]);
+  renameSync(tmp, out);
   return out;
 }
 

@@ -5,6 +5,9 @@ import { writeAtomic } from "../../core/atomic.js";
 import { BUILD_FILES } from "../../core/paths.js";
 import { countAll, countJson, formatCount, type CountBuild } from "../../perf/count-all.js";
 import { TARGETS, type TargetName } from "../../perf/toolchain.js";
+import { modelCheck, formatModel } from "../../perf/count-model.js";
+import { readProfile } from "../../perf/opcount.js";
+import { EXAMPLE_PROFILE } from "../../perf/bench.js";
 import { UsageError, unknownName, type Command } from "../options.js";
 
 /** The modules to count: --module FILE, --build f64|f32|debug, or both f64 and f32. */
@@ -42,6 +45,11 @@ export const countCommand: Command = {
     const tty = process.stderr.isTTY;
     const r = await countAll(targets, builds, { log: (l) => void (tty ? process.stderr.write(`${l}\n`) : undefined) });
     process.stdout.write(formatCount(r));
+    // The cost model of `bench` against the counts (needs the counting module: npm run build:bench).
+    const profile = readProfile(EXAMPLE_PROFILE);
+    const m = modelCheck(r, profile);
+    if (m && m.rows.length) process.stdout.write(`\n${formatModel(m, profile.name)}`);
+    else if (!m) process.stdout.write("\n(cost model check skipped: the counting module is not built; npm run build:bench)\n");
     if (values.json !== undefined) writeAtomic(values.json as string, JSON.stringify(countJson(r), null, 2) + "\n");
     return Object.keys(r.targets).length > 0 ? 0 : 1;
   },
