@@ -77,7 +77,7 @@ async function countTarget(target: TargetName, b: CountBuild, dir: string, sigs:
   };
   const base = target === "cortex-m4f" ? await sizeOf(await image("none")) : undefined;
   if (base) sizes["(base)"] = base;
-  await pool(kernels.map((k) => async () => {
+  const countKernel = async (k: string): Promise<void> => {
     const img = await image(k, k);
     const stateful = inputs[k]!.typical.setup !== undefined;
     const t = await perCall(target, img, 0, plugin, stateful);
@@ -91,6 +91,13 @@ async function countTarget(target: TargetName, b: CountBuild, dir: string, sigs:
       sizes[k] = { text: s.text - base.text, data: s.data - base.data, bss: s.bss - base.bss };
     }
     log(`${target} ${b.key} ${k}: typical ${t.insns}, worst ${w.insns}`);
+  };
+  await pool(kernels.map((k) => async () => {
+    try {
+      await countKernel(k);
+    } catch (err) {
+      res.notes.push(`${target} ${b.key} ${k}: not counted: ${((err as Error).message ?? String(err)).split("\n").slice(0, 3).join(" ")}`);
+    }
   }), jobs);
   (res.targets[target] ??= {})[b.key] = Object.fromEntries(kernels.filter((k) => per[k]).map((k) => [k, per[k]!]));
   if (base) res.sizes[b.key] = sizes;

@@ -15,7 +15,7 @@
  * Inputs: vectors/count-inputs.json (typical and worst inputs per export, with the argument for the worst).
  */
 import { execFile } from "node:child_process";
-import { copyFileSync, mkdirSync, renameSync, readFileSync, writeFileSync } from "node:fs";
+import { existsSync, mkdirSync, renameSync, readFileSync, writeFileSync } from "node:fs";
 import { basename, join } from "node:path";
 import { promisify } from "node:util";
 import { BUILD_DIR, ROOT, VECTORS_DIR } from "../core/paths.js";
@@ -155,12 +155,12 @@ export function runtimeDir(bareMetal: boolean): string {
   if (!bareMetal) return WASM2C_RUNTIME;
   const dir = join(COUNT_DIR, "rt-bare");
   mkdirSync(join(dir, "sys"), { recursive: true });
-  for (const f of ["wasm-rt.h", "wasm-rt-impl.h"]) copyFileSync(join(WASM2C_RUNTIME, f), join(dir, f));
+  for (const f of ["wasm-rt.h", "wasm-rt-impl.h"]) keep(join(dir, f), readFileSync(join(WASM2C_RUNTIME, f), "utf8"));
   const src = readFileSync(join(WASM2C_RUNTIME, "wasm-rt-impl.c"), "utf8");
   const fixed = src.replaceAll("va_arg(args, wasm_rt_type_t)", "(wasm_rt_type_t)va_arg(args, int)");
   if (fixed === src) throw new Error("count: the wasm2c runtime changed (no va_arg(args, wasm_rt_type_t) to fix); check the bare-metal patch");
-  writeFileSync(join(dir, "wasm-rt-impl.c"), fixed);
-  writeFileSync(join(dir, "sys", "mman.h"), [
+  keep(join(dir, "wasm-rt-impl.c"), fixed);
+  keep(join(dir, "sys", "mman.h"), [
     "/* areal count: bare metal has no mmap; the 32-bit wasm2c runtime bounds-checks and never calls these. */",
     "#define PROT_NONE 0", "#define PROT_READ 1", "#define PROT_WRITE 2", "#define MAP_PRIVATE 2", "#define MAP_ANONYMOUS 0x20",
     "#define MAP_FAILED ((void *)-1)",
@@ -168,6 +168,17 @@ export function runtimeDir(bareMetal: boolean): string {
     "static inline int munmap(void *a, unsigned long n) { (void)a; (void)n; return -1; }",
     "static inline int mprotect(void *a, unsigned long n, int p) { (void)a; (void)n; (void)p; return -1; }", ""].join("\n"));
   return dir;
+}
+
+/**
+ * Write a file only when its text differs, through a rename: compilers running at the same time (two kernels
+ * at once, or another count) never read a half-written header.
+ */
+function keep(path: string, text: string): void {
+  if (existsSync(path) && readFileSync(path, "utf8") === text) return;
+  const tmp = `${path}.${process.pid}.tmp`;
+  writeFileSync(tmp, text);
+  renameSync(tmp, path);
 }
 
 /** Build the plugin (host gcc) into build/count/, once per run. */
