@@ -6,7 +6,7 @@ import { execFile } from "node:child_process";
 import { mkdirSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { promisify } from "node:util";
-import { COUNT_DIR, buildObjects, buildPlugin, driverSource, linkDriver, perCall, readCountInputs, translate, type KernelInputs, type Signature } from "./count.js";
+import { COUNT_DIR, buildObjects, buildPlugin, driverSource, linkDriver, perCall, readCountInputs, translate, worstFor, type CountCase, type KernelInputs, type Signature } from "./count.js";
 import { TARGET_SPECS, missingPackages, versionOf, type TargetName } from "./toolchain.js";
 
 const run = promisify(execFile);
@@ -49,8 +49,7 @@ async function pool<T>(tasks: readonly (() => Promise<T>)[], limit: number): Pro
   return out;
 }
 
-function worstInputs(inp: KernelInputs): Record<string, unknown> {
-  const w = inp.worst;
+function worstInputs(w: CountCase): Record<string, unknown> {
   return w.setup ? { ...w.args, [w.setup.export]: w.setup.args } : { ...w.args };
 }
 
@@ -70,7 +69,7 @@ async function countTarget(target: TargetName, b: CountBuild, dir: string, sigs:
   const sizes: Record<string, KernelSize> = {};
   const image = async (name: string, k?: string): Promise<string> => {
     const c = join(tdir, `drv_${name}.c`);
-    writeFileSync(c, driverSource("module.h", sigs, k, k ? [inputs[k]!.typical, inputs[k]!.worst] : []));
+    writeFileSync(c, driverSource("module.h", sigs, k, k ? [inputs[k]!.typical, worstFor(inputs[k]!, sigs.get(k))] : []));
     const img = join(tdir, `${name}.elf`);
     await linkDriver(target, dir, c, objs, img);
     return img;
@@ -85,7 +84,7 @@ async function countTarget(target: TargetName, b: CountBuild, dir: string, sigs:
     for (const [which, r] of [["typical", t], ["worst", w]] as const) {
       if (r.status >= 16) res.notes.push(`${target} ${b.key} ${k}: the ${which} inputs return status ${r.status}${r.status === 99 ? " (its setup call failed)" : ""}`);
     }
-    per[k] = { typical: t.insns, worst: w.insns, worst_inputs: worstInputs(inputs[k]!) };
+    per[k] = { typical: t.insns, worst: w.insns, worst_inputs: worstInputs(worstFor(inputs[k]!, sigs.get(k))) };
     if (base) {
       const s = await sizeOf(img);
       sizes[k] = { text: s.text - base.text, data: s.data - base.data, bss: s.bss - base.bss };

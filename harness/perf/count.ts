@@ -42,6 +42,13 @@ export interface CountCase {
 export interface KernelInputs {
   readonly typical: CountCase;
   readonly worst: CountCase;
+  /** The worst case of a single-precision module, where `worst` leaves its domain once rounded to f32. */
+  readonly worst_f32?: CountCase;
+}
+
+/** The worst case for a module: worst_f32 when the export takes f32 arguments and the file has one. */
+export function worstFor(inp: KernelInputs, sig: Signature | undefined): CountCase {
+  return inp.worst_f32 !== undefined && sig?.params.includes("f32") ? inp.worst_f32 : inp.worst;
 }
 
 /** The typical and worst inputs of every export (vectors/count-inputs.json). */
