@@ -186,7 +186,7 @@ export async function screenAll(names?: readonly string[], log: (s: string) => v
     const entry = file.kernels[name]!;
     const r = await screenExport(name, entry.typical, log);
     const from = SOURCES[name]?.map((s) => `vectors/${s.file}`).join(", ");
-    const measured = `screened on x86-64 (f64): ${r.screened} candidates of the ${r.okRows} inputs with an ok status (${[from, handCases(name).length ? "the hand cases of harness/perf/count-screen.ts" : ""].filter(Boolean).join(" and ")}): the ${TOP_ITER} with the most iterations${r.maxIterations !== undefined ? ` (largest ${r.maxIterations})` : ""}, the first row of each vector tag, every hand case; most instructions ${r.worstInsns} (typical ${r.typicalInsns}) at ${r.worst.why}`;
+    const measured = `screened on x86-64 (f64): ${r.screened} candidates of the ${r.okRows} inputs with an ok status (${[from, handCases(name).length ? "the hand cases of harness/perf/count-screen.ts" : ""].filter(Boolean).join(" and ")}): ${r.maxIterations !== undefined ? `the ${TOP_ITER} with the most iterations (largest ${r.maxIterations}), the first row of each vector tag, every hand case` : "the first row of each vector tag and every hand case (no iteration count to rank by)"}; most instructions ${r.worstInsns} (typical ${r.typicalInsns}) at ${r.worst.why}`;
     // Read again before writing: screens of other exports may run at the same time (one process per core).
     const now = JSON.parse(readFileSync(INPUTS_FILE, "utf8")) as typeof file;
     now.kernels[name] = { typical: entry.typical, worst: { ...(r.worst.setup ? { setup: r.worst.setup } : {}), args: r.worst.args, why: now.kernels[name]!.worst.why, measured } };
