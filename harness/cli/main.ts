@@ -19,6 +19,7 @@ import { compareCommand } from "./commands/compare.js";
 import { sweepCommand, mergeCommand } from "./commands/sweep.js";
 import { benchCommand } from "./commands/bench.js";
 import { routinesCommand } from "./commands/routines.js";
+import { countCommand } from "./commands/count.js";
 
 export { UsageError } from "./options.js";
 
@@ -33,6 +34,7 @@ export const COMMANDS: Readonly<Record<string, Command>> = {
   merge: mergeCommand,
   vectors: vectorsCommand,
   bench: benchCommand,
+  count: countCommand,
   demo: demoCommand,
   routines: routinesCommand,
 };

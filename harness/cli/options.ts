@@ -51,6 +51,7 @@ export const OPTIONS = {
   "counts-json": { type: "string", value: "FILE", help: "--report: instruction counts from `areal count --json FILE` for the report's counts section (without it: not measured)" },
   long: { type: "boolean", help: "bench: longer timings and a finer iteration grid (several minutes)" },
   profile: { type: "string", value: "FILE", help: "bench: target profile JSON (cycles per operation; bench/profiles/example-target.json)" },
+  targets: { type: "string", value: "LIST", help: "count: comma-separated instruction sets (x86-64, armhf, riscv64, cortex-m4f; default all four)" },
   help: { type: "boolean", short: "h", help: "show help" },
 } as const satisfies Record<string, OptionDef>;
 
