@@ -112,9 +112,17 @@ describe("compare --builds: single precision in physical units", () => {
     expect(r.maxRel).toBeGreaterThan(2 ** -25);
     expect(r.maxRel).toBeLessThan(1);
     const text = formatBuildsReport(rep);
-    expect(text).toContain("angles: |ref| <= pi");
+    expect(text).toContain("|ref|<=pi: the max error over the cases whose reference angle is within one half turn; angles only");
     expect(text).not.toContain("within |ref| <= pi");
     const row = text.split("\n").find((l) => /^propagate-f32in\s+f32\s+rx\s/.test(l))!;
-    expect(row).toMatch(/ km \(suite units\) +\S+ +- /);
+    expect(row).toMatch(/ km +\S+ +-$/);
+  });
+
+  it("the text report keeps within 100 columns: long first differences and worst cases wrap under their row", () => {
+    const rep = compareBuilds(["f64", "f32"], SPECS.filter((s) => s.suite === "kepler-parabolic" || s.suite === "propagate-f32in"));
+    const lines = formatBuildsReport(rep).split("\n");
+    expect(lines.filter((l) => l.length > 100)).toEqual([]);
+    expect(lines.some((l) => l.startsWith("    first difference: row "))).toBe(true);
+    expect(lines.some((l) => l.startsWith("    worst case: "))).toBe(true);
   });
 });

@@ -15,6 +15,7 @@ import { existsSync } from "node:fs";
 import { join } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
 import { sameBits, ulpDistance, ulpDistance32 } from "../core/float.js";
+import { hang } from "../core/text.js";
 import { readVectors, vectorPath, col, type VectorSet } from "./vectors.js";
 import { findRoutine, ROUTINES, type Routine } from "../module/routines.js";
 import { SPECS } from "./specs/index.js";
@@ -382,6 +383,30 @@ export function table(head: string[], rows: string[][]): string[] {
   return [line(head), line(widths.map((w) => "-".repeat(w))), ...rows.map(line)];
 }
 
+/**
+ * A table whose rows end in a long text (`detail`, the last cell of each row): the other columns as a table, the
+ * detail under its row, indented and wrapped, so the text stays within 100 columns whatever the inputs' digits.
+ */
+export function tableWithDetail(head: string[], rows: string[][], detail: string): string[] {
+  const t = table(head, rows.map((r) => r.slice(0, -1)));
+  const out = t.slice(0, 2);
+  rows.forEach((r, i) => {
+    out.push(t[i + 2]!);
+    const d = r[r.length - 1]!;
+    if (d !== "-") out.push(...hang(`    ${detail}: `, d));
+  });
+  return out;
+}
+
+/**
+ * A unit for the table's column: without its parenthesised gloss ("km (suite units)" -> "km"; a gloss alone is a
+ * pure number: "1"), a long description cut to its first word ("time units of the case" -> "time").
+ */
+function shortUnit(u: string): string {
+  const v = u.replace(/\s*\(.*\)\s*$/, "") || "1";
+  return v.length > 10 ? v.split(" ")[0]! : v;
+}
+
 function diffText(d: Difference | undefined): string {
   if (!d) return "-";
   const ins = Object.entries(d.inputs).map(([k, v]) => `${k}=${v}`).join(" ");
@@ -391,24 +416,27 @@ function diffText(d: Difference | undefined): string {
 /** The text report of a build comparison. */
 export function formatBuildsReport(rep: BuildsReport): string {
   const out = [`areal compare: baseline ${rep.builds[0]}; compared ${rep.builds.slice(1).join(", ")}`];
-  out.push(...table(
-    ["suite", "build", "cases", "bit-identical", "max ulp", "max abs", "first difference"],
+  out.push(...tableWithDetail(
+    ["suite", "build", "cases", "bit-identical", "max ulp", "max abs"], 
     rep.comparisons.map((c) => [c.suite, c.build, String(c.cases), String(c.identical) + (c.statusDiffers ? ` (${c.statusDiffers} status)` : ""), `${fig(c.maxUlp)}${c.ulpUnit === "f32" ? " (f32)" : ""}`, fig(c.maxAbs), diffText(c.first)]),
+    "first difference",
   ));
   if (rep.physical.length) {
     out.push("", "single precision against the references (absolute error in the output's units):");
-    out.push(...table(
-      ["suite", "build", "output", "cases", "max error", "unit", "max relative", "angles: |ref| <= pi", "worst case"],
-      rep.physical.map((p) => [p.suite, p.build, p.output, String(p.cases), fig(p.maxAbs), p.unit, fig(p.maxRel), Number.isNaN(p.maxAbsOneTurn) ? "-" : fig(p.maxAbsOneTurn),
+    out.push(...tableWithDetail(
+      ["suite", "build", "output", "cases", "max error", "unit", "max rel", "|ref|<=pi"],
+      rep.physical.map((p) => [p.suite, p.build, p.output, String(p.cases), fig(p.maxAbs), shortUnit(p.unit), fig(p.maxRel), Number.isNaN(p.maxAbsOneTurn) ? "-" : fig(p.maxAbsOneTurn),
         p.worst ? `${Object.entries(p.worst.inputs).map(([k, v]) => `${k}=${v}`).join(" ")} got ${p.worst.got} want ${p.worst.want}` : "-"]),
+      "worst case",
     ));
+    out.push("(|ref|<=pi: the max error over the cases whose reference angle is within one half turn; angles only)");
   }
   for (const s of rep.states) {
-    out.push("", `${s.build}: low-orbit state after one orbit (400 km, 51.6 deg; ${s.note}, routine ${s.routine}) differs from ${rep.builds[0]} by ${fig(s.positionM)} m in position and ${fig(s.velocityMmS)} mm/s in velocity`);
+    out.push("", ...hang("", `${s.build}: low-orbit state after one orbit (400 km, 51.6 deg; ${s.note}, routine ${s.routine}) differs from ${rep.builds[0]} by ${fig(s.positionM)} m in position and ${fig(s.velocityMmS)} mm/s in velocity`));
   }
-  if (rep.missing.length) out.push("", `left out (no vector file, or an export a module or library file lacks): ${rep.missing.join(", ")}`);
+  if (rep.missing.length) out.push("", ...hang("", `left out (no vector file, or an export a module or library file lacks): ${rep.missing.join(", ")}`));
   const ids = rep.comparisons.filter((c) => c.identical !== c.cases);
-  out.push("", ids.length === 0 ? "every compared build is bit-identical to the baseline on every case." : `${ids.length} suite/build pair(s) differ from the baseline (expected for js and f32; not for native, baseline, optimizing).`);
+  out.push("", ...hang("", ids.length === 0 ? "every compared build is bit-identical to the baseline on every case." : `${ids.length} suite/build pair(s) differ from the baseline (expected for js and f32; not for native, baseline, optimizing).`));
   return out.join("\n") + "\n";
 }
 
