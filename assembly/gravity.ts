@@ -72,23 +72,46 @@ function muExp(mu: real): i32 {
   return -exponent2(mu);
 }
 
+// True when r2 = x^2 + y^2 + z^2 and mu lie in the window where accel, potential and gradient compute directly.
+function inWindow(mu: real, r2: real): bool {
+  return r2 >= G_R2_LO && r2 <= G_R2_HI && mu >= G_MU_LO && mu <= G_MU_HI;
+}
+
+// The scaled problem of a point outside the window (scaleProblem writes it; file-private scratch, read at once by
+// the caller): x' = x 2^sK, R' = R 2^sK, mu' = mu 2^sKm, r2' = x'^2 + y'^2 + z'^2.
+let sK: i32 = 0;
+let sKm: i32 = 0;
+let sX: real = 0;
+let sY: real = 0;
+let sZ: real = 0;
+let sR: real = 0;
+let sMu: real = 0;
+let sR2: real = 0;
+
+function scaleProblem(mu: real, R: real, x: real, y: real, z: real): void {
+  sK = lengthExp(x, y, z);
+  sKm = muExp(mu);
+  sX = scale2(x, sK);
+  sY = scale2(y, sK);
+  sZ = scale2(z, sK);
+  sR = scale2(R, sK);
+  sMu = scale2(mu, sKm);
+  sR2 = sX * sX + sY * sY + sZ * sZ;
+}
+
 /**
  * Acceleration at (x, y, z), read afterwards with accelX(), accelY(), accelZ(). Zonal terms are skipped when
  * both coefficients are zero.
  */
 export function accel(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real): void {
   const r2 = x * x + y * y + z * z;
-  if (r2 >= G_R2_LO && r2 <= G_R2_HI && mu >= G_MU_LO && mu <= G_MU_HI) {
+  if (inWindow(mu, r2)) {
     accelPlain(mu, j2, j3, R, x, y, z, r2);
     return;
   }
-  const k = lengthExp(x, y, z);
-  const km = muExp(mu);
-  const xs = scale2(x, k);
-  const ys = scale2(y, k);
-  const zs = scale2(z, k);
-  accelPlain(scale2(mu, km), j2, j3, scale2(R, k), xs, ys, zs, xs * xs + ys * ys + zs * zs);
-  const back = 2 * k - km;
+  scaleProblem(mu, R, x, y, z);
+  accelPlain(sMu, j2, j3, sR, sX, sY, sZ, sR2);
+  const back = 2 * sK - sKm;
   lastAx = scale2(lastAx, back);
   lastAy = scale2(lastAy, back);
   lastAz = scale2(lastAz, back);
@@ -131,13 +154,9 @@ function accelPlain(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: 
 /** Potential energy per unit mass V at (x, y, z) (zero at infinity, negative near the body). */
 export function potential(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real): real {
   const r2 = x * x + y * y + z * z;
-  if (r2 >= G_R2_LO && r2 <= G_R2_HI && mu >= G_MU_LO && mu <= G_MU_HI) return potentialPlain(mu, j2, j3, R, x, y, z, r2);
-  const k = lengthExp(x, y, z);
-  const km = muExp(mu);
-  const xs = scale2(x, k);
-  const ys = scale2(y, k);
-  const zs = scale2(z, k);
-  return scale2(potentialPlain(scale2(mu, km), j2, j3, scale2(R, k), xs, ys, zs, xs * xs + ys * ys + zs * zs), k - km);
+  if (inWindow(mu, r2)) return potentialPlain(mu, j2, j3, R, x, y, z, r2);
+  scaleProblem(mu, R, x, y, z);
+  return scale2(potentialPlain(sMu, j2, j3, sR, sX, sY, sZ, sR2), sK - sKm);
 }
 
 // potential inside the window (r2 = x^2 + y^2 + z^2).
@@ -223,17 +242,13 @@ export function gradZZ(): real {
 /** Gravity gradient d a / d r at (x, y, z), read afterwards with gradXX() .. gradZZ(). */
 export function gradient(mu: real, j2: real, j3: real, R: real, x: real, y: real, z: real): void {
   const r2 = x * x + y * y + z * z;
-  if (r2 >= G_R2_LO && r2 <= G_R2_HI && mu >= G_MU_LO && mu <= G_MU_HI) {
+  if (inWindow(mu, r2)) {
     gradientPlain(mu, j2, j3, R, x, y, z, r2);
     return;
   }
-  const k = lengthExp(x, y, z);
-  const km = muExp(mu);
-  const xs = scale2(x, k);
-  const ys = scale2(y, k);
-  const zs = scale2(z, k);
-  gradientPlain(scale2(mu, km), j2, j3, scale2(R, k), xs, ys, zs, xs * xs + ys * ys + zs * zs);
-  const back = 3 * k - km;
+  scaleProblem(mu, R, x, y, z);
+  gradientPlain(sMu, j2, j3, sR, sX, sY, sZ, sR2);
+  const back = 3 * sK - sKm;
   lastGxx = scale2(lastGxx, back);
   lastGxy = scale2(lastGxy, back);
   lastGxz = scale2(lastGxz, back);
