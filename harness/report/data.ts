@@ -15,6 +15,7 @@ import { existsSync } from "node:fs";
 
 const KE = slotsOf("kepler_elliptic", "E", "iterations");
 const IN = slotsOf("integrate_step", "energy_dev", "h_dev", "energy_dev_now", "h_dev_now");
+const PH = slotsOf("integrate_phi", "symp_dev", "symp_dev_now");
 
 
 /** Fold a mean anomaly into [0, pi] (the solver's symmetry); undefined beyond 2^53. */
@@ -109,9 +110,13 @@ export function iterationMap(k: Kernels): { cells: Cell[]; mean: number; worst: 
 /** The integrators, in the order of the ABI table's method enumeration. */
 const METHODS: readonly [string, number][] = Object.entries(choicesOf("method"));
 
-/** Energy and angular-momentum deviation against time for each integrator on an invented unit orbit. */
+/**
+ * Energy and angular-momentum deviation against time for each integrator on an invented unit orbit, and the
+ * symplectic defect of the transition matrix the run carries when the module has the transition exports.
+ */
 export function drift(k: Kernels, orbits: number): { points: DriftPoint[]; summary: Record<string, Record<string, number>> } | string {
   if (!k.has("integrate_begin") || !k.has("integrate_step")) return `${k.label} has no integrate_begin / integrate_step exports (the integrators are not in this module)`;
+  const phi = k.has("integrate_transition_begin") && k.has("integrate_phi");
   // Invented scenario: mu = 1, a = 1, e = 0.1, started at periapsis; 100 steps an orbit.
   const e = 0.1;
   const r0 = 1 - e;
@@ -122,22 +127,32 @@ export function drift(k: Kernels, orbits: number): { points: DriftPoint[]; summa
   const summary: Record<string, Record<string, number>> = {};
   const block = Math.max(1, Math.floor((orbits * perOrbit) / 400));
   for (const [name, id] of METHODS) {
-    const st = k.call("integrate_begin", [1, r0, 0, 0, 0, v0, 0, h, id, 0, 0, 1, 0, 0, 0, 0]);
-    if (!isOk(st)) return `integrate_begin rejected the drift scenario (status ${st})`;
+    const begin = phi ? "integrate_transition_begin" : "integrate_begin";
+    const args = [1, r0, 0, 0, 0, v0, 0, h, id, 0, 0, 1, 0, 0, 0, 0];
+    const st = k.call(begin, phi ? [...args, 0] : args);
+    if (!isOk(st)) return `${begin} rejected the drift scenario (status ${st})`;
     let maxE = 0;
     let maxH = 0;
+    let maxS = 0;
+    let energyMax = 0;
+    let hMax = 0;
     for (let s = 1; s <= orbits * perOrbit; s++) {
       if (!isOk(k.call("integrate_step", [1]))) break;
       maxE = Math.max(maxE, Math.abs(k.out[IN.energy_dev_now]!));
       maxH = Math.max(maxH, Math.abs(k.out[IN.h_dev_now]!));
+      energyMax = Math.abs(k.out[IN.energy_dev]!);
+      hMax = Math.abs(k.out[IN.h_dev]!);
+      if (phi && isOk(k.call("integrate_phi", []))) maxS = Math.max(maxS, Math.abs(k.out[PH.symp_dev_now]!)); // overwrites the region
       if (s % block === 0) {
         points.push({ method: name, invariant: "energy", orbits: s / perOrbit, deviation: maxE });
         points.push({ method: name, invariant: "angular momentum", orbits: s / perOrbit, deviation: maxH });
+        if (phi) points.push({ method: name, invariant: "symplectic defect", orbits: s / perOrbit, deviation: maxS });
         maxE = 0;
         maxH = 0;
+        maxS = 0;
       }
     }
-    summary[name] = { energy_max: Math.abs(k.out[IN.energy_dev]!), h_max: Math.abs(k.out[IN.h_dev]!) };
+    summary[name] = { energy_max: energyMax, h_max: hMax, ...(phi ? { symp_max: Math.abs(k.out[PH.symp_dev]!) } : {}) };
   }
   return { points, summary };
 }

@@ -154,7 +154,7 @@ export async function writeReport(dir: string, results: readonly SuiteResult[], 
   else {
     data.drift = { scenario: "invented: mu = 1, a = 1, e = 0.1, from periapsis, 100 steps an orbit", orbits, summary: dr.summary, points: dr.points };
     sections.push({ id: "drift", title: "Invariant drift of the integrators",
-      intro: `Relative deviation of the energy and of the angular momentum from step 0 (largest within each time block), for each fixed-step method on an invented unit orbit (mu = 1, a = 1, e = 0.1, 100 steps an orbit, ${orbits} orbits). A secular method grows; a symplectic one stays bounded.`,
+      intro: `Relative deviation of the energy and of the angular momentum from step 0 (largest within each time block), for each fixed-step method on an invented unit orbit (mu = 1, a = 1, e = 0.1, 100 steps an orbit, ${orbits} orbits), and, where the module carries the transition matrix (integrate_transition_begin, integrate_phi), its symplectic defect max |Phi~^T J Phi~ - J|, checked on every step. A secular method grows; a symplectic one stays bounded, and its transition matrix stays symplectic to round-off.`,
       svg: await renderSvg(driftSpec("invariant deviation against time", dr.points)) });
   }
   const lin = linearisation(k);

@@ -74,14 +74,14 @@ export function driftSpec(title: string, points: readonly DriftPoint[]): TopLeve
     title,
     config: FONT,
     data: { values: points.map((p) => ({ ...p, deviation: Math.max(p.deviation, 1e-17) })) },
-    facet: { column: { field: "invariant", type: "nominal", title: null, header: { labelExpr: "datum.value == 'energy' ? 'energy E' : 'angular momentum h'", labelFontSize: 12 } } },
+    facet: { column: { field: "invariant", type: "nominal", title: null, header: { labelExpr: "datum.value == 'energy' ? 'energy E' : datum.value == 'angular momentum' ? 'angular momentum h' : 'symplectic defect of Phi'", labelFontSize: 12 } } },
     spec: {
       width: 300,
       height: 220,
       mark: { type: "line", strokeWidth: 1.2 },
       encoding: {
         x: { field: "orbits", type: "quantitative", title: "time (orbits)", axis: { format: "~s" } },
-        y: { field: "deviation", type: "quantitative", title: "|X - X0| / |X0| (largest in each time block; floor 1e-17)", scale: { type: "log" }, axis: { format: ".0e" } },
+        y: { field: "deviation", type: "quantitative", title: "|X - X0| / |X0|, or max |Phi~^T J Phi~ - J| (largest in each time block; floor 1e-17)", scale: { type: "log" }, axis: { format: ".0e" } },
         color: { field: "method", type: "nominal" },
       },
     },
