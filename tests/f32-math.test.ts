@@ -1,5 +1,5 @@
 /**
- * The single-precision build's own math (assembly/mathf.ts, RMath = ArealMathf; issue 18, item 3):
+ * The single-precision build's own math (assembly/mathf.ts, RMath = ArealMathf):
  *  1. each function against decimal.js at 60 digits (harness/verify/reference/decimal.ts: exact conversion of
  *     the f32 input; decimal.js sin, cos, tan, exp, ln, pow, cbrt (as pow 1/3 with the sign), atan, atan2, acos,
  *     sinh, cosh, tanh, asinh), in f32 ulps of the reference, over a seeded sample of the domain plus edges

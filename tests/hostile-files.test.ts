@@ -1,5 +1,5 @@
 /**
- * Files that tried to hang areal, make it lose a file or accept a cell that lost its meaning (issue 16), through
+ * Files that tried to hang areal, make it lose a file or accept a cell that lost its meaning, through
  * the real entry point: an output path that is the input (also through a symbolic or hard link), unwritable
  * paths under /proc and /sys, lines and headers longer than the limit, a file with no line end (a sparse 10 GB
  * file and a header followed by NUL bytes), a folder as input, cells that underflow or overflow on parsing, and

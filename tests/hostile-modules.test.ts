@@ -4,7 +4,7 @@
  * fast), a module that grows its memory has its outputs read from the new memory, an ok status with a
  * non-finite output, an unknown status and a bad iteration count are ABI violations that stop the run with a
  * non-zero exit and no output file, and a wrong signature has the same message in eval and check. Each case
- * here hung, wrote a wrong file or passed with exit 0 before (issue 16's table).
+ * here hung, wrote a wrong file or passed with exit 0 before the hostile-input work.
  */
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { spawn, spawnSync } from "node:child_process";

@@ -1,5 +1,5 @@
 /**
- * Kernels with private state only (issue 14, item 2):
+ * Kernels with private state only:
  *  1. no `export let` / `export var` anywhere in assembly/ (read from the sources): what one kernel needs from
  *     another goes through arguments, return values or a file's own documented scratch read by accessors. One
  *     named exception: the bench-only counting build's CountingMath.sincos_sin / sincos_cos (counting_math.ts),
