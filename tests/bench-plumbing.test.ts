@@ -22,6 +22,12 @@ const r0Sizes = () => moduleSizes();
 // @ts-expect-error: a plain JavaScript build script without types
 import { instrument } from "../scripts/instrument-wat.mjs";
 import { slotsOf } from "../harness/module/routines.js";
+import { mkdtempSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { countAll } from "../harness/perf/count-all.js";
+import { argValues, readCountInputs } from "../harness/perf/count.js";
+import { missingPackages } from "../harness/perf/toolchain.js";
+import { BUILD_FILES } from "../harness/core/paths.js";
 
 beforeAll(() => {
   ensureBenchModules();
@@ -227,4 +233,24 @@ describe("target profiles", () => {
     const p = readProfile(EXAMPLE_PROFILE);
     expect(p.unit).toBe("cycles");
   });
+});
+
+// Two independent ways of seeing the same operations: the divisions and square roots QEMU's disassembler finds on
+// x86-64 (divsd, sqrtsd: the plugin's fdiv class, harness/perf/count/insn-plugin.c) and those the instrumented
+// WebAssembly build counts (f64.div, f64.sqrt) for the same inputs. Here, after beforeAll has built the
+// instrumented module (tests/count.test.ts skips the same tools with its own line).
+describe.skipIf(missingPackages("x86-64").length > 0)("exact counts by class against the instrumented build", () => {
+  it("kepler_elliptic on x86-64: the fdiv class is the divisions and square roots counted in WebAssembly", async () => {
+    const dir = mkdtempSync(join(tmpdir(), "areal-count-class-"));
+    try {
+      const r = await countAll(["x86-64"], [{ key: "f64", wasm: BUILD_FILES.f64 }], { kernels: ["kepler_elliptic"], dir, jobs: 1 });
+      const k = r.targets["x86-64"]!.f64!.kepler_elliptic!;
+      const typical = readCountInputs().kepler_elliptic!.typical;
+      const { counts } = loadCounting().count("kepler_elliptic", argValues("kepler_elliptic", typical.args));
+      expect(k.typical_classes.fdiv).toBeGreaterThan(0);
+      expect(k.typical_classes.fdiv).toBe((counts.div ?? 0) + (counts.sqrt ?? 0));
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 120_000);
 });

@@ -14,7 +14,7 @@ import { promisify } from "node:util";
 import { BUILD_FILES } from "../harness/core/paths.js";
 import { ABI_TABLE } from "../harness/module/abi-table.js";
 import { countAll } from "../harness/perf/count-all.js";
-import { readCountInputs, N_LOW, N_HIGH } from "../harness/perf/count.js";
+import { readCountInputs, N_LOW, N_HIGH, INSN_CLASSES } from "../harness/perf/count.js";
 import { missingPackages, missingLines, onPath } from "../harness/perf/toolchain.js";
 import { main } from "../harness/cli/main.js";
 import { noteSkip } from "./support/skips.js";
@@ -70,6 +70,10 @@ describe.skipIf(missing.length > 0)("counts on x86-64 (short slice: kepler_ellip
       expect(ka.typical).toBeGreaterThan(100);
       // The worst inputs (a reduction of whole turns before the solve) take more than the typical ones.
       expect(ka.worst).toBeGreaterThan(ka.typical);
+      // The classes of the plugin (by the disassembled mnemonic) add up to the count (tests/bench-plumbing.test.ts
+      // checks the fdiv class against the instrumented build's divisions and square roots).
+      expect(INSN_CLASSES.reduce((s, c) => s + ka.typical_classes[c], 0)).toBe(ka.typical);
+      expect(INSN_CLASSES.reduce((s, c) => s + ka.worst_classes[c], 0)).toBe(ka.worst);
       if (noValgrind) return;
       const image = join(dir, "f64", "x86-64", "kepler_elliptic.elf");
       const refs = async (n: number): Promise<number> => {

@@ -48,7 +48,7 @@ export const OPTIONS = {
   resume: { type: "boolean", help: "sweep: when --out already holds this shard of this sweep (same routine, grid, module, shard; whole), keep it and exit 0 (safe resubmission)" },
   report: { type: "string", value: "DIR", help: "also write the HTML report (one self-contained file) and its JSON into this folder" },
   "bench-json": { type: "string", value: "FILE", help: "--report: timings from `areal bench --json FILE` for the report's speed section (without it: not measured)" },
-  "counts-json": { type: "string", value: "FILE", help: "--report: instruction counts from `areal count --json FILE` for the report's counts section (without it: not measured)" },
+  "counts-json": { type: "string", value: "FILE", help: "instruction counts from `areal count --json FILE`: the report's counts section (check --report); bench prices them with the profile's cycles per instruction class" },
   long: { type: "boolean", help: "bench: longer timings and a finer iteration grid (several minutes)" },
   profile: { type: "string", value: "FILE", help: "bench: target profile JSON (cycles per operation; bench/profiles/example-target.json)" },
   targets: { type: "string", value: "LIST", help: "count: comma-separated instruction sets (x86-64, armhf, riscv64, cortex-m4f; default all four)" },

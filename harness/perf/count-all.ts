@@ -6,7 +6,7 @@ import { execFile } from "node:child_process";
 import { mkdirSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { promisify } from "node:util";
-import { COUNT_DIR, buildObjects, buildPlugin, driverSource, linkDriver, perCall, readCountInputs, translate, worstFor, type CountCase, type KernelInputs, type Signature } from "./count.js";
+import { COUNT_DIR, buildObjects, buildPlugin, driverSource, linkDriver, perCall, readCountInputs, translate, worstFor, type CountCase, type InsnClass, type KernelInputs, type Signature } from "./count.js";
 import { TARGET_SPECS, missingPackages, versionOf, type TargetName } from "./toolchain.js";
 
 const run = promisify(execFile);
@@ -15,6 +15,9 @@ export interface KernelCount {
   readonly typical: number;
   readonly worst: number;
   readonly worst_inputs: Record<string, unknown>;
+  /** The typical and the worst call's instructions by class (count/insn-plugin.c): fdiv, fp, mem, branch, int. */
+  readonly typical_classes: Record<InsnClass, number>;
+  readonly worst_classes: Record<InsnClass, number>;
 }
 /** Image bytes a kernel adds on cortex-m4f (arm-none-eabi-size: text holds code and read-only data). */
 export interface KernelSize {
@@ -88,7 +91,8 @@ async function countTarget(target: TargetName, b: CountBuild, dir: string, sigs:
     // and build, they are this target's worst of the two, said in a note.
     const screened = w.insns >= t.insns;
     if (!screened) res.notes.push(`${target} ${b.key} ${k}: the typical inputs cost more here than the worst screened on x86-64 f64 (${t.insns} > ${w.insns}); worst is the typical count`);
-    per[k] = { typical: t.insns, worst: screened ? w.insns : t.insns, worst_inputs: worstInputs(screened ? worstFor(inputs[k]!, sigs.get(k)) : inputs[k]!.typical) };
+    per[k] = { typical: t.insns, worst: screened ? w.insns : t.insns, worst_inputs: worstInputs(screened ? worstFor(inputs[k]!, sigs.get(k)) : inputs[k]!.typical),
+      typical_classes: t.classes, worst_classes: screened ? w.classes : t.classes };
     if (base) {
       const s = await sizeOf(img);
       sizes[k] = { text: s.text - base.text, data: s.data - base.data, bss: s.bss - base.bss };

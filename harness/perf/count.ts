@@ -218,8 +218,23 @@ export async function linkDriver(target: TargetName, dir: string, driverC: strin
   await run(spec.cc, [...COMMON_CFLAGS, ...spec.cflags, "-w", "-I", rt, "-I", dir, driverC, ...objects, ...spec.ldflags, "-lm", "-o", image]);
 }
 
-/** Run one image under QEMU with an empty environment: the instructions retired and the exit code. */
-export async function countRun(target: TargetName, image: string, caseIndex: number, n: number, plugin: string): Promise<{ insns: number; code: number }> {
+/** The instruction classes the plugin reports (count/insn-plugin.c classify()), in its order. */
+export const INSN_CLASSES = ["fdiv", "fp", "mem", "branch", "int"] as const;
+export type InsnClass = (typeof INSN_CLASSES)[number];
+
+/** The plugin's "areal-class NAME N" lines; every class must be there (an older plugin build is an error). */
+function classCounts(stderr: string, target: TargetName): Record<InsnClass, number> {
+  const out = {} as Record<InsnClass, number>;
+  for (const c of INSN_CLASSES) {
+    const m = new RegExp(`areal-class ${c} (\\d+)`).exec(stderr);
+    if (!m) throw new Error(`count: ${target}: the plugin reported no '${c}' class count (rebuild build/count/insn-plugin.so)`);
+    out[c] = Number(m[1]);
+  }
+  return out;
+}
+
+/** Run one image under QEMU with an empty environment: the instructions retired (in all, by class) and the exit code. */
+export async function countRun(target: TargetName, image: string, caseIndex: number, n: number, plugin: string): Promise<{ insns: number; classes: Record<InsnClass, number>; code: number }> {
   const [cmd, ...args] = TARGET_SPECS[target].command(image, [String(caseIndex), String(n).padStart(7, "0")], plugin);
   const exe = onPath(cmd!) ?? cmd!;
   let stderr = "";
@@ -235,19 +250,22 @@ export async function countRun(target: TargetName, image: string, caseIndex: num
   }
   const m = /areal-insns (\d+)/.exec(stderr);
   if (!m) throw new Error(`count: ${target}: no count from ${cmd} (${stderr.trim().slice(0, 200)})`);
-  return { insns: Number(m[1]), code };
+  return { insns: Number(m[1]), classes: classCounts(stderr, target), code };
 }
 
 /** Instructions of one call of case c: the difference of N_HIGH and N_LOW calls over their difference. */
-export async function perCall(target: TargetName, image: string, c: number, plugin: string, stateful = false): Promise<{ insns: number; status: number }> {
+export async function perCall(target: TargetName, image: string, c: number, plugin: string, stateful = false): Promise<{ insns: number; classes: Record<InsnClass, number>; status: number }> {
   const lo = await countRun(target, image, c, N_LOW, plugin);
   const hi = await countRun(target, image, c, N_HIGH, plugin);
   if (lo.code !== hi.code) throw new Error(`count: ${target}: ${basename(image)} case ${c}: exit codes differ (${lo.code}, ${hi.code})`);
   const d = hi.insns - lo.insns;
+  const n = N_HIGH - N_LOW;
   // A kernel that continues a state (integrate_step) may differ call to call (software floating point on
   // cortex-m4f): its count is the mean over the calls, rounded up; a stateless kernel's must be whole.
-  if (stateful) return { insns: Math.ceil(d / (N_HIGH - N_LOW)), status: lo.code };
-  if (d % (N_HIGH - N_LOW) !== 0) throw new Error(`count: ${target}: ${basename(image)} case ${c}: ${d} instructions over ${N_HIGH - N_LOW} calls is not a whole number per call`);
-  return { insns: d / (N_HIGH - N_LOW), status: lo.code };
+  const per = (x: number): number => (stateful ? Math.ceil(x / n) : x / n);
+  const classes = Object.fromEntries(INSN_CLASSES.map((k) => [k, per(hi.classes[k] - lo.classes[k])])) as Record<InsnClass, number>;
+  if (stateful) return { insns: per(d), classes, status: lo.code };
+  if (d % n !== 0) throw new Error(`count: ${target}: ${basename(image)} case ${c}: ${d} instructions over ${n} calls is not a whole number per call`);
+  return { insns: d / n, classes, status: lo.code };
 }
 

@@ -26,6 +26,7 @@ import { join } from "node:path";
 import { BUILD_DIR } from "../core/paths.js";
 import { instantiate, type Kernels } from "../module/load.js";
 import { isOk } from "../module/status.js";
+import { INSN_CLASSES, type InsnClass } from "./count.js";
 
 /** The operation kinds, in report order. */
 export const OP_NAMES = ["add", "mul", "fma", "div", "sqrt", "cbrt", "sin", "cos", "tan", "invtrig", "atan2", "log", "exp", "pow", "hyperbolic", "hypot"] as const;
@@ -124,6 +125,8 @@ export interface Profile {
   readonly call: number;
   readonly ops: Partial<Record<OpName, number>>;
   readonly fused_multiply_add?: boolean;
+  /** Cycles per instruction of each class of `areal count` (fdiv, fp, mem, branch, int): prices exact counts. */
+  readonly classes?: Partial<Record<InsnClass, number>>;
   readonly notes?: string;
 }
 
@@ -149,6 +152,13 @@ export function validateProfile(p: unknown, source: string): Profile {
   }
   if (o.fused_multiply_add !== undefined && typeof o.fused_multiply_add !== "boolean") fail(`"fused_multiply_add" must be true or false`);
   if (o.fused_multiply_add === true && (o.ops as Record<string, unknown>).fma === undefined) fail(`"fused_multiply_add" is true but "ops.fma" is not given`);
+  if (o.classes !== undefined) {
+    if (typeof o.classes !== "object" || o.classes === null || Array.isArray(o.classes)) fail(`"classes" must be an object of instruction class -> cycles`);
+    for (const [k, v] of Object.entries(o.classes as object)) {
+      if (!(INSN_CLASSES as readonly string[]).includes(k)) fail(`"classes.${k}": unknown instruction class (known: ${INSN_CLASSES.join(", ")})`);
+      nonneg(v, `classes.${k}`);
+    }
+  }
   return o as unknown as Profile;
 }
 
