@@ -259,8 +259,68 @@ const BLOCK_PHI: readonly AbiOutput[] = [
  }
 ];
 
-/** The shared output layout integration. */
-const LAYOUT_INTEGRATION: readonly AbiOutput[] = [
+/** The block chief_state of parameters, written once. */
+const BLOCK_CHIEF_STATE: readonly AbiParam[] = [
+ {
+  "name": "rcx",
+  "unit": "length",
+  "doc": "chief position"
+ },
+ {
+  "name": "rcy",
+  "unit": "length"
+ },
+ {
+  "name": "rcz",
+  "unit": "length"
+ },
+ {
+  "name": "vcx",
+  "unit": "length/time",
+  "doc": "chief velocity"
+ },
+ {
+  "name": "vcy",
+  "unit": "length/time"
+ },
+ {
+  "name": "vcz",
+  "unit": "length/time"
+ }
+];
+
+/** The block relative_start of parameters, written once. */
+const BLOCK_RELATIVE_START: readonly AbiParam[] = [
+ {
+  "name": "x0",
+  "unit": "length",
+  "doc": "relative position at t0 (rotating frame)"
+ },
+ {
+  "name": "y0",
+  "unit": "length"
+ },
+ {
+  "name": "z0",
+  "unit": "length"
+ },
+ {
+  "name": "vx0",
+  "unit": "length/time",
+  "doc": "relative velocity at t0 (seen in the rotating frame)"
+ },
+ {
+  "name": "vy0",
+  "unit": "length/time"
+ },
+ {
+  "name": "vz0",
+  "unit": "length/time"
+ }
+];
+
+/** The block step_state of output slots, written once. */
+const BLOCK_STEP_STATE: readonly AbiOutput[] = [
  {
   "name": "rx",
   "unit": "length",
@@ -290,7 +350,11 @@ const LAYOUT_INTEGRATION: readonly AbiOutput[] = [
   "name": "vz",
   "unit": "length/time",
   "doc": "velocity z at step k"
- },
+ }
+];
+
+/** The block budget_summary of output slots, written once. */
+const BLOCK_BUDGET_SUMMARY: readonly AbiOutput[] = [
  {
   "name": "energy_dev",
   "unit": "1",
@@ -330,7 +394,11 @@ const LAYOUT_INTEGRATION: readonly AbiOutput[] = [
   "name": "areal_step",
   "unit": "count",
   "doc": "first step over the areal velocity budget (-1: none)"
- },
+ }
+];
+
+/** The block step_time of output slots, written once. */
+const BLOCK_STEP_TIME: readonly AbiOutput[] = [
  {
   "name": "k",
   "unit": "count",
@@ -340,7 +408,14 @@ const LAYOUT_INTEGRATION: readonly AbiOutput[] = [
   "name": "t",
   "unit": "time",
   "doc": "k * step"
- },
+ }
+];
+
+/** The shared output layout integration. */
+const LAYOUT_INTEGRATION: readonly AbiOutput[] = [
+ ...BLOCK_STEP_STATE,
+ ...BLOCK_BUDGET_SUMMARY,
+ ...BLOCK_STEP_TIME,
  {
   "name": "energy",
   "unit": "length^2/time^2",
@@ -405,77 +480,9 @@ const LAYOUT_INTEGRATION: readonly AbiOutput[] = [
 
 /** The shared output layout integration_transition. */
 const LAYOUT_INTEGRATION_TRANSITION: readonly AbiOutput[] = [
- {
-  "name": "rx",
-  "unit": "length",
-  "doc": "position x at step k"
- },
- {
-  "name": "ry",
-  "unit": "length",
-  "doc": "position y at step k"
- },
- {
-  "name": "rz",
-  "unit": "length",
-  "doc": "position z at step k"
- },
- {
-  "name": "vx",
-  "unit": "length/time",
-  "doc": "velocity x at step k"
- },
- {
-  "name": "vy",
-  "unit": "length/time",
-  "doc": "velocity y at step k"
- },
- {
-  "name": "vz",
-  "unit": "length/time",
-  "doc": "velocity z at step k"
- },
+ ...BLOCK_STEP_STATE,
  ...BLOCK_PHI,
- {
-  "name": "energy_dev",
-  "unit": "1",
-  "doc": "largest energy deviation |E - E0| / |E0| over steps 0..k"
- },
- {
-  "name": "h_dev",
-  "unit": "1",
-  "doc": "largest angular momentum deviation over steps 0..k: |h - h0| / |h0| (point mass), |h_z - h_z0| / |h0| (zonal field)"
- },
- {
-  "name": "ecc_dev",
-  "unit": "1",
-  "doc": "largest eccentricity vector deviation |e - e0| over steps 0..k (not an invariant in a zonal field)"
- },
- {
-  "name": "areal_dev",
-  "unit": "1",
-  "doc": "largest areal velocity deviation over steps 0..k: ||h| - |h0|| / |h0| (point mass), |h_z - h_z0| / |h0| (zonal field)"
- },
- {
-  "name": "energy_step",
-  "unit": "count",
-  "doc": "first step over the energy budget (-1: none, or no budget)"
- },
- {
-  "name": "h_step",
-  "unit": "count",
-  "doc": "first step over the angular momentum budget (-1: none)"
- },
- {
-  "name": "ecc_step",
-  "unit": "count",
-  "doc": "first step over the eccentricity budget (-1: none; ignored in a zonal field)"
- },
- {
-  "name": "areal_step",
-  "unit": "count",
-  "doc": "first step over the areal velocity budget (-1: none)"
- },
+ ...BLOCK_BUDGET_SUMMARY,
  {
   "name": "symp_dev",
   "unit": "1",
@@ -486,16 +493,7 @@ const LAYOUT_INTEGRATION_TRANSITION: readonly AbiOutput[] = [
   "unit": "count",
   "doc": "first step over the symplectic defect budget (-1: none, or no budget)"
  },
- {
-  "name": "k",
-  "unit": "count",
-  "doc": "step index"
- },
- {
-  "name": "t",
-  "unit": "time",
-  "doc": "k * step"
- },
+ ...BLOCK_STEP_TIME,
  {
   "name": "symp_dev_now",
   "unit": "1",
@@ -2041,32 +2039,7 @@ export const ABI_TABLE: AbiTable = {
    "routine": "to-relative",
    "summary": "deputy inertial state -> relative state in the chief's rotating frame (x radial, z along h, y = z x x)",
    "params": [
-    {
-     "name": "rcx",
-     "unit": "length",
-     "doc": "chief position"
-    },
-    {
-     "name": "rcy",
-     "unit": "length"
-    },
-    {
-     "name": "rcz",
-     "unit": "length"
-    },
-    {
-     "name": "vcx",
-     "unit": "length/time",
-     "doc": "chief velocity"
-    },
-    {
-     "name": "vcy",
-     "unit": "length/time"
-    },
-    {
-     "name": "vcz",
-     "unit": "length/time"
-    },
+    ...BLOCK_CHIEF_STATE,
     {
      "name": "rdx",
      "unit": "length",
@@ -2129,32 +2102,7 @@ export const ABI_TABLE: AbiTable = {
    "routine": "from-relative",
    "summary": "relative state in the chief's rotating frame -> deputy inertial state",
    "params": [
-    {
-     "name": "rcx",
-     "unit": "length",
-     "doc": "chief position"
-    },
-    {
-     "name": "rcy",
-     "unit": "length"
-    },
-    {
-     "name": "rcz",
-     "unit": "length"
-    },
-    {
-     "name": "vcx",
-     "unit": "length/time",
-     "doc": "chief velocity"
-    },
-    {
-     "name": "vcy",
-     "unit": "length/time"
-    },
-    {
-     "name": "vcz",
-     "unit": "length/time"
-    },
+    ...BLOCK_CHIEF_STATE,
     {
      "name": "x",
      "unit": "length",
@@ -2222,58 +2170,8 @@ export const ABI_TABLE: AbiTable = {
      "unit": "length^3/time^2",
      "doc": "gravitational parameter"
     },
-    {
-     "name": "rcx",
-     "unit": "length",
-     "doc": "chief position"
-    },
-    {
-     "name": "rcy",
-     "unit": "length"
-    },
-    {
-     "name": "rcz",
-     "unit": "length"
-    },
-    {
-     "name": "vcx",
-     "unit": "length/time",
-     "doc": "chief velocity"
-    },
-    {
-     "name": "vcy",
-     "unit": "length/time"
-    },
-    {
-     "name": "vcz",
-     "unit": "length/time"
-    },
-    {
-     "name": "x0",
-     "unit": "length",
-     "doc": "relative position at t0 (rotating frame)"
-    },
-    {
-     "name": "y0",
-     "unit": "length"
-    },
-    {
-     "name": "z0",
-     "unit": "length"
-    },
-    {
-     "name": "vx0",
-     "unit": "length/time",
-     "doc": "relative velocity at t0 (seen in the rotating frame)"
-    },
-    {
-     "name": "vy0",
-     "unit": "length/time"
-    },
-    {
-     "name": "vz0",
-     "unit": "length/time"
-    },
+    ...BLOCK_CHIEF_STATE,
+    ...BLOCK_RELATIVE_START,
     {
      "name": "dt",
      "unit": "time",
@@ -2320,58 +2218,8 @@ export const ABI_TABLE: AbiTable = {
      "unit": "length^3/time^2",
      "doc": "gravitational parameter"
     },
-    {
-     "name": "rcx",
-     "unit": "length",
-     "doc": "chief position"
-    },
-    {
-     "name": "rcy",
-     "unit": "length"
-    },
-    {
-     "name": "rcz",
-     "unit": "length"
-    },
-    {
-     "name": "vcx",
-     "unit": "length/time",
-     "doc": "chief velocity"
-    },
-    {
-     "name": "vcy",
-     "unit": "length/time"
-    },
-    {
-     "name": "vcz",
-     "unit": "length/time"
-    },
-    {
-     "name": "x0",
-     "unit": "length",
-     "doc": "relative position at t0 (rotating frame)"
-    },
-    {
-     "name": "y0",
-     "unit": "length"
-    },
-    {
-     "name": "z0",
-     "unit": "length"
-    },
-    {
-     "name": "vx0",
-     "unit": "length/time",
-     "doc": "relative velocity at t0 (seen in the rotating frame)"
-    },
-    {
-     "name": "vy0",
-     "unit": "length/time"
-    },
-    {
-     "name": "vz0",
-     "unit": "length/time"
-    },
+    ...BLOCK_CHIEF_STATE,
+    ...BLOCK_RELATIVE_START,
     {
      "name": "xf",
      "unit": "length",
