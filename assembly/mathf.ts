@@ -51,6 +51,7 @@
 // ---- constants (bits from decimal.js at 120 digits; decimal values for reading) ----------------------------
 
 import { F2, F3, F4, F5, F6, F7, F8, F9, F10 } from "./factorials";
+import { twoProductError as productError, twoSumError as sumError } from "./exact";
 
 /** 2/pi rounded to f32. */
 const INV_PIO2: f32 = reinterpret<f32>(0x3F22F983); // 0.63661975
@@ -76,8 +77,6 @@ const INV_LN2: f32 = reinterpret<f32>(0x3FB8AA3B); // 1.4426950
 const LN2_1: f32 = reinterpret<f32>(0x3F317200); // 0.693145751953125
 const LN2_2: f32 = reinterpret<f32>(0x35BFBE8E); // 1.428606765330187e-6
 
-/** Veltkamp's split for f32: 2^12 + 1. */
-const SPLIT: f32 = 4097.0;
 /** sqrt(2) as f32 bits: significands above it are halved in log. */
 const SQRT2_BITS: u32 = 0x3FB504F3;
 
@@ -104,25 +103,8 @@ let LOG_LO: f32 = 0;
 
 // ---- exact float arithmetic (Dekker 1971) --------------------------------------------------------------------
 
-/** a*b - fl(a*b) exactly (p = fl(a*b)), |a|, |b| below 2^115, no underflow in the parts. */
-// @ts-ignore: decorator
-@inline function productError(a: f32, b: f32, p: f32): f32 {
-  const ca = SPLIT * a;
-  const ah = ca - (ca - a);
-  const al = a - ah;
-  const cb = SPLIT * b;
-  const bh = cb - (cb - b);
-  const bl = b - bh;
-  return ((ah * bh - p) + ah * bl + al * bh) + al * bl;
-}
-
-/** a + b - fl(a + b) exactly (s = fl(a + b)), Knuth's TwoSum. */
-// @ts-ignore: decorator
-@inline function sumError(a: f32, b: f32, s: f32): f32 {
-  const bb = s - a;
-  return (a - (s - bb)) + (b - bb);
-}
-
+// productError and sumError are exact.ts's twoProductError and twoSumError (this file is compiled in the f32 build
+// only, where real is f32, so Veltkamp's split there is 2^12 + 1).
 /** 2^k for -126 <= k <= 127, from the exponent bits. */
 // @ts-ignore: decorator
 @inline function pow2(k: i32): f32 {

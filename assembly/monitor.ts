@@ -27,6 +27,7 @@ import { put } from "./io";
 
 // Setup and reference values (step 0).
 let mMu: real = 1;
+let mInvMu: real = 1; // 1 / mMu, set with it
 let mZonal: bool = false;
 let e0: real = 0;
 let eScale: real = 1;
@@ -34,6 +35,7 @@ let h0x: real = 0;
 let h0y: real = 0;
 let h0z: real = 0;
 let h0: real = 1;
+let invH0: real = 1; // 1 / h0, set with it
 let c0x: real = 0;
 let c0y: real = 0;
 let c0z: real = 0;
@@ -82,12 +84,10 @@ function evaluate(x: real, y: real, z: real, vx: real, vy: real, vz: real, V: re
   const r = RMath.sqrt(x * x + y * y + z * z);
   const rv = x * vx + y * vy + z * vz;
   const c = v2 - mMu / r;
-  const im = <real>1.0 / mMu;
-  curEx = (c * x - rv * vx) * im;
-  curEy = (c * y - rv * vy) * im;
-  curEz = (c * z - rv * vz) * im;
-  const hm = RMath.sqrt(curHx * curHx + curHy * curHy + curHz * curHz);
-  curAreal = mZonal ? <real>0.5 * curHz : <real>0.5 * hm;
+  curEx = (c * x - rv * vx) * mInvMu;
+  curEy = (c * y - rv * vy) * mInvMu;
+  curEz = (c * z - rv * vz) * mInvMu;
+  curAreal = mZonal ? <real>0.5 * curHz : <real>0.5 * RMath.sqrt(curHx * curHx + curHy * curHy + curHz * curHz);
 }
 
 /**
@@ -97,6 +97,7 @@ function evaluate(x: real, y: real, z: real, vx: real, vy: real, vz: real, V: re
 export function monitorBegin(mu: real, zonal: bool, x: real, y: real, z: real, vx: real, vy: real, vz: real,
   V: real, bE: real, bH: real, bEcc: real, bA: real): bool {
   mMu = mu;
+  mInvMu = <real>1.0 / mu;
   mZonal = zonal;
   budE = bE;
   budH = bH;
@@ -109,6 +110,7 @@ export function monitorBegin(mu: real, zonal: bool, x: real, y: real, z: real, v
   h0y = curHy;
   h0z = curHz;
   h0 = RMath.sqrt(h0x * h0x + h0y * h0y + h0z * h0z);
+  invH0 = <real>1.0 / h0;
   c0x = curEx;
   c0y = curEy;
   c0z = curEz;
@@ -130,7 +132,7 @@ export function monitorBegin(mu: real, zonal: bool, x: real, y: real, z: real, v
 /** Monitor step k (k >= 1) at the given state and potential energy V. */
 export function monitorUpdate(k: i32, x: real, y: real, z: real, vx: real, vy: real, vz: real, V: real): void {
   evaluate(x, y, z, vx, vy, vz, V);
-  const ih0 = <real>1.0 / h0;
+  const ih0 = invH0;
   devE = abs(curEnergy - e0) / eScale;
   const dx = curEx - c0x;
   const dy = curEy - c0y;

@@ -64,10 +64,11 @@ if (!cc) unavailable("no C compiler found (cc, gcc, clang or $CC; on Debian: apt
 
 mkdirSync(outDir, { recursive: true });
 const release = join(root, "build", "areal.wasm");
-const releaseSha = () => (existsSync(release) ? createHash("sha256").update(readFileSync(release)).digest("hex") : undefined);
+// The release module is hashed once: the up-to-date check and build.json take the same value.
+const currentSha = existsSync(release) ? createHash("sha256").update(readFileSync(release)).digest("hex") : undefined;
 const infoPath = join(outDir, "build.json");
 if (!process.argv.includes("--force") && existsSync(join(outDir, "libareal-native.so")) && existsSync(infoPath)
-  && JSON.parse(readFileSync(infoPath, "utf8")).release_sha256 === releaseSha() && releaseSha() !== undefined) {
+  && currentSha !== undefined && JSON.parse(readFileSync(infoPath, "utf8")).release_sha256 === currentSha) {
   say("build/native/libareal-native.so is up to date (build/areal.wasm unchanged; --force rebuilds)");
   process.exit(0);
 }
@@ -136,7 +137,7 @@ try {
 }
 renameSync(tmp, lib);
 const ccVersion = execFileSync(cc, ["--version"], { encoding: "utf8" }).split("\n")[0];
-const sha256 = releaseSha();
+const sha256 = currentSha;
 const w2cVersion = JSON.parse(readFileSync(join(w2cDir, "package.json"), "utf8")).version;
 writeFileSync(join(outDir, "build.json"), JSON.stringify({ library: "build/native/libareal-native.so", release_sha256: sha256, asc_extra: ASC_EXTRA, wasm2c: `npm wasm2c ${w2cVersion}`, cc: ccVersion, cflags: CFLAGS }, null, 2) + "\n");
 say(`built build/native/libareal-native.so (${fns.length - 1} exports; ${ccVersion}; ${CFLAGS.join(" ")})`);

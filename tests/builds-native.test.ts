@@ -13,7 +13,7 @@ import { join } from "node:path";
 import { ROOT } from "../harness/core/paths.js";
 import { SPECS } from "../harness/verify/specs/index.js";
 import { compareBuilds, type CompareBuild } from "../harness/verify/compare-builds.js";
-import { nativeUnavailable, closeNative, loadNative } from "../harness/module/builds.js";
+import { nativeUnavailable, loadNative } from "../harness/module/builds.js";
 import { readVectors, vectorPath } from "../harness/verify/vectors.js";
 import { evaluateCsv, evaluateFile } from "../harness/run/evaluate.js";
 import { findRoutine } from "../harness/module/routines.js";
@@ -38,7 +38,6 @@ beforeAll(() => {
     process.stderr.write(`builds-native: native build skipped: ${nativeWhy}\n`);
     noteSkip("native build (tests/builds-native)", nativeWhy, "apt-get install wabt gcc, then npm run build:native");
   }
-  return () => closeNative();
 });
 
 describe("bit-identity of the release module across engine tiers and the native build", () => {

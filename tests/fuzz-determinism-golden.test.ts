@@ -10,7 +10,7 @@ import { SPECS } from "../harness/verify/specs/index.js";
 import { readVectors, vectorPath } from "../harness/verify/vectors.js";
 import { traceSuite, tracesInChild, type Trace } from "../harness/verify/compare-builds.js";
 import { goldenDifferences, goldenPath } from "../harness/verify/golden.js";
-import { loadNative, closeNative } from "../harness/module/builds.js";
+import { loadNative } from "../harness/module/builds.js";
 import { prepareNative, REQUIRE_NATIVE } from "./builds-helpers.js";
 import { release } from "./helpers.js";
 import { toBits, fromBits } from "../harness/core/float.js";
@@ -52,11 +52,7 @@ describe("determinism golden files", () => {
       return;
     }
     const k = loadNative();
-    try {
-      check(specs.map((s) => traceSuite(s, k, vectors.get(s.suite)!)));
-    } finally {
-      closeNative();
-    }
+    check(specs.map((s) => traceSuite(s, k, vectors.get(s.suite)!)));
   });
 
   it("a changed bit is caught and named (mutant)", () => {

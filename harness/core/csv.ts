@@ -86,6 +86,7 @@ export function numberAt(t: Table, source: string, r: number, c: number): number
  * (above about 1.8e308). A literal 0, and inf or nan spelled as such, are what they say.
  */
 export function lostOnParse(cell: string, v: number): string | undefined {
+  if (v !== 0 && Number.isFinite(v)) return undefined; // only 0 and infinity can be a lost value
   const t = cell.trim();
   if (/^0x/i.test(t)) return undefined; // bit patterns are exact
   if (v === 0) {

@@ -32,7 +32,11 @@ export class LineTooLong extends CsvError {
   }
   /** The message naming the line, when the caller knows its number. */
   atLine(line: number): CsvError {
-    return new CsvError(`${this.source}:${line}: line ${line} is longer than the limit of ${MAX_LINE_BYTES} bytes (no line end within it: is this a CSV file?)`);
+    return LineTooLong.named(this.source, line);
+  }
+  /** The error for line `line` of `source`, longer than MAX_LINE_BYTES. */
+  static named(source: string, line: number): CsvError {
+    return new CsvError(`${source}:${line}: line ${line} is longer than the limit of ${MAX_LINE_BYTES} bytes (no line end within it: is this a CSV file?)`);
   }
 }
 

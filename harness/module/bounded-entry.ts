@@ -57,9 +57,8 @@ function serve(k: Kernels): void {
       fail(err instanceof ModuleError ? err.message : `${init.label}: ${callText(name, args)} failed (${(err as Error).message}); the module is faulty, nothing was written`);
       return;
     }
-    const over = memoryOver(k, callText(name, args));
-    if (over) {
-      fail(over);
+    if (k.memory.buffer.byteLength > init.memoryLimit) {
+      fail(memoryOver(k, callText(name, args))!);
       return;
     }
     const o = k.out; // taken after the call: a module that grew its memory has a new buffer

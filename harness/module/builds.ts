@@ -131,7 +131,3 @@ function openPrivateCopy(label: string): Kernels {
   }
 }
 
-/** Kept for callers that closed the old runner process: the library stays loaded until the process ends. */
-export function closeNative(): void {
-  // nothing to close: an in-process library
-}

@@ -130,7 +130,7 @@ export function instantiate(bytes: Uint8Array<ArrayBuffer>, label: string): Kern
 }
 
 /** A call of fn with the `na` arguments at args[at, at + na), without an array per call for up to 6 arguments. */
-export function rowCaller(fn: (...a: number[]) => number, args: Float64Array, na: number): (at: number) => number {
+function rowCaller(fn: (...a: number[]) => number, args: Float64Array, na: number): (at: number) => number {
   const a = args;
   switch (na) {
     case 0: return () => fn();

@@ -21,11 +21,7 @@ export function isOk(code: number): boolean {
   return code >= 0 && code < FIRST_ERROR;
 }
 
-/** True for a code the ABI defines. */
-export function isKnownStatus(code: number): boolean {
-  return ABI_TABLE.statuses.some((s) => s.code === code);
-}
-
+/** The codes the ABI defines. */
 const KNOWN = new Set(ABI_TABLE.statuses.map((s) => s.code));
 
 /**

@@ -13,6 +13,7 @@
  *    The most instructions wins. The cap argument (CAPS) says why the path cannot be longer than the one found.
  */
 import { readFileSync, writeFileSync, mkdirSync, existsSync } from "node:fs";
+import { writeAtomic } from "../core/atomic.js";
 import { join } from "node:path";
 import { VECTORS_DIR } from "../core/paths.js";
 import { loadNamedBuild } from "../module/builds.js";
@@ -196,8 +197,9 @@ export async function screenAll(names?: readonly string[], log: (s: string) => v
     const measured = `screened on x86-64 (f64): ${r.screened} candidates of the ${r.okRows} inputs with an ok status (${[from, handCases(name).length ? "the hand cases of harness/perf/count-screen.ts" : ""].filter(Boolean).join(" and ")}): ${r.maxIterations !== undefined ? `the ${TOP_ITER} with the most iterations (largest ${r.maxIterations}), the first row of each vector tag, every hand case` : "the first row of each vector tag and every hand case (no iteration count to rank by)"}; most instructions ${r.worstInsns} (typical ${r.typicalInsns}) at ${r.worst.why}`;
     // Read again before writing: screens of other exports may run at the same time (one process per core).
     const now = JSON.parse(readFileSync(INPUTS_FILE, "utf8")) as typeof file;
-    now.kernels[name] = { typical: entry.typical, worst: { ...(r.worst.setup ? { setup: r.worst.setup } : {}), args: r.worst.args, why: now.kernels[name]!.worst.why, measured } };
+    // The entry's other fields (worst_f32) stay; the file is replaced whole, never half-written.
+    now.kernels[name] = { ...now.kernels[name]!, typical: entry.typical, worst: { ...(r.worst.setup ? { setup: r.worst.setup } : {}), args: r.worst.args, why: now.kernels[name]!.worst.why, measured } };
     file.kernels = now.kernels;
-    writeFileSync(INPUTS_FILE, JSON.stringify(file, null, 1) + "\n");
+    writeAtomic(INPUTS_FILE, JSON.stringify(file, null, 1) + "\n");
   }
 }

@@ -170,7 +170,7 @@ function subset(v: VectorSet, max: number): VectorSet {
 /** ULP differences of other builds from the release build over (a spread subset of) every suite. */
 export async function buildHistograms(base: Kernels, builds: readonly string[], maxRows: number): Promise<{ bars: HistBar[]; notes: string[]; table: Record<string, Record<string, number>> } | string> {
   if (base.label !== "f64") return `the histograms compare other builds with the release build; this report is for ${base.label}`;
-  const { loadNamedBuild, nativeUnavailable, closeNative, isBuildName } = await import("../module/builds.js");
+  const { loadNamedBuild, nativeUnavailable, isBuildName } = await import("../module/builds.js");
   const { traceSuite } = await import("../verify/compare-builds.js");
   const notes: string[] = [];
   const others: Kernels[] = [];
@@ -191,26 +191,22 @@ export async function buildHistograms(base: Kernels, builds: readonly string[], 
   }
   if (others.length === 0) return `no other build could be loaded${notes.length ? `: ${notes.join("; ")}` : ""}`;
   const counts = new Map<string, number[]>(others.map((o) => [o.label, BUCKETS.map(() => 0)]));
-  try {
-    for (const spec of SPECS) {
-      if (!existsSync(vectorPath(spec.suite)) || !findRoutine(spec.routine)) continue;
-      const v = subset(readVectors(vectorPath(spec.suite)), maxRows);
-      const tb = traceSuite(spec, base, v);
-      for (const o of others) {
-        if (o.realBytes !== 8 || !o.has(findRoutine(spec.routine)!.exportName)) continue;
-        const to = traceSuite(spec, o, v);
-        const c = counts.get(o.label)!;
-        for (let i = 0; i < tb.values.length; i++) {
-          const a = tb.values[i]!;
-          const b = to.values[i]!;
-          if (Number.isNaN(a) || Number.isNaN(b)) continue;
-          const d = ulpDistance(a, b);
-          c[BUCKETS.findIndex(([, hi]) => d <= hi)]!++;
-        }
+  for (const spec of SPECS) {
+    if (!existsSync(vectorPath(spec.suite)) || !findRoutine(spec.routine)) continue;
+    const v = subset(readVectors(vectorPath(spec.suite)), maxRows);
+    const tb = traceSuite(spec, base, v);
+    for (const o of others) {
+      if (o.realBytes !== 8 || !o.has(findRoutine(spec.routine)!.exportName)) continue;
+      const to = traceSuite(spec, o, v);
+      const c = counts.get(o.label)!;
+      for (let i = 0; i < tb.values.length; i++) {
+        const a = tb.values[i]!;
+        const b = to.values[i]!;
+        if (Number.isNaN(a) || Number.isNaN(b)) continue;
+        const d = ulpDistance(a, b);
+        c[BUCKETS.findIndex(([, hi]) => d <= hi)]!++;
       }
     }
-  } finally {
-    if (others.some((o) => o.label === "native")) closeNative();
   }
   const bars: HistBar[] = [];
   const table: Record<string, Record<string, number>> = {};

@@ -84,7 +84,8 @@ function cellValue(word: string, source: string, lineNo: number, column: string,
   }
   const v = parseNumber(word);
   if (v === undefined) throw new CsvError(`${source}:${lineNo}: column '${column}' holds '${word}', which is not a number (column ${colNo})`);
-  if ((v === 0 || !Number.isFinite(v)) && lostOnParse(word, v)) throw new CsvError(`${source}:${lineNo}: column '${column}' holds '${word}', which ${lostOnParse(word, v)} (column ${colNo})`);
+  const lost = lostOnParse(word, v);
+  if (lost) throw new CsvError(`${source}:${lineNo}: column '${column}' holds '${word}', which ${lost} (column ${colNo})`);
   if (s.integer && !Number.isInteger(v)) throw new CsvError(`${source}:${lineNo}: column '${s.name}' holds '${word}', which is not an integer (column ${colNo})`);
   return v;
 }
@@ -286,7 +287,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
     return { rows, statuses };
   } catch (err) {
     // The sequential reader knows the line; a worker's range only the byte offset.
-    if (err instanceof LineTooLong) throw line > 0 && opts.workers <= 1 ? err.atLine(line) : err;
+    if (err instanceof LineTooLong) throw line > 0 && opts.workers <= 1 && opts.shard === undefined ? err.atLine(line) : err;
     throw err;
   } finally {
     stream.close();
@@ -315,7 +316,7 @@ export interface EvalChunkResult {
 
 /** A worker's half of evaluateFile: the lines starting in the file's bytes [start, end), numbered from 1. */
 export function evalRange(routine: Routine, plan: Plan, init: { readonly columns: readonly string[]; readonly source: string; readonly path: string; readonly first: number; readonly size: number }, k: Kernels, start: number, end: number): EvalChunkResult {
-  const own = readOwnedLines(init.path, init.first, init.size, start, end);
+  const own = readOwnedLines(init.path, init.first, init.size, start, end, init.source);
   const none = { bytes: new Uint8Array(0), rows: 0, lineCount: 0, statuses: {}, begin: own.begin, finish: own.finish };
   let res: ReturnType<typeof evaluateBytes>;
   try {
@@ -374,7 +375,7 @@ export function evaluateLines(routine: Routine, plan: Plan, width: number, sourc
     const end = lf < 0 ? len : lf > pos && text.charCodeAt(lf - 1) === 13 ? lf - 1 : lf;
     const start = pos;
     pos = lf < 0 ? len : lf + 1;
-    if (end - start > MAX_LINE_BYTES) throw new CsvError(`${source}:${lineNo}: line ${lineNo} is longer than the limit of ${MAX_LINE_BYTES} bytes (no line end within it: is this a CSV file?)`);
+    if (end - start > MAX_LINE_BYTES) throw LineTooLong.named(source, lineNo);
     const c0 = text.charCodeAt(start);
     if (end > start && c0 === 35) continue; // '#': a comment
     if (end === start || !keptByTrim(c0)) {
@@ -603,7 +604,7 @@ function numberCell(b: Uint8Array, buf: Buffer, p: number, end: number, spec: In
   else if (r === NOT_EXACT) {
     const word = latin1(buf, p, end);
     v = Number(word);
-    if ((v === 0 || !Number.isFinite(v)) && lostOnParse(word, v)) throw FALL_BACK;
+    if (lostOnParse(word, v)) throw FALL_BACK;
   } else return stringCell(latin1(buf, p, end), spec);
   if (spec.integer && !Number.isInteger(v)) throw FALL_BACK;
   return v;
