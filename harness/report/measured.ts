@@ -5,6 +5,7 @@
  * A file that is not of that shape is named with what was expected.
  */
 import { existsSync, readFileSync } from "node:fs";
+import { parseJsonText } from "../core/json.js";
 
 export interface SpeedRow {
   readonly routine: string;
@@ -32,11 +33,7 @@ export interface CountRow {
 
 function readJson(file: string, what: string): unknown {
   if (!existsSync(file)) throw new Error(`${file}: no such file (${what})`);
-  try {
-    return JSON.parse(readFileSync(file, "utf8"));
-  } catch (err) {
-    throw new Error(`${file}: not JSON (${(err as Error).message})`);
-  }
+  return parseJsonText(readFileSync(file, "utf8"), file, (m) => new Error(m));
 }
 
 const isObj = (x: unknown): x is Record<string, unknown> => typeof x === "object" && x !== null && !Array.isArray(x);

@@ -2,6 +2,7 @@
 import { writeAtomic } from "../../core/atomic.js";
 import { loadNamedBuild } from "../../module/builds.js";
 import { readFileSync } from "node:fs";
+import { parseJsonText } from "../../core/json.js";
 import { runBench, formatBench, benchJson, DEFAULT_SETTINGS, LONG_SETTINGS, EXAMPLE_PROFILE } from "../../perf/bench.js";
 import { ProfileError, readProfile } from "../../perf/opcount.js";
 import { predictFromCounts, formatPredictions, type CountPrediction } from "../../perf/count-model.js";
@@ -36,9 +37,10 @@ function countPredictions(file: string | undefined, profilePath: string | undefi
   const profile = readProfile(profilePath ?? EXAMPLE_PROFILE);
   let counts: unknown;
   try {
-    counts = JSON.parse(readFileSync(file, "utf8"));
+    counts = parseJsonText(readFileSync(file, "utf8"), file, (m) => new UsageError(`--counts-json: ${m}`));
   } catch (err) {
-    throw new UsageError(`--counts-json: ${file}: ${(err as Error).message}`);
+    if (err instanceof UsageError) throw err;
+    throw new UsageError(`--counts-json: ${file}: ${(err as Error).message}`); // unreadable file
   }
   try {
     const rows = predictFromCounts(counts, profile, file);
