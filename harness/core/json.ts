@@ -24,9 +24,11 @@ export function parseJsonText(text: string, source: string, make: (message: stri
     const at = / at position (\d+)/.exec(msg);
     if (at) pos = Number(at[1]);
     else if (/end of JSON input/.test(msg)) pos = text.length;
-    if (pos === undefined) throw make(`${source}: not valid JSON (${msg})`);
+    // V8's excerpt of the text (', "..." is not valid JSON') may hold line ends: the place says enough.
+    const reason = msg.replace(/ at position \d+/, "").replace(/, ".*"(?:\.\.\.)? is not valid JSON$/s, "");
+    if (pos === undefined) throw make(`${source}: not valid JSON (${reason})`);
     const { line, column } = lineColumn(text, pos);
-    throw make(`${source}:${line}:${column}: not valid JSON (${msg.replace(/ at position \d+/, "").replace(/, ".*" is not valid JSON$/s, "")})`);
+    throw make(`${source}:${line}:${column}: not valid JSON (${reason})`);
   }
 }
 
