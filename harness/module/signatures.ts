@@ -3,14 +3,15 @@
  * import, function and export sections to get the exact signature of every export (the JS API only gives a
  * function's arity, not its parameter types); `planModule` decides, suite by suite, whether a module can be
  * checked: all exports present with the ABI's signature (run), some missing (skipped, naming them), or a wrong
- * signature (rejected with a message naming the export, what it has and what the ABI asks for).
+ * signature (rejected with a message naming the export, what it has and what the ABI asks for). The bytes are
+ * read by wasm-binary.ts.
  */
 import type { Routine, InputSpec } from "./routines.js";
 import { findRoutine } from "./routines.js";
 import { ABI_TABLE } from "./abi-table.js";
+import { AbiError, WasmReader, type ValType } from "./wasm-binary.js";
 
-/** The value types a kernel export can use. */
-export type ValType = "i32" | "i64" | "f32" | "f64" | "v128" | "funcref" | "externref";
+export { AbiError, type ValType };
 
 export interface Signature {
   readonly params: readonly ValType[];
@@ -23,83 +24,21 @@ export interface ExportInfo {
   readonly signature?: Signature;
 }
 
-export class AbiError extends Error {}
-
 /** The version of docs/abi.md this harness implements (`areal_abi_version()` must return it when exported). */
 export const ABI_VERSION = ABI_TABLE.abi_version;
 /** Number of output slots a module must provide at `areal_out()`. */
 export const OUT_SLOTS = ABI_TABLE.out_slots;
 
-const VAL_TYPES: Readonly<Record<number, ValType>> = {
-  0x7f: "i32",
-  0x7e: "i64",
-  0x7d: "f32",
-  0x7c: "f64",
-  0x7b: "v128",
-  0x70: "funcref",
-  0x6f: "externref",
-};
 const EXPORT_KINDS: readonly ExportInfo["kind"][] = ["function", "table", "memory", "global", "tag"];
-
-/** A reader over the module bytes; every read checks bounds so a truncated file gives a plain message. */
-class Reader {
-  pos = 0;
-  constructor(readonly bytes: Uint8Array, readonly label: string) {}
-  fail(what: string): never {
-    throw new AbiError(`${this.label}: malformed WebAssembly binary at byte ${this.pos}: ${what}`);
-  }
-  byte(): number {
-    if (this.pos >= this.bytes.length) this.fail("unexpected end of file");
-    return this.bytes[this.pos++]!;
-  }
-  /** Unsigned LEB128, up to 32 bits. */
-  u32(): number {
-    let result = 0;
-    let shift = 0;
-    for (let i = 0; i < 5; i++) {
-      const b = this.byte();
-      result += (b & 0x7f) * 2 ** shift;
-      if ((b & 0x80) === 0) return result;
-      shift += 7;
-    }
-    return this.fail("LEB128 integer longer than 5 bytes");
-  }
-  name(): string {
-    const n = this.u32();
-    if (this.pos + n > this.bytes.length) this.fail("name runs past the end");
-    const s = new TextDecoder("utf-8", { fatal: false }).decode(this.bytes.subarray(this.pos, this.pos + n));
-    this.pos += n;
-    return s;
-  }
-  valType(): ValType {
-    const b = this.byte();
-    const t = VAL_TYPES[b];
-    if (t === undefined) this.fail(`unknown value type 0x${b.toString(16)}`);
-    return t;
-  }
-  /** Skip a `limits` entry (memory or table). */
-  limits(): void {
-    const flags = this.byte();
-    this.u32();
-    if (flags & 1) this.u32();
-  }
-}
 
 /** Every export of a module with its kind and, for functions, its exact signature. */
 export function readSignatures(bytes: Uint8Array, label = "module"): Map<string, ExportInfo> {
-  const r = new Reader(bytes, label);
-  const magic = [0x00, 0x61, 0x73, 0x6d];
-  for (const m of magic) if (r.byte() !== m) throw new AbiError(`${label}: not a WebAssembly binary (bad magic number)`);
-  const version = r.byte() | (r.byte() << 8) | (r.byte() << 16) | (r.byte() << 24);
-  if (version !== 1) throw new AbiError(`${label}: WebAssembly binary version ${version}, expected 1`);
+  const r = new WasmReader(bytes, label);
   const types: Signature[] = [];
   const funcTypes: number[] = []; // type index of every function, imported ones first
   const exports: { name: string; kind: number; index: number }[] = [];
-  while (r.pos < bytes.length) {
-    const id = r.byte();
-    const size = r.u32();
-    const end = r.pos + size;
-    if (end > bytes.length) r.fail(`section ${id} runs past the end of the file`);
+  for (const { id, start, end } of r.sections()) {
+    r.pos = start;
     if (id === 1) {
       const n = r.u32();
       for (let i = 0; i < n; i++) {
@@ -141,7 +80,7 @@ export function readSignatures(bytes: Uint8Array, label = "module"): Map<string,
         exports.push({ name, kind, index: r.u32() });
       }
     }
-    r.pos = end;
+    if (r.pos > end) r.fail(`section ${id} reads past its end`);
   }
   const out = new Map<string, ExportInfo>();
   for (const e of exports) {

@@ -2,12 +2,14 @@
  * The release module's size per export: for each exported function, the code bytes of every function it reaches
  * through calls (shared helpers counted in each export that reaches them) and of those only it reaches, plus the
  * module's code and static data. The call graph and the function names come from the text file the build writes
- * beside the module (build/areal.wat, asc --textFile); the body sizes from the binary's code section.
+ * beside the module (build/areal.wat, asc --textFile); the body sizes from the binary's code section (read by
+ * module/wasm-binary.ts).
  * Used by `areal bench` (the `sizes` field of --json).
  */
 import { existsSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { BUILD_DIR } from "../core/paths.js";
+import { WasmReader } from "../module/wasm-binary.js";
 
 export interface ExportSize {
   readonly name: string;
@@ -26,40 +28,25 @@ export interface ModuleSizes {
   readonly exports: readonly ExportSize[];
 }
 
-/** Unsigned LEB128 at pos: [value, next position]. */
-function leb(b: Uint8Array, pos: number): [number, number] {
-  let v = 0;
-  let shift = 0;
-  for (;;) {
-    const byte = b[pos++]!;
-    v += (byte & 0x7f) * 2 ** shift;
-    if ((byte & 0x80) === 0) return [v, pos];
-    shift += 7;
-  }
-}
-
 /** Body sizes (bytes, size field included) of the code section, in function-index order; data section bytes. */
-function sections(b: Uint8Array): { bodies: number[]; dataBytes: number; imports: boolean } {
-  let pos = 8;
+function sections(b: Uint8Array, label: string): { bodies: number[]; dataBytes: number; imports: boolean } {
+  const r = new WasmReader(b, label);
   const bodies: number[] = [];
   let dataBytes = 0;
   let imports = false;
-  while (pos < b.length) {
-    const id = b[pos]!;
-    let size: number;
-    [size, pos] = leb(b, pos + 1);
-    const end = pos + size;
+  for (const { id, start, end } of r.sections()) {
     if (id === 2) imports = true;
     if (id === 10) {
-      let [n, p] = leb(b, pos);
-      for (let i = 0; i < n; i++) {
-        const [len, q] = leb(b, p);
-        bodies.push(q - p + len);
-        p = q + len;
+      r.pos = start;
+      for (let n = r.u32(); n > 0; n--) {
+        const p = r.pos;
+        const len = r.u32();
+        bodies.push(r.pos - p + len);
+        r.pos += len;
       }
+      if (r.pos !== end) r.fail("the code section's bodies do not fill it");
     }
-    if (id === 11) dataBytes = size;
-    pos = end;
+    if (id === 11) dataBytes = end - start;
   }
   return { bodies, dataBytes, imports };
 }
@@ -69,7 +56,7 @@ export function moduleSizes(wasmFile = join(BUILD_DIR, "areal.wasm")): ModuleSiz
   const watFile = wasmFile.replace(/\.wasm$/, ".wat");
   if (!existsSync(watFile)) throw new Error(`${watFile} is missing: the build writes it beside the module (npm run build)`);
   const bin = new Uint8Array(readFileSync(wasmFile));
-  const { bodies, dataBytes, imports } = sections(bin);
+  const { bodies, dataBytes, imports } = sections(bin, wasmFile);
   if (imports) throw new Error(`${wasmFile} has imports: the size table assumes a module without any`);
   const wat = readFileSync(watFile, "utf8").split("\n");
   const names: string[] = [];
