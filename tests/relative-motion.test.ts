@@ -12,7 +12,8 @@ import { release, single, run, areal } from "./helpers.js";
 import { runSuite } from "../harness/verify/check.js";
 import { readVectors, vectorPath } from "../harness/verify/vectors.js";
 import { relativeMotionSpec } from "../harness/verify/specs/relative.js";
-import { stateOf, GM_WGS84 as MU } from "../harness/verify/specs/twobody.js";
+import { stateOf } from "../harness/verify/specs/twobody.js";
+import { GM_EARTH as MU } from "../harness/core/constants.js";
 import { referenceRelativeMotion } from "../harness/verify/reference/relative.js";
 
 const norm = (x: readonly number[]): number => Math.hypot(...x);

@@ -6,7 +6,8 @@
  */
 import { describe, it, expect } from "vitest";
 import { release, single, run } from "./helpers.js";
-import { stateOf, GM_WGS84 as MU } from "../harness/verify/specs/twobody.js";
+import { stateOf } from "../harness/verify/specs/twobody.js";
+import { GM_EARTH as MU } from "../harness/core/constants.js";
 import { referenceRelativeMotion } from "../harness/verify/reference/relative.js";
 
 const norm = (x: readonly number[]): number => Math.hypot(...x);

@@ -10,7 +10,8 @@ import { describe, it, expect } from "vitest";
 import { release, outs, R, V } from "./helpers.js";
 import { referencePropagate } from "../harness/verify/reference/twobody.js";
 import { limitsFor } from "../harness/verify/limits.js";
-import { stateOf, GM_WGS84 } from "../harness/verify/specs/twobody.js";
+import { stateOf } from "../harness/verify/specs/twobody.js";
+import { GM_EARTH } from "../harness/core/constants.js";
 import { Rng } from "../harness/core/rng.js";
 import type { Kernels } from "../harness/module/load.js";
 
@@ -53,7 +54,7 @@ describe("hairpin hyperbolas: the two reported cases", () => {
   it("r_p = 0.7 m, r0 = 7071 km, dt = 1 s (WGS 84 GM): within the limit of the 50-digit reference", () => {
     // e = 1.478, p = 0.0017 km, a = -0.00144 km, delta H about 31. Before the periapsis anchor the kernel
     // returned (-1924.25, 9031.59, 2502.15) km (8.6e-3 relative) after 15 iterations.
-    const x = [GM_WGS84, 7000, 1000, -300, -16447.94042304474, -2349.709372833961, 704.9107969067494, 1];
+    const x = [GM_EARTH, 7000, 1000, -300, -16447.94042304474, -2349.709372833961, 704.9107969067494, 1];
     const ref = referencePropagate(x);
     const o = check(release(), x, ref);
     expect(o.status).toBe(0);
@@ -91,7 +92,7 @@ describe("hairpin hyperbolas: the two reported cases", () => {
  */
 function hairpinCase(rng: Rng): { x: number[]; ratio: number } {
   const canonical = rng.uniform() < 0.5;
-  const mu = canonical ? 1 : GM_WGS84;
+  const mu = canonical ? 1 : GM_EARTH;
   const e = 1.05 * Math.pow(10 / 1.05, rng.uniform());
   const ratio = rng.logUniform(2, 8);
   const ratio1 = rng.logUniform(0, 8);

@@ -21,6 +21,7 @@ import { abiExport } from "../module/routines.js";
 import { readVectors } from "../verify/vectors.js";
 import { COUNT_DIR, INPUTS_FILE, argValues, buildObjects, buildPlugin, countRun, driverSource, linkDriver, translate, type CountCase } from "./count.js";
 import { BUILD_FILES } from "../core/paths.js";
+import { GM_EARTH } from "../core/constants.js";
 
 const TOP_ITER = 12;
 const MAX_TAGS = 24;
@@ -57,7 +58,7 @@ const SOURCES: Readonly<Record<string, readonly Source[]>> = {
   rendezvous_linear: [{ file: "relative-motion.csv", map: { xf: () => 0, yf: () => 0, zf: () => 0 } }],
 };
 
-const MU = 398600.4418;
+const MU = GM_EARTH;
 const LEO = { r0x: 7000, r0y: 100, r0z: 1300, v0x: -0.2, v0y: 7.3, v0z: 1.1 };
 const ZONAL = { j2: 1.08263e-3, j3: -2.5327e-6, radius: 6378.137 }; // Earth's J2, J3, equatorial radius (km): recalled from memory
 const BUDGETS = { energy_budget: 1e-6, h_budget: 1e-6, ecc_budget: 1e-6, areal_budget: 1e-6 };

@@ -12,6 +12,7 @@ import { ulpDistance, ulpDistance32 } from "../core/float.js";
 import { iterationGridAxes } from "../perf/bench.js";
 import type { Cell, DriftPoint, HistBar } from "./plots.js";
 import { existsSync } from "node:fs";
+import { GM_EARTH } from "../core/constants.js";
 
 const KE = slotsOf("kepler_elliptic", "E", "iterations");
 const IN = slotsOf("integrate_step", "energy_dev", "h_dev", "energy_dev_now", "h_dev_now");
@@ -236,7 +237,7 @@ export interface LinearPoint {
  */
 export function linearisation(k: Kernels): LinearPoint[] | string {
   for (const x of ["rendezvous_linear", "from_relative", "to_relative", "propagate"]) if (!k.has(x)) return `${k.label} has no ${x} export`;
-  const MU = 398600.4418; // km^3/s^2 (WGS 84 value, NIMA TR8350.2)
+  const MU = GM_EARTH;
   const RV = slotsOf("rendezvous_linear", "dv1x", "dv1y", "dv1z");
   const FR = slotsOf("from_relative", "rdx", "rdy", "rdz", "vdx", "vdy", "vdz");
   const TR = slotsOf("to_relative", "x", "y", "z");

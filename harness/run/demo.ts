@@ -8,11 +8,12 @@
 import type { Kernels } from "../module/load.js";
 import { statusWord, isOk } from "../module/status.js";
 import { slotsOf } from "../module/routines.js";
+import { GM_EARTH } from "../core/constants.js";
 
 export const SCENARIO = {
   mission: "Brackenfold Relay",
   spacecraft: "OSSICLE-3",
-  mu: 398600.4418,
+  mu: GM_EARTH,
   periapsis: 7000,
   apoapsis: 46000,
 } as const;

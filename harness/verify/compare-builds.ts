@@ -26,6 +26,7 @@ import { loadLibrary } from "../module/library.js";
 import { loadFile } from "../module/load.js";
 import { isOk } from "../module/status.js";
 import { ROOT } from "../core/paths.js";
+import { GM_EARTH } from "../core/constants.js";
 
 
 /** Engine tiers of the release module, run in a child process with the tier forced. */
@@ -265,7 +266,7 @@ export function physicalErrors(spec: VectorSpec, v: VectorSet, t: Trace): Physic
 
 /** The low-orbit scenario: an invented 400 km, 51.6 degree orbit; WGS 84 GM (NIMA TR8350.2). */
 export const LEO = {
-  mu: 398600.4418,
+  mu: GM_EARTH,
   r0: [6778.137, 0, 0] as const,
   /** Circular speed sqrt(mu / r) split by the inclination, km/s. */
   v0(): [number, number, number] {

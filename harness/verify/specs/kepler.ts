@@ -8,6 +8,7 @@ import { referenceElliptic, referenceHyperbolic, referenceParabolic } from "../r
 import { referenceTrueToAnomaly, referenceAnomalyToTrue, referenceTrueToMean, referenceTimeOfFlight } from "../reference/anomaly.js";
 import { fromBits, toBits } from "../../core/float.js";
 import type { Case, VectorSpec } from "./types.js";
+import { GM_EARTH } from "../../core/constants.js";
 
 const KEPLER_GENERATOR = "areal vectors: harness/reference/kepler.ts (decimal.js, bracketed Newton to 1e-52, exact input doubles)";
 const CONVERSION_GENERATOR = "areal vectors: harness/reference/anomaly.ts (decimal.js, textbook closed forms, exact input doubles)";
@@ -236,13 +237,13 @@ export const timeOfFlight: VectorSpec = {
   ],
   generator: CONVERSION_GENERATOR,
   precision: "70 significant digits, rounded to nearest double",
-  notes: ["mu in km^3/s^2 (398600.4418, WGS 84) and 1; p in km", "tags: random (seed 20261208)", EDGE_NOTE],
+  notes: [`mu in km^3/s^2 (${GM_EARTH}, WGS 84) and 1; p in km`, "tags: random (seed 20261208)", EDGE_NOTE],
   cases(): Case[] {
     const rng = new Rng(20261208);
     const out: Case[] = [];
     while (out.length < 1000) {
       const e = conversionE(rng);
-      const mu = rng.uniform() < 0.7 ? 398600.4418 : 1;
+      const mu = rng.uniform() < 0.7 ? GM_EARTH : 1;
       const p = mu === 1 ? rng.between(0.5, 3) : rng.between(6600, 50000);
       let nu1 = reachableNu(rng, e);
       let nu2 = reachableNu(rng, e);
@@ -401,24 +402,23 @@ function flightEdges(seed: number): Case[] {
     if (Math.abs(b - a) < 0.05) b = a + (a < 0 ? 0.05 : -0.05);
     return [a, b];
   };
-  for (const [mu, p] of [[1e-20, 1], [1e20, 1], [1, 1e-10], [1, 1e15], [1e-10, 1e-10], [1e25, 1e12], [GM_KM, 6378.137]] as const) {
+  for (const [mu, p] of [[1e-20, 1], [1e20, 1], [1, 1e-10], [1, 1e15], [1e-10, 1e-10], [1e25, 1e12], [GM_EARTH, 6378.137]] as const) {
     for (const e of [0, 0.5, 1, 3]) push("edge-scale", mu, p, e, ...pair(e));
   }
-  for (const e of [0, TINY, 1e-300, 1e-16, ...E_BELOW_1, 1, 1 + 2 ** -52, 1 + 2 ** -45, 1e3, 1e15, 1e120, 1e300]) push(e < 0.5 ? "edge-e0" : e > 100 ? "edge-huge-e" : "edge-e1", GM_KM, 7000, e, ...pair(e));
+  for (const e of [0, TINY, 1e-300, 1e-16, ...E_BELOW_1, 1, 1 + 2 ** -52, 1 + 2 ** -45, 1e3, 1e15, 1e120, 1e300]) push(e < 0.5 ? "edge-e0" : e > 100 ? "edge-huge-e" : "edge-e1", GM_EARTH, 7000, e, ...pair(e));
   // Next to pi on the ellipse and the parabola (2 ulps and 1e-9 relative below); on the hyperbola 1e-3 relative
   // below the asymptote: closer, the time's conditioning passes the suite's limit (the suite has no conditioning
   // column; tests/edges-suites.test.ts measures those cases against the conditioning from the reference).
   for (const e of [0.3, E_BELOW_1[3]!, 1]) {
-    push("edge-pi", GM_KM, 7000, e, -prev(prev(Math.PI)), prev(prev(Math.PI)));
-    push("edge-pi", GM_KM, 7000, e, 0, (1 - 1e-9) * Math.PI);
+    push("edge-pi", GM_EARTH, 7000, e, -prev(prev(Math.PI)), prev(prev(Math.PI)));
+    push("edge-pi", GM_EARTH, 7000, e, 0, (1 - 1e-9) * Math.PI);
   }
-  for (const e of [1 + 2 ** -45, 1.5, 1e3]) push("edge-pi", GM_KM, 7000, e, -0.999 * Math.acos(-1 / e), 0.999 * Math.acos(-1 / e));
-  for (const n of TURNS.slice(0, 4)) for (const e of [0.1, E_BELOW_1[3]!]) push("edge-revs", GM_KM, 7000, e, rng.between(-3, 3), sign(rng) * 2 * Math.PI * n + rng.between(-3, 3));
+  for (const e of [1 + 2 ** -45, 1.5, 1e3]) push("edge-pi", GM_EARTH, 7000, e, -0.999 * Math.acos(-1 / e), 0.999 * Math.acos(-1 / e));
+  for (const n of TURNS.slice(0, 4)) for (const e of [0.1, E_BELOW_1[3]!]) push("edge-revs", GM_EARTH, 7000, e, rng.between(-3, 3), sign(rng) * 2 * Math.PI * n + rng.between(-3, 3));
   return out;
 }
 
 /** WGS 84 Earth GM, km^3/s^2 (NIMA TR8350.2). */
-const GM_KM = 398600.4418;
 
 export const KEPLER_SPECS: readonly VectorSpec[] = [
   keplerElliptic,

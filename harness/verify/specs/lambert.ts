@@ -30,11 +30,12 @@ import {
 } from "../reference/lambert.js";
 import { exact, toDouble, piOf, type Dec } from "../reference/decimal.js";
 import type { Case, VectorSpec } from "./types.js";
+import { GM_EARTH, GM_EARTH_NOTE } from "../../core/constants.js";
 
 /** Gravitational parameters and length scales of the three families of cases. */
 const PROFILES = [
   // WGS 84 GM of the Earth, km^3/s^2 (NIMA TR8350.2); periapsis radii 6600 to 60000 km.
-  { mu: 398600.4418, rmin: 6600, rmax: 60000 },
+  { mu: GM_EARTH, rmin: 6600, rmax: 60000 },
   // The Sun's GM in km^3/s^2, a widely used value (common practice; any value serves the check); periapsis radii
   // 0.3 to 30 AU in km.
   { mu: 1.32712440018e11, rmin: 4.5e7, rmax: 4.5e9 },
@@ -298,7 +299,7 @@ export const lambertSpec: VectorSpec = {
     "areal vectors: harness/reference/lambert.ts (decimal.js, 50 digits: cases propagated from orbital elements by Kepler's equation, edge cases from members of the family of conics through r1 and r2; references by the p-iteration polished by shooting, exact input doubles)",
   precision: "50 significant digits, rounded to nearest double",
   notes: [
-    "mu: 398600.4418 km^3/s^2 (WGS 84, NIMA TR8350.2), 1.32712440018e11 km^3/s^2 (Sun), or 1; lengths in km (or canonical), tof in s",
+    `mu: ${GM_EARTH_NOTE}, 1.32712440018e11 km^3/s^2 (Sun), or 1; lengths in km (or canonical), tof in s`,
     "revs: complete revolutions; retrograde: 1 when the angular momentum has a negative z component; branch (revs >= 1): 0 short-period (smaller semi-major axis), 1 long-period",
     "cond_v1, cond_v2: first-order relative error of v1, v2 from rounding every input by half an ulp (2^-53 relative)",
     "tags: ellipse, hyperbola, near-parabola (|1 - e| in 1e-8..1e-2), rev1..rev5, near-180 (transfer angle within 1e-7..1e-2 rad of 180 deg); -short/-long way (seed 20261210)",

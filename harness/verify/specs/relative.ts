@@ -8,8 +8,9 @@
  */
 import { Rng } from "../../core/rng.js";
 import { referenceRelativeMotion } from "../reference/relative.js";
-import { GM_WGS84, stateOf } from "./twobody.js";
+import { stateOf } from "./twobody.js";
 import type { Case, VectorSpec } from "./types.js";
+import { GM_EARTH, GM_EARTH_NOTE } from "../../core/constants.js";
 
 const TWO_PI = 2 * Math.PI;
 
@@ -30,14 +31,14 @@ function relativeCase(rng: Rng, tag: string, e: number, long: boolean): Case {
   const rp = rng.uniform() < 0.7 ? rng.between(6578, 7378) : rng.logUniform(Math.log10(7378), Math.log10(42164));
   const p = rp * (1 + e);
   const a = p / (1 - e * e);
-  const T = TWO_PI * Math.sqrt((a * a * a) / GM_WGS84);
+  const T = TWO_PI * Math.sqrt((a * a * a) / GM_EARTH);
   const n = TWO_PI / T;
-  const chief = stateOf({ mu: GM_WGS84, p, e, i: rng.between(0, 1.7), raan: rng.between(0, TWO_PI), argp: rng.between(0, TWO_PI), nu: rng.between(0, TWO_PI), cls: "leo", planar: false });
+  const chief = stateOf({ mu: GM_EARTH, p, e, i: rng.between(0, 1.7), raan: rng.between(0, TWO_PI), argp: rng.between(0, TWO_PI), nu: rng.between(0, TWO_PI), cls: "leo", planar: false });
   const sep = rng.logUniform(-3, Math.log10(50));
   const rel = [0, 1, 2].map(() => rng.between(-sep, sep)).concat([0, 1, 2].map(() => rng.between(-2, 2) * sep * n));
   const frac = long ? rng.between(1, 6) : rng.logUniform(-2, 0);
   const dt = (rng.uniform() < 0.2 ? -1 : 1) * frac * T;
-  return { inputs: [GM_WGS84, ...chief, ...rel, dt], tag: `${tag}-${long ? "long" : "short"}` };
+  return { inputs: [GM_EARTH, ...chief, ...rel, dt], tag: `${tag}-${long ? "long" : "short"}` };
 }
 
 const vec = (p: string, s = ""): string[] => ["x", "y", "z"].map((c) => `${p}${c}${s}`);
@@ -57,7 +58,7 @@ export const relativeMotionSpec: VectorSpec = {
     "areal vectors: harness/reference/relative.ts (decimal.js, 60 digits plus those lost to 1 - e^2: chief and a deputy offset by 1e-20 times the relative state propagated on the two-body problem by Kepler's equation, the difference in the chief's rotating frame divided by 1e-20; exact input doubles)",
   precision: "60 significant digits or more, rounded to nearest double",
   notes: [
-    "mu = 398600.4418 km^3/s^2 (WGS 84, NIMA TR8350.2); km, km/s, s",
+    `mu = ${GM_EARTH_NOTE}; km, km/s, s`,
     "frame: x radial outward, z along the chief's angular momentum, y = z x x; velocities as seen in the rotating frame (omega = h / r^2)",
     "tags: circular (e = 0 in the elements), near-circular (1e-7..1e-2), moderate (0.01..0.5), eccentric (0.5..0.9), high-e (0.9..0.99), extreme (0.99..0.999); -short (0.01..1 orbit) / -long (1..6 orbits); 20% with dt < 0 (seed 20261205)",
   ],

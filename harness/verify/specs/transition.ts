@@ -8,8 +8,9 @@
  */
 import { Rng } from "../../core/rng.js";
 import { referenceTransition } from "../reference/transition.js";
-import { GM_WGS84, orbitOf, stateOf, type Orbit, type OrbitClass } from "./twobody.js";
+import { orbitOf, stateOf, type Orbit, type OrbitClass } from "./twobody.js";
 import type { Case, Comparison, VectorSpec } from "./types.js";
+import { GM_EARTH, GM_EARTH_NOTE } from "../../core/constants.js";
 
 const TWO_PI = 2 * Math.PI;
 /** Largest arc of an ellipse in the suite, in revolutions. */
@@ -102,7 +103,7 @@ export const transitionSpec: VectorSpec = {
     "blocks compared as vectors: |block - block_ref|_F / scale <= max(max_abs, cond_factor cond_phi); r, v as in the propagate suite",
     "cond_r, cond_v: largest relative change of r, v when one input double moves up by one ulp; cond_phi: largest |delta Phi~|_F / max |Phi~_ij| then",
     "revs: |dt| / period for the ellipse, 0 otherwise",
-    "mu = 398600.4418 km^3/s^2 (WGS 84, NIMA TR8350.2), km, km/s, s",
+    `mu = ${GM_EARTH_NOTE}, km, km/s, s`,
     `tags: ${TRANSITION_CLASSES.join(", ")}; seed 20261220; |dt| up to ${MAX_REVS} periods (ellipses), 40% negative`,
   ],
   cases(): Case[] {
@@ -112,7 +113,7 @@ export const transitionSpec: VectorSpec = {
     for (let n = 0; out.length < count; n++) {
       const cls = TRANSITION_CLASSES[n % TRANSITION_CLASSES.length]!;
       const o = orbitFor(rng, cls);
-      out.push({ inputs: [GM_WGS84, ...stateOf(o), stepFor(rng, o)], tag: cls });
+      out.push({ inputs: [GM_EARTH, ...stateOf(o), stepFor(rng, o)], tag: cls });
     }
     return out;
   },

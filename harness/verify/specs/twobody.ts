@@ -9,9 +9,9 @@
 import { Rng } from "../../core/rng.js";
 import { referencePropagate, referenceElements, referenceState, referenceEquinoctial, referenceFromEquinoctial } from "../reference/twobody.js";
 import type { Case, Comparison, VectorSpec } from "./types.js";
+import { GM_EARTH, GM_EARTH_NOTE } from "../../core/constants.js";
 
 /** WGS 84 Earth GM, km^3/s^2 (NIMA TR8350.2). */
-export const GM_WGS84 = 398600.4418;
 const TWO_PI = 2 * Math.PI;
 const EDGE_NOTE = "tags edge-*: the edges of the domain (docs/edges.md), seeded groups appended after the other cases so that those keep their rows";
 
@@ -60,7 +60,7 @@ function anomaly(rng: Rng, e: number, frac = 0.9): number {
 
 /** A seeded orbit of the given class. */
 export function orbitOf(rng: Rng, cls: OrbitClass): Orbit {
-  const mu = GM_WGS84;
+  const mu = GM_EARTH;
   const o: Orbit = { mu, p: 0, e: 0, i: rng.between(0.05, 1.7), raan: angle(rng), argp: angle(rng), nu: 0, cls, planar: false };
   const fromRp = (rp: number, e: number): void => {
     o.e = e;
@@ -174,7 +174,7 @@ function stepFor(rng: Rng, o: Orbit): number {
 const GENERATOR = "areal vectors: harness/reference/twobody.ts (decimal.js, classical elements and Kepler's equation by bracketed Newton, exact input doubles)";
 const CONVERSION_GENERATOR = "areal vectors: harness/reference/twobody.ts (decimal.js, vector and angle forms, exact input doubles)";
 const COND_NOTE = "cond_*: largest change of the output (relative for lengths, vectors and e; absolute for angles, f, g, h, k) when one input double moves up by one ulp";
-const UNITS_NOTE = "mu = 398600.4418 km^3/s^2 (WGS 84, NIMA TR8350.2), km, km/s, s; tag canonical: mu = 1";
+const UNITS_NOTE = `mu = ${GM_EARTH_NOTE}, km, km/s, s; tag canonical: mu = 1`;
 
 /** Cases cycling through the classes. */
 function classCases(seed: number, count: number, make: (rng: Rng, o: Orbit) => number[] | undefined, classes: readonly OrbitClass[] = ORBIT_CLASSES): Case[] {
@@ -320,7 +320,7 @@ export const fromEquinoctialSpec: VectorSpec = {
       const f = e * Math.cos(w);
       const g = e * Math.sin(w);
       if (1 + f * Math.cos(L) + g * Math.sin(L) < 0.05) continue;
-      out.push({ inputs: [GM_WGS84, rng.between(6600, 50000), f, g, t * Math.cos(O), t * Math.sin(O), L], tag });
+      out.push({ inputs: [GM_EARTH, rng.between(6600, 50000), f, g, t * Math.cos(O), t * Math.sin(O), L], tag });
     }
     return [...out, ...fromEquinoctialEdges()];
   },
@@ -358,7 +358,7 @@ function edgeOrbits(): EdgeOrbit[] {
   for (const d of [1e-14, 2 ** -34, 1e-9, 1e-6]) list.push({ tag: "edge-ipi", i: Math.PI - d });
   list.push({ tag: "edge-ipi", i: Math.PI, planar: true }, { tag: "edge-i0", i: 0, planar: true });
   for (const nu of [1e-6, Math.PI - 1e-9, Math.PI, Math.PI + 1e-9, TWO_PI - 1e-6]) list.push({ tag: "edge-nu", nu });
-  for (const [mu, rp] of [[1e-10, 1e-6], [1e-20, 1], [1, 1e-10], [GM_WGS84, 1e-3], [GM_WGS84, 1e12], [1e20, 1e6], [1e30, 1e15]] as const) list.push({ tag: "edge-scale", mu, rp });
+  for (const [mu, rp] of [[1e-10, 1e-6], [1e-20, 1], [1, 1e-10], [GM_EARTH, 1e-3], [GM_EARTH, 1e12], [1e20, 1e6], [1e30, 1e15]] as const) list.push({ tag: "edge-scale", mu, rp });
   for (const e of [1 - 1e-12, 1 - 1e-9, 1 + 1e-12, 1 + 1e-9]) list.push({ tag: "edge-rectilinear", e, nu: 0.999 * (e < 1 ? Math.PI : Math.acos(-1 / e)) });
   return list;
 }
@@ -369,7 +369,7 @@ function edgeOrbitCases(seed: number, reps: number, make: (o: Orbit) => number[]
   const out: Case[] = [];
   for (let r = 0; r < reps; r++) {
     for (const d of edgeOrbits()) {
-      const mu = d.mu ?? GM_WGS84;
+      const mu = d.mu ?? GM_EARTH;
       const e = d.e ?? rng.uniform() * 0.9;
       const rp = d.rp ?? rng.between(6600, 42164);
       const o: Orbit = { mu, p: rp * (1 + e), e, i: d.i ?? rng.between(0.05, 3.0), raan: angle(rng), argp: angle(rng), nu: 0, cls: "leo", planar: d.planar ?? false };
@@ -396,7 +396,7 @@ function fromEquinoctialEdges(): Case[] {
     const t = d.t ?? Math.tan(rng.between(0, 1.45));
     const O = rng.between(0, TWO_PI);
     const L = d.L ?? rng.between(0.01, TWO_PI - 0.01);
-    out.push({ inputs: [d.mu ?? GM_WGS84, d.p ?? rng.between(6600, 50000), e * Math.cos(w), e * Math.sin(w), t * Math.cos(O), t * Math.sin(O), L], tag });
+    out.push({ inputs: [d.mu ?? GM_EARTH, d.p ?? rng.between(6600, 50000), e * Math.cos(w), e * Math.sin(w), t * Math.cos(O), t * Math.sin(O), L], tag });
   };
   for (let r = 0; r < 3; r++) {
     for (const e of [0, 1e-300, 1e-14, 1e-9]) draw("edge-e0", { e });
@@ -408,7 +408,7 @@ function fromEquinoctialEdges(): Case[] {
     }
     for (const t of [0, 1e-300, 1e-14, 1e-8, 1e4, 1e8, 1e15]) draw(t > 1 ? "edge-ipi" : "edge-i0", { t });
     for (const L of [1e-9, 1e-6, Math.PI - 1e-9, Math.PI, TWO_PI - 1e-6]) draw("edge-L", { L });
-    for (const [mu, p] of [[1e-10, 1e-6], [1e-20, 1], [1, 1e-10], [GM_WGS84, 1e-3], [GM_WGS84, 1e12], [1e20, 1e6], [1e30, 1e15]] as const) draw("edge-scale", { mu, p });
+    for (const [mu, p] of [[1e-10, 1e-6], [1e-20, 1], [1, 1e-10], [GM_EARTH, 1e-3], [GM_EARTH, 1e12], [1e20, 1e6], [1e30, 1e15]] as const) draw("edge-scale", { mu, p });
     for (const q of [1e-3, 1e-6]) {
       const e = 1 - 1e-9;
       const w = rng.between(0, TWO_PI);
