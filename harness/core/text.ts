@@ -18,3 +18,14 @@ export function wrap(text: string, width: number, indent: string): string[] {
   if (line) out.push(line);
   return out;
 }
+
+/**
+ * Rows of cells as aligned columns: the head, a rule of dashes, the rows; two spaces between columns, no trailing
+ * blanks. Columns whose index is in `right` are right-aligned (numbers), the others left-aligned.
+ */
+export function table(head: readonly string[], rows: readonly (readonly string[])[], right: ReadonlySet<number> = new Set()): string[] {
+  const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i]!.length)));
+  const cell = (c: string, i: number): string => (right.has(i) ? c.padStart(widths[i]!) : c.padEnd(widths[i]!));
+  const line = (cells: readonly string[]): string => cells.map(cell).join("  ").trimEnd();
+  return [line(head), line(widths.map((w) => "-".repeat(w))), ...rows.map(line)];
+}

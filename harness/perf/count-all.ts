@@ -8,6 +8,7 @@ import { join } from "node:path";
 import { promisify } from "node:util";
 import { COUNT_DIR, buildObjects, buildPlugin, driverSource, linkDriver, perCall, readCountInputs, translate, worstFor, type CountCase, type InsnClass, type KernelInputs, type Signature } from "./count.js";
 import { TARGET_SPECS, missingPackages, versionOf, type TargetName } from "./toolchain.js";
+import { table } from "../core/text.js";
 
 const run = promisify(execFile);
 
@@ -157,8 +158,8 @@ export function formatCount(r: CountResult): string {
       const c = r.targets[t]![b]?.[k];
       return c ? `${c.typical} / ${c.worst}` : "-";
     }), ...(sz ? [sz[k] ? String(sz[k]!.text) : "-"] : [])]);
-    const w = head.map((h, i) => Math.max(h.length, ...rows.map((x) => x[i]!.length)));
-    o.push(`instructions per call, build ${b}`, head.map((h, i) => h.padEnd(w[i]!)).join("  "), ...rows.map((x) => x.map((c, i) => (i ? c.padStart(w[i]!) : c.padEnd(w[i]!))).join("  ")));
+    const numeric = new Set(head.map((_, i) => i).filter((i) => i > 0));
+    o.push(`instructions per call, build ${b}`, ...table(head, rows, numeric));
     if (sz?.["(base)"]) o.push(`(cortex-m4f image that instantiates the ${b} module and calls nothing: text ${sz["(base)"].text} B, data ${sz["(base)"].data} B, bss ${sz["(base)"].bss} B)`);
     o.push("");
   }

@@ -5,7 +5,7 @@
  * ratio over the kernels (largest / smallest) is the disagreement reported.
  */
 import { existsSync } from "node:fs";
-import { hang } from "../core/text.js";
+import { hang, table } from "../core/text.js";
 import { COUNTING_FILE, loadCounting, predictCost, readProfile, type Profile } from "./opcount.js";
 import { EXAMPLE_PROFILE } from "./bench.js";
 import { argValues, readCountInputs, INSN_CLASSES, type InsnClass } from "./count.js";
@@ -50,11 +50,11 @@ export function modelCheck(r: CountResult, profile: Profile = readProfile(EXAMPL
 /** The check as text: one row per kernel, the spread per target. */
 export function formatModel(m: NonNullable<ReturnType<typeof modelCheck>>, profileName: string): string {
   const targets = Object.keys(m.spread);
-  const o = [`cost model (${profileName}) against the counts, f64 typical inputs: predicted cost / instructions`,
-    ["kernel".padEnd(18), "predicted".padStart(10), ...targets.map((t) => t.padStart(11))].join("  ")];
-  for (const x of m.rows) o.push([x.kernel.padEnd(18), x.predicted.toFixed(0).padStart(10), ...targets.map((t) => (x.ratio[t] !== undefined ? x.ratio[t]!.toFixed(3) : "-").padStart(11))].join("  "));
-  o.push(["spread (max/min)".padEnd(18), "".padStart(10), ...targets.map((t) => m.spread[t]!.toFixed(2).padStart(11))].join("  "));
-  return o.join("\n") + "\n";
+  const rows = m.rows.map((x) => [x.kernel, x.predicted.toFixed(0), ...targets.map((t) => (x.ratio[t] !== undefined ? x.ratio[t]!.toFixed(3) : "-"))]);
+  rows.push(["spread (max/min)", "", ...targets.map((t) => m.spread[t]!.toFixed(2))]);
+  const numeric = new Set(targets.map((_, i) => i + 2).concat(1));
+  const head = ["kernel", "predicted", ...targets];
+  return [`cost model (${profileName}) against the counts, f64 typical inputs: predicted cost / instructions`, ...table(head, rows, numeric)].join("\n") + "\n";
 }
 
 /** One kernel's cost predicted from its exact counts by class: cycles per instruction class of a profile. */

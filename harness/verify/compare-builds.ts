@@ -15,7 +15,7 @@ import { existsSync } from "node:fs";
 import { join } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
 import { sameBits, ulpDistance, ulpDistance32 } from "../core/float.js";
-import { hang } from "../core/text.js";
+import { hang, table } from "../core/text.js";
 import { readVectors, vectorPath, col, type VectorSet } from "./vectors.js";
 import { findRoutine, ROUTINES, type Routine } from "../module/routines.js";
 import { SPECS } from "./specs/index.js";
@@ -376,12 +376,6 @@ export function fig(x: number): string {
   if (!Number.isFinite(x)) return String(x);
   if (Number.isInteger(x) && Math.abs(x) < 1e9) return String(x);
   return x.toPrecision(3);
-}
-
-export function table(head: string[], rows: string[][]): string[] {
-  const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i]!.length)));
-  const line = (cells: string[]): string => cells.map((c, i) => c.padEnd(widths[i]!)).join("  ").trimEnd();
-  return [line(head), line(widths.map((w) => "-".repeat(w))), ...rows.map(line)];
 }
 
 /**

@@ -9,7 +9,8 @@
 import { parseCsv, CsvError } from "../core/csv.js";
 import { parseNumber, sameBits, ulpDistance } from "../core/float.js";
 import { statusCode } from "../module/status.js";
-import { fig, table } from "./compare-builds.js";
+import { fig } from "./compare-builds.js";
+import { table } from "../core/text.js";
 
 /** A tolerance: a cell pair is within it when the difference in this measure is at most `value`. */
 export interface Tolerance {
