@@ -41,6 +41,16 @@ describe("runSuitesOn", () => {
     for (const w of [2, 3]) expect(JSON.stringify(await runSuitesOn(specs, release(), { build: "f64" }, w, 0))).toBe(JSON.stringify(one));
   });
 
+  it("limits other than areal's own travel with each worker's job (a zero-ulp policy fails the same suites in every thread count)", async () => {
+    // Hostile policy: no error allowed at all. The elliptic and hyperbolic suites have cases at 1-2 ulp (their
+    // kernel headers), so both must fail, in the pool exactly as in one thread.
+    const strict = (): { max_ulp: number; max_rel: number; max_abs: number } => ({ max_ulp: 0, max_rel: 0, max_abs: 0 });
+    const one = await runSuitesOn(specs, release(), { build: "f64" }, 1, 0, strict);
+    const two = await runSuitesOn(specs, release(), { build: "f64" }, 2, 0, strict);
+    expect(one.filter((r) => !r.pass).map((r) => r.suite)).toEqual(expect.arrayContaining(["kepler-elliptic", "kepler-hyperbolic"]));
+    expect(JSON.stringify(two)).toBe(JSON.stringify(one));
+  });
+
   it("below the size threshold it stays in this thread (the built-in files are small)", async () => {
     const bytes = specs.reduce((s, x) => s + statSync(vectorPath(x.suite)).size, 0);
     expect(bytes).toBeLessThan(CHECK_WORKERS_MIN_BYTES);

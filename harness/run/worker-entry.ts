@@ -9,7 +9,7 @@ import type { Kernels } from "../module/load.js";
 import { loadModule, loadNamedBuild, isBuildName } from "../module/builds.js";
 import { findRoutine, type Routine } from "../module/routines.js";
 import { prepareEval, evalRange } from "./evaluate.js";
-import { runSuite } from "../verify/check.js";
+import { runSuite, type CheckJob } from "../verify/check.js";
 import { findSpec } from "../verify/specs/index.js";
 import { sweepRange, type Grid } from "./sweep.js";
 
@@ -42,9 +42,10 @@ function setUp(init: WorkerInit): Handler {
     }
     case "check":
       return (job) => {
-        const spec = findSpec(job as string);
-        if (!spec) throw new Error(`unknown suite '${String(job)}'`);
-        return { value: runSuite(spec, k) };
+        const { suite, limits } = job as CheckJob;
+        const spec = findSpec(suite);
+        if (!spec) throw new Error(`unknown suite '${String(suite)}'`);
+        return { value: runSuite(spec, k, { limits }) };
       };
     case "sweep": {
       const routine = routineOf(init.routine);

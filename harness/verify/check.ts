@@ -261,20 +261,28 @@ export { fmt as formatFigure };
  */
 export const CHECK_WORKERS_MIN_BYTES = 32 << 20;
 
+/** One suite for a worker thread, with the limits to hold it to (areal's own for the build when absent). */
+export interface CheckJob {
+  readonly suite: string;
+  readonly limits?: Limits;
+}
+
 /**
  * Run suites on `k`, or spread over worker threads (each loading `load`) when their vector files add up to
  * `minBytes` or more: one suite per job, results in suite order, so the table and JSON are the same for any
- * number of workers. `limitsOf` (limits other than areal's own) runs in this thread.
+ * number of workers. `limitsOf` gives limits other than areal's own (a user's limits file, an external module's
+ * policy): they are resolved here and sent with each suite's job.
  */
 export async function runSuitesOn(specs: readonly VectorSpec[], k: Kernels, load: KernelSource, workers: number, minBytes = CHECK_WORKERS_MIN_BYTES, limitsOf?: (suite: string) => Limits): Promise<SuiteResult[]> {
   const bytes = specs.reduce((sum, s) => sum + (statSync(vectorPath(s.suite), { throwIfNoEntry: false })?.size ?? 0), 0);
-  const n = bytes < minBytes || limitsOf ? 1 : Math.min(workers, specs.length);
+  const n = bytes < minBytes ? 1 : Math.min(workers, specs.length);
   if (n <= 1) return specs.map((s) => runSuite(s, k, { limits: limitsOf?.(s.suite) }));
   const pool = await WorkerPool.start(n, { kind: "check", load });
   const results: SuiteResult[] = [];
+  const jobs: CheckJob[] = specs.map((s) => ({ suite: s.suite, limits: limitsOf?.(s.suite) }));
   try {
-    await pool.runOrdered<string, SuiteResult>(specs.map((s) => s.suite)[Symbol.iterator](), (r, suite) => {
-      if (!r.ok) throw new Error(`suite ${suite}: ${r.message}`);
+    await pool.runOrdered<CheckJob, SuiteResult>(jobs[Symbol.iterator](), (r, job) => {
+      if (!r.ok) throw new Error(`suite ${job.suite}: ${r.message}`);
       results.push(r.value);
     });
   } finally {
