@@ -16,7 +16,7 @@ import type { Routine, InputSpec } from "../module/routines.js";
 import { callRows, type Kernels } from "../module/load.js";
 import { statusWord, isOk, abiViolation, abiViolationMessage } from "../module/status.js";
 import { ModuleError } from "../module/load.js";
-import { ByteSink, readDecimal, decimalValue, NOT_EXACT } from "../core/bytes.js";
+import { codec, PARSE_OK, PARSE_UNSURE, COL_DEFAULT, COL_HOST, LINE_CELLS, LINE_SLOW, SCAN_FALL_BACK, type Codec, type ChunkLayout } from "../core/codec.js";
 import { CsvFileStream, CHUNK_BYTES, readOwnedLines, isSkippedBeforeHeader, LineTooLong, MAX_LINE_BYTES } from "../core/stream.js";
 import { WorkerPool, type KernelSource } from "../core/pool.js";
 
@@ -410,44 +410,85 @@ export function evaluateLines(routine: Routine, plan: Plan, width: number, sourc
     rows++;
   }
   const lineCount = lfs;
-  const statuses: Record<string, number> = {};
   const nOut = routine.outputs.length;
   const failed = ",NaN".repeat(nOut) + ",";
-  const budgets = budgetSlots(routine);
+  const tally = new RowTally(routine, plan, k);
   const a: number[] = new Array<number>(na).fill(0);
   let out = "";
-  const single = k.realBytes === 4;
   for (let r = 0; r < rows; r++) {
     for (let i = 0; i < na; i++) a[i] = args[r * na + i]!;
-    if (single) countLosses(plan.specs, a, statuses);
     const st = k.call(plan.exportName, a);
-    const broken = abiViolation(st, k.out, routine.outputs);
-    if (broken !== undefined) throw new ModuleError(abiViolationMessage(k.label, plan.exportName, a, broken));
-    const word = statusWord(st);
-    statuses[word] = (statuses[word] ?? 0) + 1;
     let line = trimmed[r] ? text.slice(starts[r], ends[r]).split(",").map((c) => c.trim()).join(",") : text.slice(starts[r], ends[r]);
-    if (isOk(st)) {
-      if (budgets.length > 0 && budgets.some((i) => k.out[i]! >= 0)) statuses[BUDGET_BROKEN] = (statuses[BUDGET_BROKEN] ?? 0) + 1;
+    if (tally.row(st, k.out, 0, a, 0)) {
       for (let i = 0; i < nOut; i++) line += "," + cell(k.out[i]!);
       line += ",";
     } else line += failed;
-    out += line + word + "\n";
+    out += line + statusText(st).word + "\n";
   }
+  const statuses = tally.statuses();
   return { text: out, rows, lineCount, statuses };
 }
 
-/** Count a row's single-precision losses of meaning into `statuses` (LOST_IN_F32 once, and once per kind). */
-function countLosses(specs: readonly InputSpec[], a: ArrayLike<number>, statuses: Record<string, number>): void {
-  let lost = false;
-  for (let i = 0; i < specs.length; i++) {
-    if (specs[i]!.choices) continue;
-    const what = singlePrecisionLoss(specs[i]!.name, a[i]!);
-    if (what === undefined) continue;
-    const key = `${LOST_IN_F32}:${what}`;
-    statuses[key] = (statuses[key] ?? 0) + 1;
-    lost = true;
+/**
+ * Eval's accounting of each row, one home for the string and the byte path: the ABI check of its status and
+ * outputs (a violation throws ModuleError naming the call), the count per status word, the ok rows that broke
+ * a budget (BUDGET_BROKEN) and, on a single-precision build, the inputs that lost their meaning (LOST_IN_F32).
+ * The counts come out as one record: the status words in the order first seen, then the two other kinds.
+ */
+class RowTally {
+  private readonly counts = new Map<number, number>();
+  private readonly losses = new Map<string, number>();
+  private lost = 0;
+  private broken = 0;
+  private readonly budgets: number[];
+  private readonly one: Float64Array;
+  private readonly single: boolean;
+  constructor(private readonly routine: Routine, private readonly plan: Plan, private readonly k: Kernels) {
+    this.budgets = budgetSlots(routine);
+    this.one = new Float64Array(routine.outputs.length);
+    this.single = k.realBytes === 4;
   }
-  if (lost) statuses[LOST_IN_F32] = (statuses[LOST_IN_F32] ?? 0) + 1;
+
+  /** The row of status `st`, outputs outs[o, o + outputs), arguments args[at, at + inputs): true when it is ok. */
+  row(st: number, outs: ArrayLike<number>, o: number, args: ArrayLike<number>, at: number): boolean {
+    const one = this.one;
+    for (let i = 0; i < one.length; i++) one[i] = outs[o + i]!;
+    const na = this.plan.specs.length;
+    const bad = abiViolation(st, one, this.routine.outputs);
+    if (bad !== undefined) throw new ModuleError(abiViolationMessage(this.k.label, this.plan.exportName, Array.from({ length: na }, (_, i) => args[at + i]!), bad));
+    this.counts.set(st, (this.counts.get(st) ?? 0) + 1);
+    if (this.single) this.countLosses(args, at);
+    if (!isOk(st)) return false;
+    if (this.budgets.length > 0 && this.budgets.some((i) => one[i]! >= 0)) this.broken++;
+    return true;
+  }
+
+  /** A row's single-precision losses of meaning (singlePrecisionLoss), once a row and once per kind. */
+  private countLosses(args: ArrayLike<number>, at: number): void {
+    const specs = this.plan.specs;
+    let lost = false;
+    for (let i = 0; i < specs.length; i++) {
+      if (specs[i]!.choices) continue;
+      const what = singlePrecisionLoss(specs[i]!.name, args[at + i]!);
+      if (what === undefined) continue;
+      const key = `${LOST_IN_F32}:${what}`;
+      this.losses.set(key, (this.losses.get(key) ?? 0) + 1);
+      lost = true;
+    }
+    if (lost) this.lost++;
+  }
+
+  statuses(): Record<string, number> {
+    const out: Record<string, number> = {};
+    for (const [code, n] of this.counts) {
+      const w = statusText(code).word;
+      out[w] = (out[w] ?? 0) + n;
+    }
+    if (this.broken > 0) out[BUDGET_BROKEN] = this.broken;
+    if (this.lost > 0) out[LOST_IN_F32] = this.lost;
+    for (const [key, n] of this.losses) out[key] = n;
+    return out;
+  }
 }
 
 function copyToStdout(path: string): Promise<void> {
@@ -468,6 +509,7 @@ interface StatusText {
   readonly bytes: Uint8Array;
 }
 const STATUS_TEXT = new Map<number, StatusText>();
+/** The word and bytes of a status code (cached). */
 function statusText(code: number): StatusText {
   let t = STATUS_TEXT.get(code);
   if (t === undefined) {
@@ -477,9 +519,6 @@ function statusText(code: number): StatusText {
   }
   return t;
 }
-
-/** The output of evaluateBytes is written here: one buffer for the thread, grown as needed, never shrunk. */
-const SINK = new ByteSink(1 << 18);
 
 /** Thrown inside evaluateBytes to hand the whole run to evaluateLines (the reference for messages and bytes). */
 const FALL_BACK = new Error("fall back to evaluateLines");
@@ -518,67 +557,77 @@ export function evaluateBytes(routine: Routine, plan: Plan, width: number, sourc
 }
 
 function evaluateBytesFast(routine: Routine, plan: Plan, width: number, source: string, k: Kernels, b: Uint8Array): { bytes: Uint8Array; rows: number; lineCount: number; statuses: Record<string, number> } {
-  const len = b.length;
-  let lfs = 0;
-  for (let i = b.indexOf(10); i >= 0; i = b.indexOf(10, i + 1)) lfs++;
-  const maxRows = lfs + 1;
   const na = plan.specs.length;
-  const args = new Float64Array(maxRows * na);
-  const starts = new Int32Array(maxRows);
-  const ends = new Int32Array(maxRows);
-  const echoes: (Uint8Array | undefined)[] = [];
-  const cs = new Int32Array(width + 1); // cell j is bytes [cs[j], cs[j + 1] - 1)
-  const wanted = plan.cols;
+  const nOut = routine.outputs.length;
+  const cd = codec();
+  const cols = plan.cols.map((c, i) => (c < 0 ? COL_DEFAULT : plan.specs[i]!.choices ? COL_HOST : c));
+  const l = cd.begin(b, width, cols, plan.specs.map((s) => s.default ?? 0), nOut);
+  const records = cd.scan(l, width, MAX_LINE_BYTES);
+  if (records === SCAN_FALL_BACK) throw FALL_BACK;
+  const rows = hostLines(cd, l, records, plan, width, b);
+  callRows(k, plan.exportName, l.args, na, rows, l.outs, nOut, l.status);
+  const tally = new RowTally(routine, plan, k);
+  const st = l.st;
+  const status = l.status;
+  for (let r = 0; r < rows; r++) {
+    const code = status[r]!;
+    const ok = tally.row(code, l.outs, r * nOut, l.args, r * na);
+    st[r] = cd.statusAt(code, statusText(code).word, ok);
+  }
+  return { bytes: cd.assemble(l, rows), rows, lineCount: l.lineEnds, statuses: tally.statuses() };
+}
+
+/**
+ * The lines the codec's scan left to this thread (evaluateLines' rules): a line with space, a CR or bytes beyond
+ * ASCII (read as a string, its echo written after the chunk), or cells that are words or decimals the codec did
+ * not decide. Blank lines among them are dropped (the records and arguments after them move up). Returns the
+ * row count.
+ */
+function hostLines(cd: Codec, l: ChunkLayout, records: number, plan: Plan, width: number, b: Uint8Array): number {
+  const na = plan.specs.length;
+  const recs = l.recs;
+  const args = l.args;
   const buf = Buffer.from(b.buffer, b.byteOffset, b.byteLength);
+  let echoAt = l.echoFrom;
   let rows = 0;
-  for (let pos = 0; pos < len; ) {
-    let lf = b.indexOf(10, pos);
-    if (lf < 0) lf = len;
-    const start = pos;
-    const end = lf < len && lf > pos && b[lf - 1] === 13 ? lf - 1 : lf;
-    pos = lf + 1;
-    if (end - start > MAX_LINE_BYTES) throw FALL_BACK;
-    if (end > start && b[start] === 35) continue; // '#': a comment
-    // Cut at commas; any byte that needs the string path makes the line slow.
-    let n = 0;
-    let slow = end === start || !keptByTrim(b[start]!) || !keptByTrim(b[end - 1]!);
-    cs[0] = start;
-    for (let p = start; !slow && p < end; p++) {
-      const c = b[p]!;
-      if (c === 44) {
-        if (++n >= width || p === start || !keptByTrim(b[p - 1]!) || p + 1 === end || !keptByTrim(b[p + 1]!)) slow = true;
-        else cs[n] = p + 1;
-      } else if (c >= 128) slow = true;
-    }
-    const at = rows * na;
-    if (!slow) {
-      if (n + 1 !== width) throw FALL_BACK;
-      cs[width] = end + 1;
-      for (let i = 0; i < na; i++) {
-        const c = wanted[i]!;
-        const spec = plan.specs[i]!;
-        if (c < 0) args[at + i] = spec.default!;
-        else args[at + i] = spec.choices ? stringCell(latin1(buf, cs[c]!, cs[c + 1]! - 1), spec) : numberCell(b, buf, cs[c]!, cs[c + 1]! - 1, spec);
-      }
-    } else {
+  for (let r = 0; r < records; r++) {
+    const flag = recs[3 * r + 2]!;
+    const start = recs[3 * r]!;
+    const end = recs[3 * r + 1]!;
+    if (flag === LINE_SLOW) {
       const line = slowLine(buf.toString("utf8", start, end), width);
-      if (line === undefined) continue;
+      if (line === undefined) continue; // blank: no row
       for (let i = 0; i < na; i++) {
-        const c = wanted[i]!;
+        const c = plan.cols[i]!;
         const spec = plan.specs[i]!;
-        args[at + i] = c < 0 ? spec.default! : stringCell(line.cells[c]!, spec);
+        args[rows * na + i] = c < 0 ? spec.default! : stringCell(line.cells[c]!, spec);
       }
-      echoes[rows] = ENCODER.encode(line.echo);
+      const echo = Buffer.from(line.echo, "utf8");
+      cd.mem.set(echo, cd.inputAt + echoAt);
+      recs[3 * rows] = echoAt;
+      recs[3 * rows + 1] = echoAt + echo.length;
+      echoAt += echo.length;
+    } else {
+      if (flag === LINE_CELLS) {
+        const cs = [start];
+        for (let p = b.indexOf(44, start); p >= 0 && p < end; p = b.indexOf(44, p + 1)) cs.push(p + 1);
+        cs.push(end + 1);
+        for (let i = 0; i < na; i++) {
+          const c = plan.cols[i]!;
+          const spec = plan.specs[i]!;
+          if (c < 0) args[r * na + i] = spec.default!;
+          else args[r * na + i] = spec.choices ? stringCell(latin1(buf, cs[c]!, cs[c + 1]! - 1), spec) : numberCell(cd, buf, cs[c]!, cs[c + 1]! - 1, spec);
+        }
+      }
+      if (rows !== r) {
+        recs[3 * rows] = start;
+        recs[3 * rows + 1] = end;
+        args.copyWithin(rows * na, r * na, r * na + na);
+      }
     }
-    starts[rows] = start;
-    ends[rows] = end;
     rows++;
   }
-  const nOut = routine.outputs.length;
-  const outs = new Float64Array(Math.max(1, rows * nOut));
-  const status = new Int32Array(Math.max(1, rows));
-  callRows(k, plan.exportName, args, na, rows, outs, nOut, status);
-  return { ...formatRows(routine, plan, k, b, rows, starts, ends, echoes, args, outs, status), lineCount: lfs };
+  return rows;
 }
 
 /** Bytes [p, end) as text, one character a byte (Buffer's latin1Slice without toString's argument checks). */
@@ -596,56 +645,20 @@ function stringCell(word: string, spec: InputSpec): number {
   }
 }
 
-/** A number cell, bytes [p, end) of printable ASCII: readDecimal, else Number(), else the string path. */
-function numberCell(b: Uint8Array, buf: Buffer, p: number, end: number, spec: InputSpec): number {
-  const r = readDecimal(b, p, end);
+/**
+ * A number cell, bytes [p, end) of printable ASCII, the chunk placed in the codec: the codec's exact parse,
+ * Number() where the codec cannot prove its answer or the value under- or overflows (lostOnParse names it),
+ * the string path for anything that is not a decimal.
+ */
+function numberCell(cd: Codec, buf: Buffer, p: number, end: number, spec: InputSpec): number {
+  const r = cd.parse(p, end);
   let v: number;
-  if (r === 0) v = decimalValue[0]!;
-  else if (r === NOT_EXACT) {
+  if (r === PARSE_OK) v = cd.value;
+  else if (r === PARSE_UNSURE) {
     const word = latin1(buf, p, end);
     v = Number(word);
     if (lostOnParse(word, v)) throw FALL_BACK;
   } else return stringCell(latin1(buf, p, end), spec);
   if (spec.integer && !Number.isInteger(v)) throw FALL_BACK;
   return v;
-}
-
-/** The output bytes of the rows (evaluateLines' second pass): echo, outputs, status word; counts per status. */
-function formatRows(routine: Routine, plan: Plan, k: Kernels, b: Uint8Array, rows: number, starts: Int32Array, ends: Int32Array, echoes: readonly (Uint8Array | undefined)[], args: Float64Array, outs: Float64Array, status: Int32Array): { bytes: Uint8Array; rows: number; statuses: Record<string, number> } {
-  const nOut = routine.outputs.length;
-  const na = plan.specs.length;
-  const counts = new Map<number, number>();
-  let broken = 0;
-  const budgets = budgetSlots(routine);
-  const failed = ENCODER.encode(",NaN".repeat(nOut) + ",");
-  const one = new Float64Array(nOut);
-  const sink = SINK;
-  sink.len = 0;
-  sink.room(b.length + rows * (nOut * 24 + 12));
-  for (let r = 0; r < rows; r++) {
-    const st = status[r]!;
-    const o = r * nOut;
-    for (let i = 0; i < nOut; i++) one[i] = outs[o + i]!;
-    const bad = abiViolation(st, one, routine.outputs);
-    if (bad !== undefined) throw new ModuleError(abiViolationMessage(k.label, plan.exportName, Array.from(args.subarray(r * na, r * na + na)), bad));
-    counts.set(st, (counts.get(st) ?? 0) + 1);
-    const echo = echoes[r];
-    if (echo === undefined) sink.copy(b, starts[r]!, ends[r]!);
-    else sink.copy(echo, 0, echo.length);
-    if (isOk(st)) {
-      if (budgets.length > 0 && budgets.some((i) => one[i]! >= 0)) broken++;
-      for (let i = 0; i < nOut; i++) {
-        sink.byte(44);
-        sink.number(one[i]!);
-      }
-      sink.byte(44);
-    } else sink.copy(failed, 0, failed.length);
-    const t = statusText(st).bytes;
-    sink.copy(t, 0, t.length);
-  }
-  const statuses: Record<string, number> = {};
-  for (const [code, n] of counts) statuses[statusText(code).word] = (statuses[statusText(code).word] ?? 0) + n;
-  if (broken > 0) statuses[BUDGET_BROKEN] = broken;
-  if (k.realBytes === 4) for (let r = 0; r < rows; r++) countLosses(plan.specs, args.subarray(r * na, r * na + na), statuses);
-  return { bytes: sink.buf.subarray(0, sink.len), rows, statuses };
 }
