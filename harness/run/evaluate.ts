@@ -537,14 +537,16 @@ function slowLine(line: string, width: number): { cells: string[]; echo: string 
 
 /**
  * evaluateLines on bytes: the same checks, messages and output bytes, without decoding the text or building a
- * string per cell or per line. A line of printable ASCII with no space around its cells is read in place: its
- * cells are found by their commas, numbers read by readDecimal (Number() on the cell where it cannot be exact,
- * the string path for anything else: enumerations, nan, inf, hex patterns), the line echoed as its bytes. Any
- * other line (a space, a CR, a byte beyond ASCII) is decoded and read as evaluateLines reads it. The kernel runs
- * once over all rows (Kernels.callRows); numbers are written as bytes (ByteSink.number). Any bad cell, bad row
- * or over-long line hands the whole run to evaluateLines, which throws its message (the line numbers and
- * messages are its own). tests/eval-bytes.test.ts compares the bytes with evaluateLines on generated text.
- * The bytes returned are a view of a buffer the next call writes over: write or copy them before calling again.
+ * string per cell or per line. The chunk goes to the codec module (core/codec.ts), which cuts it into lines and
+ * reads a line of printable ASCII with no space around its cells in place: its cells found by their commas, its
+ * numbers parsed exactly (Eisel-Lemire). What the codec leaves is read here: a line with a space, a CR or a byte
+ * beyond ASCII (decoded and read as evaluateLines reads it), a word of an enumeration, nan, inf, a hex pattern,
+ * a decimal the codec could not decide (Number()). The kernel runs once over all rows (Kernels.callRows, into
+ * the codec's memory); each row is accounted (RowTally), and the codec writes the output: each line's echo, its
+ * outputs in shortest form (Schubfach), its status word. Any bad cell, bad row or over-long line hands the whole
+ * run to evaluateLines, which throws its message (the line numbers and messages are its own).
+ * tests/eval-bytes.test.ts compares the bytes with evaluateLines on generated text. The bytes returned are a
+ * view of the codec's memory, which the next call writes over: write or copy them before calling again.
  */
 export function evaluateBytes(routine: Routine, plan: Plan, width: number, source: string, k: Kernels, b: Uint8Array, firstLine: number): { bytes: Uint8Array; rows: number; lineCount: number; statuses: Record<string, number> } {
   try {
