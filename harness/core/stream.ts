@@ -1,8 +1,8 @@
 /**
  * Reading a CSV file of any size in bounded memory: the header first, then chunks of whole lines (about
- * CHUNK_BYTES each). A chunk is raw bytes ending at a line end, so it can be handed to a worker thread as it
- * is and parsed there (evaluate.ts evaluateLines: lines split on LF with one CR before it removed, cells
- * checked with parseCsv's rules and messages).
+ * CHUNK_BYTES each). A chunk is raw bytes ending at a line end (evaluate.ts evaluateBytes: lines split on LF
+ * with one CR before it removed, cells checked with parseCsv's rules and messages). Eval's workers read their
+ * own byte ranges of the file instead (readOwnedLines).
  */
 import { openSync, readSync, closeSync, fstatSync } from "node:fs";
 import { parseCsv, CsvError } from "./csv.js";
@@ -54,6 +54,8 @@ export interface CsvHead {
 export class CsvFileStream {
   private fd: number;
   private pending: Buffer = Buffer.alloc(0);
+  /** The read buffer (fill), reused; `pending` is a view of it. */
+  private buf: Buffer = Buffer.alloc(0);
   private eof = false;
   /** Total size of the file in bytes (for progress). */
   readonly size: number;
@@ -74,17 +76,28 @@ export class CsvFileStream {
     }
   }
 
-  /** Read more of the file into `pending` (READ_BYTES at a time, or a chunk if larger); false at the end of the file. */
+  /**
+   * Read more of the file into `pending` (READ_BYTES at a time, or a chunk if larger); false at the end of the
+   * file. One buffer is reused: the bytes not yet returned move to its front and the read goes after them (a
+   * larger buffer only when they fill it: a line longer than a read), so nothing but that tail is copied and no
+   * fresh memory is touched per read. Chunks returned before are overwritten (nextChunk says so).
+   */
   private fill(): boolean {
     if (this.eof) return false;
-    const buf = Buffer.allocUnsafe(Math.max(READ_BYTES, this.chunkBytes));
-    const n = readSync(this.fd, buf, 0, buf.length, null);
+    const keep = this.pending.length;
+    const want = keep + Math.max(READ_BYTES, this.chunkBytes);
+    if (this.buf.length < want) {
+      const next = Buffer.allocUnsafe(Math.max(want, 2 * this.buf.length));
+      this.pending.copy(next, 0);
+      this.buf = next;
+    } else if (keep > 0) this.pending.copy(this.buf, 0); // Buffer.copy allows the regions to overlap
+    const n = readSync(this.fd, this.buf, keep, this.buf.length - keep, null);
+    this.pending = this.buf.subarray(0, keep + n);
     if (n === 0) {
       this.eof = true;
       return false;
     }
     this.bytesRead += n;
-    this.pending = this.pending.length === 0 ? buf.subarray(0, n) : Buffer.concat([this.pending, buf.subarray(0, n)]);
     return true;
   }
 
@@ -119,7 +132,8 @@ export class CsvFileStream {
 
   /**
    * The next run of whole lines: up to chunkBytes, ending at a line end (more only when one line is longer), or
-   * undefined at the end. The bytes are a copy with their own buffer: they are sent to a worker as they are.
+   * undefined at the end. The bytes are a view of the reader's buffer (no copy): use them before the next call,
+   * which may overwrite them.
    */
   nextChunk(): Uint8Array | undefined {
     for (;;) {
@@ -127,13 +141,13 @@ export class CsvFileStream {
         let lf = this.pending.lastIndexOf(LF, this.chunkBytes - 1);
         if (lf < 0) lf = this.pending.indexOf(LF, this.chunkBytes); // a line longer than a chunk
         if (lf >= 0) {
-          const out = new Uint8Array(this.pending.subarray(0, lf + 1));
+          const out = this.pending.subarray(0, lf + 1);
           this.pending = this.pending.subarray(lf + 1);
           return out;
         }
         if (this.eof) {
           if (this.pending.length === 0) return undefined;
-          const out = new Uint8Array(this.pending); // an unterminated last line
+          const out = this.pending; // an unterminated last line
           this.pending = Buffer.alloc(0);
           return out;
         }
