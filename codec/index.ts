@@ -36,8 +36,17 @@ import { G, G_K_MIN, POW5, POW5_Q_MIN, POW5_Q_MAX } from "./tables";
 /** The parsed value (parse) lives here; the host reads it at parse_value_ptr(). */
 const VALUE: usize = memory.data(8, 8);
 /** Digits of one number, written backwards from the end (format). */
-const DIGITS: usize = memory.data(32, 8);
-const DIGITS_END: usize = DIGITS + 32;
+const DIGITS: usize = memory.data(40, 8);
+const DIGITS_END: usize = DIGITS + 32; // 8 bytes after it for copyOver's reads
+
+/** "00" "01" ... "99": the two digits of each number below 100. */
+const PAIRS: usize = memory.data<u8>([
+  48,48,48,49,48,50,48,51,48,52,48,53,48,54,48,55,48,56,48,57,49,48,49,49,49,50,49,51,49,52,49,53,49,54,49,55,49,56,49,57,
+  50,48,50,49,50,50,50,51,50,52,50,53,50,54,50,55,50,56,50,57,51,48,51,49,51,50,51,51,51,52,51,53,51,54,51,55,51,56,51,57,
+  52,48,52,49,52,50,52,51,52,52,52,53,52,54,52,55,52,56,52,57,53,48,53,49,53,50,53,51,53,52,53,53,53,54,53,55,53,56,53,57,
+  54,48,54,49,54,50,54,51,54,52,54,53,54,54,54,55,54,56,54,57,55,48,55,49,55,50,55,51,55,52,55,53,55,54,55,55,55,56,55,57,
+  56,48,56,49,56,50,56,51,56,52,56,53,56,54,56,55,56,56,56,57,57,48,57,49,57,50,57,51,57,52,57,53,57,54,57,55,57,56,57,57,
+]);
 
 /** How many parses answered PARSE_UNSURE for want of a proof (not counting zero and infinity). */
 let unsure: i32 = 0;
@@ -119,22 +128,28 @@ let digitCount: i32 = 0;
 /** The digits of f (1 <= f < 10^17) ending at DIGITS_END; returns where they start (digitCount: how many). */
 function writeDigits(f: u64): usize {
   let p = DIGITS_END;
-  // two u32 halves: hi = f / 10^8 (< 10^9), lo = f mod 10^8
-  let hi = <u32>(f / 100000000);
+  // two u32 halves: hi = f / 10^8 (< 10^9), lo = f mod 10^8; two digits a step (PAIRS)
+  const hi = <u32>(f / 100000000);
   let lo = <u32>(f - <u64>hi * 100000000);
   if (hi !== 0) {
-    for (let i = 0; i < 8; i++) {
-      const q = lo / 10;
-      store<u8>(--p, <u8>(48 + lo - q * 10));
+    for (let i = 0; i < 4; i++) {
+      const q = lo / 100;
+      p -= 2;
+      store<u16>(p, load<u16>(PAIRS + ((lo - q * 100) << 1)));
       lo = q;
     }
     lo = hi;
   }
-  do {
-    const q = lo / 10;
-    store<u8>(--p, <u8>(48 + lo - q * 10));
+  while (lo >= 100) {
+    const q = lo / 100;
+    p -= 2;
+    store<u16>(p, load<u16>(PAIRS + ((lo - q * 100) << 1)));
     lo = q;
-  } while (lo !== 0);
+  }
+  if (lo >= 10) {
+    p -= 2;
+    store<u16>(p, load<u16>(PAIRS + (lo << 1)));
+  } else store<u8>(--p, <u8>(48 + lo));
   digitCount = <i32>(DIGITS_END - p);
   return p;
 }
@@ -152,28 +167,28 @@ function layOut(dst: usize, f: u64, e: i32): usize {
   }
   const n = e + len; // x = 0.d1 d2 ... d_len * 10^n
   if (len <= n && n <= FIXED_MAX) {
-    memory.copy(dst, first, len);
+    copyOver(dst, first, len);
     dst += len;
     for (let i = len; i < n; i++) store<u8>(dst++, 48);
     return dst;
   }
   if (0 < n && n <= FIXED_MAX) {
-    memory.copy(dst, first, n);
+    copyOver(dst, first, n);
     store<u8>(dst + n, 46);
-    memory.copy(dst + n + 1, first + n, len - n);
+    copyOver(dst + n + 1, first + n, len - n);
     return dst + len + 1;
   }
   if (FIXED_MIN < n && n <= 0) {
     store<u8>(dst++, 48);
     store<u8>(dst++, 46);
     for (let i = n; i < 0; i++) store<u8>(dst++, 48);
-    memory.copy(dst, first, len);
+    copyOver(dst, first, len);
     return dst + len;
   }
   store<u8>(dst++, load<u8>(first));
   if (len > 1) {
     store<u8>(dst++, 46);
-    memory.copy(dst, first + 1, len - 1);
+    copyOver(dst, first + 1, len - 1);
     dst += len - 1;
   }
   store<u8>(dst++, 101);
@@ -422,12 +437,25 @@ export const COL_DEFAULT: i32 = -1;
 /** An argument the host reads (an enumeration's word). */
 export const COL_HOST: i32 = -2;
 
-/** The count of LF bytes in [p, p + len). */
+/** The count of LF bytes in [p, p + len): eight bytes at a time (an exact zero-byte test of x ^ 0x0a..0a, then popcnt). */
 export function count_lf(p: usize, len: i32): i32 {
-  let n = 0;
+  let n: i32 = 0;
   const end = p + <usize>len;
+  const LF8: u64 = 0x0a0a0a0a0a0a0a0a;
+  const LOW7: u64 = 0x7f7f7f7f7f7f7f7f;
+  for (; p + 8 <= end; p += 8) {
+    const y = load<u64>(p) ^ LF8;
+    const zero = ~(((y & LOW7) + LOW7) | y | LOW7); // the high bit of each byte of y that is zero
+    n += <i32>popcnt(zero);
+  }
   for (; p < end; p++) if (load<u8>(p) === 10) n++;
   return n;
+}
+
+/** Copy n bytes from src to dst eight at a time: may write up to 7 bytes past dst + n and read past src + n (callers leave that room). */
+// @ts-ignore: decorator
+@inline function copyOver(dst: usize, src: usize, n: usize): void {
+  for (let i: usize = 0; i < n; i += 8) store<u64>(dst + i, load<u64>(src + i));
 }
 
 /** A byte trim() certainly keeps at a cell's end: printable ASCII (evaluate.ts keptByTrim). */
@@ -448,24 +476,25 @@ export function scan(inp: usize, len: i32, width: i32, na: i32, cols: usize, def
   let recsN = 0;
   let pos: i32 = 0;
   while (pos < len) {
-    let lf = pos;
-    while (lf < len && load<u8>(inp + lf) !== 10) lf++;
+    // One pass over the line: its LF, its commas (each with a byte trim() keeps on both sides), any byte beyond ASCII.
     const start = pos;
+    let flag = 0;
+    let n = 0;
+    store<i32>(cs, start);
+    let lf = pos;
+    for (; lf < len; lf++) {
+      const c = <u32>load<u8>(inp + lf);
+      if (c === 10) break;
+      if (c === 44) {
+        if (++n >= width || lf === start || !kept(load<u8>(inp + lf - 1)) || lf + 1 >= len || !kept(load<u8>(inp + lf + 1))) flag = LINE_SLOW;
+        else store<i32>(cs + (<usize>n << 2), lf + 1);
+      } else if (c >= 128) flag = LINE_SLOW;
+    }
     const end = lf < len && lf > pos && load<u8>(inp + lf - 1) === 13 ? lf - 1 : lf;
     pos = lf + 1;
     if (end - start > maxLine) return SCAN_FALL_BACK;
     if (end > start && load<u8>(inp + start) === 35) continue; // '#': a comment
-    let flag = 0;
-    let n = 0;
     if (end === start || !kept(load<u8>(inp + start)) || !kept(load<u8>(inp + end - 1))) flag = LINE_SLOW;
-    store<i32>(cs, start);
-    for (let p = start; flag === 0 && p < end; p++) {
-      const c = <u32>load<u8>(inp + p);
-      if (c === 44) {
-        if (++n >= width || p === start || !kept(load<u8>(inp + p - 1)) || p + 1 === end || !kept(load<u8>(inp + p + 1))) flag = LINE_SLOW;
-        else store<i32>(cs + (<usize>n << 2), p + 1);
-      } else if (c >= 128) flag = LINE_SLOW;
-    }
     if (flag === 0) {
       if (n + 1 !== width) return SCAN_FALL_BACK;
       store<i32>(cs + (<usize>width << 2), end + 1);
@@ -509,7 +538,7 @@ export function assemble(inp: usize, rows: i32, recs: usize, n: i32, vals: usize
     const rec = recs + <usize>r * 12;
     const a = load<i32>(rec);
     const len = load<i32>(rec, 4) - a;
-    memory.copy(dst, inp + <usize>a, <usize>len);
+    copyOver(dst, inp + <usize>a, <usize>len);
     dst += <usize>len;
     const entry = table + (<usize>load<u8>(st + <usize>r) << 6);
     if (load<u8>(entry) !== 0) {
@@ -523,7 +552,7 @@ export function assemble(inp: usize, rows: i32, recs: usize, n: i32, vals: usize
     }
     store<u8>(dst++, 44);
     const tl = <usize>load<u8>(entry, 1);
-    memory.copy(dst, entry + 2, tl);
+    copyOver(dst, entry + 2, tl);
     dst += tl;
   }
   return dst;
