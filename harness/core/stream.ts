@@ -185,25 +185,52 @@ export interface OwnedLines {
  * read their own ranges of the file and the outputs, joined in range order, are those of one sequential pass.
  */
 export function readOwnedLines(path: string, first: number, size: number, start: number, end: number, source = path): OwnedLines {
-  const fd = openSync(path, "r");
+  const r = new RangeReader(path, first, size, source);
   try {
+    const own = r.read(start, end);
+    return { ...own, bytes: Buffer.from(own.bytes) }; // a copy: the reader's buffer goes with it
+  } finally {
+    r.close();
+  }
+}
+
+/**
+ * readOwnedLines for many ranges of one file (an eval worker's): the file stays open and one buffer is reused,
+ * so a range costs its reads and nothing else. The bytes of a range are a view of that buffer, valid until the
+ * next read.
+ */
+export class RangeReader {
+  private fd: number;
+  private buf: Buffer = Buffer.alloc(0);
+
+  constructor(path: string, private readonly first: number, private readonly size: number, private readonly source = path) {
+    this.fd = openSync(path, "r");
+  }
+
+  /** The lines that start in [start, end) (readOwnedLines). */
+  read(start: number, end: number): OwnedLines {
+    const { first, size, source } = this;
     const lo = Math.max(first, start - 1);
-    let buf = Buffer.allocUnsafe(0);
-    let have = lo; // buf holds the file's bytes [lo, have)
-    // Read until `buf` holds a LF at or after file offset `from`, or the end of the file; the LF's offset or -1.
-    // Each read is at least as large as what is held, so the copies add up to a multiple of the bytes read
-    // (linear in the line length); a line longer than MAX_LINE_BYTES is an error.
+    let held = 0; // this.buf[0, held) holds the file's bytes [lo, lo + held)
+    // Read until the buffer holds a LF at or after file offset `from`, or the end of the file; the LF's offset
+    // or -1. Each read is at least as large as what is held (the buffer at least doubles when it must grow), so
+    // the copies add up to a multiple of the bytes read; a line longer than MAX_LINE_BYTES is an error.
     const lfFrom = (from: number): number => {
       for (;;) {
-        const i = buf.indexOf(LF, Math.max(0, from - lo));
+        const i = this.buf.subarray(0, held).indexOf(LF, Math.max(0, from - lo));
         if (i >= 0) return lo + i;
+        const have = lo + held;
         if (have >= size) return -1;
         if (have - Math.max(from, lo) > MAX_LINE_BYTES) throw new LineTooLong(source, Math.max(from, lo));
-        const more = Buffer.allocUnsafe(Math.max(READ_AHEAD, end - have + READ_AHEAD, buf.length));
-        const n = readSync(fd, more, 0, more.length, have);
+        const more = Math.max(READ_AHEAD, end - have + READ_AHEAD, held);
+        if (this.buf.length < held + more) {
+          const next = Buffer.allocUnsafe(Math.max(held + more, 2 * this.buf.length));
+          this.buf.copy(next, 0, 0, held);
+          this.buf = next;
+        }
+        const n = readSync(this.fd, this.buf, held, more, have);
         if (n === 0) return -1;
-        buf = buf.length === 0 ? more.subarray(0, n) : Buffer.concat([buf, more.subarray(0, n)]);
-        have += n;
+        held += n;
       }
     };
     let begin: number;
@@ -216,10 +243,13 @@ export function readOwnedLines(path: string, first: number, size: number, start:
     if (begin >= end || begin >= size) return { begin, finish: begin, bytes: Buffer.alloc(0) };
     const lf = end >= size ? -1 : lfFrom(end - 1);
     const finish = lf < 0 ? size : lf + 1;
-    if (have < finish) lfFrom(finish); // the unterminated last line: read to the end
-    return { begin, finish, bytes: buf.subarray(begin - lo, finish - lo) };
-  } finally {
-    closeSync(fd);
+    if (lo + held < finish) lfFrom(finish); // the unterminated last line: read to the end
+    return { begin, finish, bytes: this.buf.subarray(begin - lo, finish - lo) };
+  }
+
+  close(): void {
+    if (this.fd >= 0) closeSync(this.fd);
+    this.fd = -1;
   }
 }
 

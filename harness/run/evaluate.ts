@@ -17,8 +17,8 @@ import { callRows, type Kernels } from "../module/load.js";
 import { statusWord, isOk, abiViolation, abiViolationMessage } from "../module/status.js";
 import { ModuleError } from "../module/load.js";
 import { codec, PARSE_OK, PARSE_UNSURE, COL_DEFAULT, COL_HOST, LINE_CELLS, LINE_SLOW, SCAN_FALL_BACK, type Codec, type ChunkLayout } from "../core/codec.js";
-import { CsvFileStream, CHUNK_BYTES, readOwnedLines, isSkippedBeforeHeader, LineTooLong, MAX_LINE_BYTES } from "../core/stream.js";
-import { WorkerPool, type KernelSource } from "../core/pool.js";
+import { CsvFileStream, CHUNK_BYTES, readOwnedLines, RangeReader, isSkippedBeforeHeader, LineTooLong, MAX_LINE_BYTES } from "../core/stream.js";
+import { WorkerPool, sharedView, releaseShared, type KernelSource, type SharedBytes } from "../core/pool.js";
 
 export class EvalError extends Error {}
 
@@ -232,14 +232,18 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
     // bad cell is named by its byte offset, as with workers).
     const shard = opts.shard === undefined ? undefined : shardBytes(stream.position, stream.size, opts.shard.k, opts.shard.n);
     if (shard !== undefined && opts.workers <= 1) {
-      const init = { columns: head.columns, source, path, first: stream.position, size: stream.size };
+      const init = { reader: new RangeReader(path, stream.position, stream.size, source), columns: head.columns, source };
       const step = opts.chunkBytes ?? CHUNK_BYTES;
-      for (let start = shard.lo; start < shard.hi; start += step) {
-        const r = evalRange(routine, plan, init, opts.kernels, start, Math.min(shard.hi, start + step));
-        if (r.error !== undefined) throw new EvalError(`${source}: in the lines from byte ${r.begin}: ${r.error}`);
-        write(r.bytes);
-        add(r.rows, r.statuses, r.finish);
-        await turn();
+      try {
+        for (let start = shard.lo; start < shard.hi; start += step) {
+          const r = evalRange(routine, plan, init, opts.kernels, start, Math.min(shard.hi, start + step));
+          if (r.error !== undefined) throw new EvalError(`${source}: in the lines from byte ${r.begin}: ${r.error}`);
+          write(r.bytes);
+          add(r.rows, r.statuses, r.finish);
+          await turn();
+        }
+      } finally {
+        init.reader.close();
       }
     } else if (shard === undefined && (opts.workers <= 1 || stream.size <= (opts.chunkBytes ?? CHUNK_BYTES))) {
       // A file of one chunk or less gains nothing from threads: it is run here (the bytes are the same).
@@ -266,7 +270,12 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
       };
       await pool.runOrdered<{ start: number; end: number }, EvalChunkResult>(ranges, (r) => {
         if (r.ok && r.value.error === undefined) {
-          write(r.value.bytes);
+          const shared = r.value.shared;
+          if (shared === undefined) write(r.value.bytes);
+          else {
+            write(sharedView(shared));
+            releaseShared(shared);
+          }
           line += r.value.lineCount;
           add(r.value.rows, r.value.statuses, r.value.finish);
           return;
@@ -301,8 +310,13 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
 
 /** What a worker sends back for one byte range of an eval. */
 export interface EvalChunkResult {
-  /** The output lines, UTF-8. */
+  /**
+   * The output lines, UTF-8: from evalRange a view of the codec's memory (valid until its next call); from a
+   * worker a buffer of its own, or empty with the bytes in `shared`.
+   */
   readonly bytes: Uint8Array;
+  /** The output lines in a worker's shared slot (core/pool.ts OutputSlots), when they went that way. */
+  readonly shared?: SharedBytes;
   readonly rows: number;
   /** Line ends in the range's lines. */
   readonly lineCount: number;
@@ -314,9 +328,16 @@ export interface EvalChunkResult {
   readonly error?: string;
 }
 
+/** The file an eval's ranges are read from: its reader (the file kept open), its columns and name. */
+export interface RangeSource {
+  readonly reader: RangeReader;
+  readonly columns: readonly string[];
+  readonly source: string;
+}
+
 /** A worker's half of evaluateFile: the lines starting in the file's bytes [start, end), numbered from 1. */
-export function evalRange(routine: Routine, plan: Plan, init: { readonly columns: readonly string[]; readonly source: string; readonly path: string; readonly first: number; readonly size: number }, k: Kernels, start: number, end: number): EvalChunkResult {
-  const own = readOwnedLines(init.path, init.first, init.size, start, end, init.source);
+export function evalRange(routine: Routine, plan: Plan, init: RangeSource, k: Kernels, start: number, end: number): EvalChunkResult {
+  const own = init.reader.read(start, end);
   const none = { bytes: new Uint8Array(0), rows: 0, lineCount: 0, statuses: {}, begin: own.begin, finish: own.finish };
   let res: ReturnType<typeof evaluateBytes>;
   try {
@@ -325,8 +346,7 @@ export function evalRange(routine: Routine, plan: Plan, init: { readonly columns
     if (err instanceof CsvError || err instanceof EvalError) return { ...none, error: err.message };
     throw err;
   }
-  // A buffer of its own (the output of evaluateBytes is a view of a buffer it reuses), transferred back without a copy.
-  return { bytes: res.bytes.slice(), rows: res.rows, lineCount: res.lineCount, statuses: res.statuses, begin: own.begin, finish: own.finish };
+  return { bytes: res.bytes, rows: res.rows, lineCount: res.lineCount, statuses: res.statuses, begin: own.begin, finish: own.finish };
 }
 
 const ENCODER = new TextEncoder();
