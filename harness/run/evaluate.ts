@@ -168,12 +168,13 @@ export function shardBytes(first: number, size: number, k: number, n: number): {
 /**
  * Evaluate a routine over a CSV file of any size, streamed in chunks. With one worker this thread reads the
  * file in chunks of whole lines and evaluates them; with more, this thread reads only the header and hands out
- * byte ranges, each worker reads the lines that start in its ranges (readOwnedLines) and sends back their output
- * bytes, and this thread writes them in range order (when this thread read, copied and posted every chunk,
- * `npm run bench:workers` measured 1.30x for 2 workers on 4,000,000 rows; 1.34x-1.45x since). The output
- * goes to a temporary file that is renamed to `out` (or copied to stdout) only when every row has passed; on
- * any error the temporary file is removed and nothing is written. The bytes do not depend on the number of
- * workers. Throws EvalError or CsvError with the same messages as `evaluateCsv`.
+ * byte ranges, each worker reads the lines that start in its ranges (RangeReader) and leaves their output bytes
+ * in a shared slot (OutputSlots), and this thread writes them in range order; while the workers start, this
+ * thread runs the first ranges itself. (When this thread read, copied and posted every chunk, `npm run
+ * bench:workers` measured 1.30x for 2 workers on 4,000,000 rows.) The output goes to a temporary file that is
+ * renamed to `out` (or copied to stdout) only when every row has passed; on any error the temporary file is
+ * removed and nothing is written. The bytes do not depend on the number of workers. Throws EvalError or
+ * CsvError with the same messages as `evaluateCsv`.
  */
 export async function evaluateFile(routine: Routine, path: string, source: string, opts: FileEvalOptions): Promise<{ rows: number; statuses: Record<string, number> }> {
   const target = opts.out;
@@ -185,6 +186,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
   let tmp: string | undefined;
   let tmpDir: string | undefined;
   let pool: WorkerPool | undefined;
+  let starting: Promise<void> | undefined; // the pool's start, which never rejects (its error is kept)
   let line = 0;
   const cannotWrite = (err: unknown): Error => cannotWriteFile(target ?? "stdout", err);
   try {
@@ -253,13 +255,53 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
       }
     } else {
       // Each worker reads its own byte ranges of the file (readOwnedLines: the lines starting in the range), so
-      // this thread only hands out ranges and writes the results, in range order.
+      // this thread only hands out ranges and writes the results, in range order. While the workers start (a
+      // fifth of a 2,000,000-row run), this thread runs the first ranges itself: the same bytes, in the same order.
       const first = stream.position;
       const size = stream.size;
       const step = opts.chunkBytes ?? CHUNK_BYTES;
-      pool = await WorkerPool.start(opts.workers, { kind: "eval", load: opts.load, routine: routine.name, columns: head.columns, source, path, first, size });
       let next = shard?.lo ?? first;
       const stop = shard?.hi ?? size;
+      let startError: unknown;
+      let started = false;
+      starting = WorkerPool.start(opts.workers, { kind: "eval", load: opts.load, routine: routine.name, columns: head.columns, source, path, first, size }).then(
+        (p) => {
+          pool = p;
+          started = true;
+        },
+        (err: unknown) => {
+          startError = err;
+          started = true;
+        },
+      );
+      const take = (v: EvalChunkResult): void => {
+        if (v.error === undefined) {
+          if (v.shared === undefined) write(v.bytes);
+          else {
+            write(sharedView(v.shared));
+            releaseShared(v.shared);
+          }
+          line += v.lineCount;
+          add(v.rows, v.statuses, v.finish);
+          return;
+        }
+        // The lines were numbered from 1: run them here, where the line numbers are known, for the message.
+        here(readOwnedLines(path, first, size, v.begin, v.finish).bytes);
+        throw new EvalError(`${source}: a worker failed on lines from ${line}: ${v.error}`);
+      };
+      const own = { reader: new RangeReader(path, first, size, source), columns: head.columns, source };
+      try {
+        while (!started && next < stop) {
+          const end = Math.min(stop, next + step);
+          take(evalRange(routine, plan, own, opts.kernels, next, end));
+          next = end;
+          await turn(); // the workers' messages, and an interrupt (cleanup.ts)
+        }
+      } finally {
+        own.reader.close();
+      }
+      await starting;
+      if (startError !== undefined) throw startError;
       const ranges: Iterator<{ start: number; end: number }> = {
         next: () => {
           if (next >= stop) return { done: true, value: undefined };
@@ -268,21 +310,9 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
           return { done: false, value: r };
         },
       };
-      await pool.runOrdered<{ start: number; end: number }, EvalChunkResult>(ranges, (r) => {
-        if (r.ok && r.value.error === undefined) {
-          const shared = r.value.shared;
-          if (shared === undefined) write(r.value.bytes);
-          else {
-            write(sharedView(shared));
-            releaseShared(shared);
-          }
-          line += r.value.lineCount;
-          add(r.value.rows, r.value.statuses, r.value.finish);
-          return;
-        }
-        // The worker numbered lines from 1: run its lines here, where the line numbers are known, for the message.
-        if (r.ok) here(readOwnedLines(path, first, size, r.value.begin, r.value.finish).bytes);
-        throw new EvalError(`${source}: a worker failed on lines from ${line}: ${r.ok ? r.value.error : r.message}`);
+      await pool!.runOrdered<{ start: number; end: number }, EvalChunkResult>(ranges, (r) => {
+        if (r.ok) return take(r.value);
+        throw new EvalError(`${source}: a worker failed on lines from ${line}: ${r.message}`);
       });
     }
     try {
@@ -300,6 +330,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
     throw err;
   } finally {
     stream.close();
+    if (starting) await starting;
     if (pool) await pool.close();
     if (fd >= 0) closeSync(fd);
     if (tmp !== undefined && target !== undefined) rmSync(tmp, { force: true });
