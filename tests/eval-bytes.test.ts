@@ -160,3 +160,18 @@ describe("evaluateBytes", () => {
     );
   });
 });
+
+describe("evaluateBytes on a table wider than the codec's layout", () => {
+  it("reads it through the string path: the same bytes as evaluateLines (17,000 columns)", () => {
+    const elliptic = findRoutine("kepler-elliptic")!;
+    const extra = Array.from({ length: 16998 }, (_, i) => `c${i}`);
+    const columns = ["e", "M", ...extra];
+    const k = release();
+    const plan = prepareEval(elliptic, columns, "wide.csv", k);
+    const text = `0.5,1,${extra.map(() => "7").join(",")}\n0.25,-2,${extra.map(() => "x").join(",")}\n`;
+    const want = evaluateLines(elliptic, plan, columns.length, "wide.csv", k, text, 2);
+    const got = evaluateBytes(elliptic, plan, columns.length, "wide.csv", k, enc.encode(text), 2);
+    expect(new TextDecoder().decode(got.bytes)).toBe(want.text);
+    expect(got.rows).toBe(2);
+  });
+});

@@ -117,11 +117,13 @@ export class Codec {
   /**
    * Place a chunk (as `place`) and lay out the regions for its rows: up to one a line end and one more, `na`
    * arguments and `nOut` outputs each. `cols` per argument: a column, COL_DEFAULT (from `defaults`) or COL_HOST.
+   * Undefined for a table wider than the layout's room for one line's commas (about 16,000 columns): the caller
+   * reads such a chunk itself.
    */
-  begin(b: Uint8Array, width: number, cols: readonly number[], defaults: readonly number[], nOut: number): ChunkLayout {
+  begin(b: Uint8Array, width: number, cols: readonly number[], defaults: readonly number[], nOut: number): ChunkLayout | undefined {
     const len = b.length;
     const na = cols.length;
-    if (8 * na + 4 * cols.length + 4 * (width + 1) + 64 > PAGE) throw new RangeError(`codec: ${width} columns, ${na} arguments are more than a chunk layout holds`);
+    if (12 * na + 4 * (width + 1) + 64 > PAGE) return undefined;
     this.place(b);
     const lineEnds = this.ex.count_lf(this.inputAt, len);
     const maxRows = lineEnds + 1;

@@ -615,6 +615,7 @@ function evaluateBytesFast(routine: Routine, plan: Plan, width: number, source: 
   const cd = codec();
   const cols = plan.cols.map((c, i) => (c < 0 ? COL_DEFAULT : plan.specs[i]!.choices ? COL_HOST : c));
   const l = cd.begin(b, width, cols, plan.specs.map((s) => s.default ?? 0), nOut);
+  if (l === undefined) throw FALL_BACK; // a table too wide for the codec's layout
   const records = cd.scan(l, width, MAX_LINE_BYTES);
   if (records === SCAN_FALL_BACK) throw FALL_BACK;
   const rows = hostLines(cd, l, records, plan, width, b);
