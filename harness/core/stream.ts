@@ -185,30 +185,33 @@ export interface OwnedLines {
  * read their own ranges of the file and the outputs, joined in range order, are those of one sequential pass.
  */
 export function readOwnedLines(path: string, first: number, size: number, start: number, end: number, source = path): OwnedLines {
-  const r = new RangeReader(path, first, size, source);
-  try {
-    const own = r.read(start, end);
-    return { ...own, bytes: Buffer.from(own.bytes) }; // a copy: the reader's buffer goes with it
-  } finally {
-    r.close();
-  }
+  const own = new RangeReader(path, first, size, source).read(start, end);
+  return { ...own, bytes: Buffer.from(own.bytes) }; // a copy of its own
 }
 
 /**
- * readOwnedLines for many ranges of one file (an eval worker's): the file stays open and one buffer is reused,
- * so a range costs its reads and nothing else. The bytes of a range are a view of that buffer, valid until the
- * next read.
+ * readOwnedLines for many ranges of one file (an eval worker's): one buffer is reused, so a range costs its
+ * reads (and the file's opening and closing: no descriptor is held between ranges, so a worker ended by
+ * terminate() leaves none open). The bytes of a range are a view of that buffer, valid until the next read.
  */
 export class RangeReader {
-  private fd: number;
+  private fd = -1;
   private buf: Buffer = Buffer.alloc(0);
 
-  constructor(path: string, private readonly first: number, private readonly size: number, private readonly source = path) {
-    this.fd = openSync(path, "r");
-  }
+  constructor(private readonly path: string, private readonly first: number, private readonly size: number, private readonly source = path) {}
 
   /** The lines that start in [start, end) (readOwnedLines). */
   read(start: number, end: number): OwnedLines {
+    this.fd = openSync(this.path, "r");
+    try {
+      return this.readOpen(start, end);
+    } finally {
+      closeSync(this.fd);
+      this.fd = -1;
+    }
+  }
+
+  private readOpen(start: number, end: number): OwnedLines {
     const { first, size, source } = this;
     const lo = Math.max(first, start - 1);
     let held = 0; // this.buf[0, held) holds the file's bytes [lo, lo + held)
@@ -245,11 +248,6 @@ export class RangeReader {
     const finish = lf < 0 ? size : lf + 1;
     if (lo + held < finish) lfFrom(finish); // the unterminated last line: read to the end
     return { begin, finish, bytes: this.buf.subarray(begin - lo, finish - lo) };
-  }
-
-  close(): void {
-    if (this.fd >= 0) closeSync(this.fd);
-    this.fd = -1;
   }
 }
 

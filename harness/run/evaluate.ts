@@ -236,16 +236,12 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
     if (shard !== undefined && opts.workers <= 1) {
       const init = { reader: new RangeReader(path, stream.position, stream.size, source), columns: head.columns, source };
       const step = opts.chunkBytes ?? CHUNK_BYTES;
-      try {
-        for (let start = shard.lo; start < shard.hi; start += step) {
-          const r = evalRange(routine, plan, init, opts.kernels, start, Math.min(shard.hi, start + step));
-          if (r.error !== undefined) throw new EvalError(`${source}: in the lines from byte ${r.begin}: ${r.error}`);
-          write(r.bytes);
-          add(r.rows, r.statuses, r.finish);
-          await turn();
-        }
-      } finally {
-        init.reader.close();
+      for (let start = shard.lo; start < shard.hi; start += step) {
+        const r = evalRange(routine, plan, init, opts.kernels, start, Math.min(shard.hi, start + step));
+        if (r.error !== undefined) throw new EvalError(`${source}: in the lines from byte ${r.begin}: ${r.error}`);
+        write(r.bytes);
+        add(r.rows, r.statuses, r.finish);
+        await turn();
       }
     } else if (shard === undefined && (opts.workers <= 1 || stream.size <= (opts.chunkBytes ?? CHUNK_BYTES))) {
       // A file of one chunk or less gains nothing from threads: it is run here (the bytes are the same).
@@ -290,15 +286,11 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
         throw new EvalError(`${source}: a worker failed on lines from ${line}: ${v.error}`);
       };
       const own = { reader: new RangeReader(path, first, size, source), columns: head.columns, source };
-      try {
-        while (!started && next < stop) {
-          const end = Math.min(stop, next + step);
-          take(evalRange(routine, plan, own, opts.kernels, next, end));
-          next = end;
-          await turn(); // the workers' messages, and an interrupt (cleanup.ts)
-        }
-      } finally {
-        own.reader.close();
+      while (!started && next < stop) {
+        const end = Math.min(stop, next + step);
+        take(evalRange(routine, plan, own, opts.kernels, next, end));
+        next = end;
+        await turn(); // the workers' messages, and an interrupt (cleanup.ts)
       }
       await starting;
       if (startError !== undefined) throw startError;

@@ -43,7 +43,6 @@ async function setUp(init: WorkerInit): Promise<Handler> {
       const { prepareEval, evalRange } = await import("./evaluate.js");
       const routine = routineOf(init.routine);
       const plan = prepareEval(routine, init.columns, init.source);
-      // The file stays open for the worker's life (the process's exit closes it).
       const src = { reader: new RangeReader(init.path, init.first, init.size, init.source), columns: init.columns, source: init.source };
       const slots = new OutputSlots(EVAL_SLOT_BYTES, EVAL_SLOTS);
       return (job) => {
