@@ -74,11 +74,12 @@ export function runIn(cwd, cmd, args, timeoutMs = 20 * 60_000) {
 
 /**
  * What a mutant of `file` needs rebuilt: asc targets of asconfig.json for a kernel (the release build unless it
- * says), or "tsc" for the harness, whose compiled copy in dist/ is what the command line runs (tests that spawn
+ * says), "codec" for the codec module (codec/asconfig.json), or "tsc" for the harness, whose compiled copy in dist/ is what the command line runs (tests that spawn
  * `areal` would otherwise test the unchanged harness).
  */
 function targetsFor(m) {
   if (m.file.startsWith("harness/")) return ["tsc"];
+  if (m.file.startsWith("codec/")) return ["codec"]; // the harness's codec module (codec/asconfig.json)
   if (!m.file.startsWith("assembly/")) return [];
   return m.targets ?? ["release"];
 }
@@ -88,6 +89,11 @@ export async function buildTargets(dir, targets) {
   for (const t of targets) {
     if (t === "tsc") {
       const r = await runIn(dir, process.execPath, [join(dir, "node_modules", "typescript", "bin", "tsc"), "-p", "tsconfig.json"]);
+      if (r.code !== 0) return r;
+      continue;
+    }
+    if (t === "codec") {
+      const r = await runIn(dir, process.execPath, [join(dir, "node_modules", "assemblyscript", "bin", "asc.js"), "--config", "codec/asconfig.json", "--target", "release"]);
       if (r.code !== 0) return r;
       continue;
     }

@@ -3,7 +3,7 @@
 // per-chunk work of each command run in one thread, then in two independent threads each doing the same
 // amount, in one process, with no reading, writing or messages between them).
 //
-//   npm run bench:workers -- [--rows 4000000] [--grid 3000] [--reps 5] [--dir DIR] [--json out.json]
+//   npm run bench:workers -- [--rows 4000000] [--grid 3000] [--reps 5] [--dir DIR] [--json out.json] [--eval-only]
 //
 // Runs are interleaved (1 worker, 2 workers, 1, 2, ...) so that a change in the machine's load hits both
 // alike; each ratio is the median of the per-repetition ratios. The outputs of 1 and 2 workers are compared
@@ -30,7 +30,7 @@ async function ceilingWork({ kind, input, grid, first, end }) {
   const { findRoutine } = await import(dist("module/routines.js"));
   const k = loadBuild("f64");
   if (kind === "eval") {
-    const { prepareEval, evaluateLines } = await import(dist("run/evaluate.js"));
+    const { prepareEval, evaluateBytes } = await import(dist("run/evaluate.js"));
     const { CHUNK_BYTES } = await import(dist("core/stream.js"));
     const r = findRoutine("kepler-elliptic");
     const buf = readFileSync(input);
@@ -40,8 +40,8 @@ async function ceilingWork({ kind, input, grid, first, end }) {
     for (let pos = buf.indexOf(10) + 1; pos < buf.length; ) {
       let end = buf.lastIndexOf(10, Math.min(buf.length, pos + CHUNK_BYTES) - 1) + 1;
       if (end <= pos) end = buf.length;
-      const res = evaluateLines(r, plan, 2, "input", k, buf.toString("utf8", pos, end), 1);
-      bytes += Buffer.from(res.text).length; // the encoding a worker does before sending its bytes back
+      const res = evaluateBytes(r, plan, 2, "input", k, buf.subarray(pos, end), 1); // eval's path (the codec)
+      bytes += res.bytes.length;
       rows += res.rows;
       pos = end;
     }
@@ -89,7 +89,7 @@ const median = (xs) => {
 
 async function main() {
   const { values } = parseArgs({
-    options: { rows: { type: "string" }, grid: { type: "string" }, reps: { type: "string" }, dir: { type: "string" }, json: { type: "string" } },
+    options: { rows: { type: "string" }, grid: { type: "string" }, reps: { type: "string" }, dir: { type: "string" }, json: { type: "string" }, "eval-only": { type: "boolean" } },
   });
   const whole = (v, name, def) => {
     if (v === undefined) return def;
@@ -125,17 +125,20 @@ async function main() {
     const half = Math.floor(cases / 2);
     for (let r = 0; r < reps; r++) {
       for (const w of [1, 2]) t[`eval${w}`].push(timed(["eval", "kepler-elliptic", "-i", input, "-o", join(dir, `out-${w}.csv`), "--workers", String(w)]));
-      for (const w of [1, 2]) t[`sweep${w}`].push(timed(["sweep", "kepler-elliptic", "--grid", grid, "--out", join(dir, `sweep-${w}.json`), "--workers", String(w)]));
+      const sweeps = !values["eval-only"];
+      if (sweeps) for (const w of [1, 2]) t[`sweep${w}`].push(timed(["sweep", "kepler-elliptic", "--grid", grid, "--out", join(dir, `sweep-${w}.json`), "--workers", String(w)]));
       // Ceiling: one unit of work in one worker thread, then two units at once in two threads.
       t.ceilEval1.push(await ceilingRun({ kind: "eval", input }, 1));
       t.ceilEval2.push(await ceilingRun({ kind: "eval", input }, 2));
-      t.ceilSweep1.push(await ceilingRun({ kind: "sweep", grid, first: 0, end: half }, 1));
-      t.ceilSweep2.push(await ceilingRun({ kind: "sweep", grid, first: 0, end: half }, 2));
+      if (sweeps) {
+        t.ceilSweep1.push(await ceilingRun({ kind: "sweep", grid, first: 0, end: half }, 1));
+        t.ceilSweep2.push(await ceilingRun({ kind: "sweep", grid, first: 0, end: half }, 2));
+      }
       process.stderr.write(`repetition ${r + 1} of ${reps} done\n`);
     }
     const sameEval = sha(join(dir, "out-1.csv")) === sha(join(dir, "out-2.csv"));
-    const sameSweep = sha(join(dir, "sweep-1.json")) === sha(join(dir, "sweep-2.json"));
-    const ratio = (a, b, k = 1) => median(a.map((x, i) => (k * x) / b[i]));
+    const sameSweep = values["eval-only"] ? true : sha(join(dir, "sweep-1.json")) === sha(join(dir, "sweep-2.json"));
+    const ratio = (a, b, k = 1) => (a.length === 0 ? NaN : median(a.map((x, i) => (k * x) / b[i])));
     const result = {
       machine: { cores: availableParallelism(), cpu: cpus()[0]?.model ?? null, node: process.version },
       rows, cases, reps, seconds: t,
@@ -149,7 +152,8 @@ async function main() {
     console.log("| command | 1 worker (s) | 2 workers (s) | speed-up | same bytes | ceiling of 2 threads |");
     console.log("|---|---|---|---|---|---|");
     console.log(`| eval | ${f(result.eval.workers1)} | ${f(result.eval.workers2)} | ${f(result.eval.speedup)}x | ${sameEval ? "yes" : "NO"} | ${f(result.ceiling.eval)}x |`);
-    console.log(`| sweep | ${f(result.sweep.workers1)} | ${f(result.sweep.workers2)} | ${f(result.sweep.speedup)}x | ${sameSweep ? "yes" : "NO"} | ${f(result.ceiling.sweep)}x |`);
+    for (let r = 0; r < reps; r++) console.log(`|   repetition ${r + 1} | ${f(t.eval1[r])} | ${f(t.eval2[r])} | ${f(t.eval1[r] / t.eval2[r])}x | | ${f((2 * t.ceilEval1[r]) / t.ceilEval2[r])}x |`);
+    if (!values["eval-only"]) console.log(`| sweep | ${f(result.sweep.workers1)} | ${f(result.sweep.workers2)} | ${f(result.sweep.speedup)}x | ${sameSweep ? "yes" : "NO"} | ${f(result.ceiling.sweep)}x |`);
     console.log("\nmedians of the repetitions; the ceiling is two threads doing twice one thread's work, without the command's reading, writing and messages");
     if (values.json) writeFileSync(values.json, JSON.stringify(result, null, 2) + "\n");
     if (!sameEval || !sameSweep) process.exitCode = 1;

@@ -1,13 +1,14 @@
 /**
- * The byte path of `areal eval` (evaluate.ts evaluateBytes, core/bytes.ts) against the string functions it
- * replaces: readDecimal gives the bits of Number() (a correctly rounded conversion, ECMA-262 StringToNumber) on
- * every decimal it converts, and says "not exact" or "not a decimal" otherwise; ByteSink.number writes the
- * bytes of String() (shortest round trip, ECMA-262 Number::toString); evaluateBytes gives the bytes, the
+ * The byte path of `areal eval` (evaluate.ts evaluateBytes, core/codec.ts) against the string functions it
+ * replaces: the codec's parse gives the bits of Number() (a correctly rounded conversion, ECMA-262
+ * StringToNumber) on every decimal it converts, and says "unsure" or "not a decimal" otherwise; its format writes
+ * the bytes of String() (shortest round trip, ECMA-262 Number::toString); evaluateBytes gives the bytes, the
  * statuses and the messages of evaluateLines (the string path) on generated texts with every kind of line.
+ * tests/codec.test.ts checks the codec on many more numbers.
  */
 import { describe, it, expect } from "vitest";
 import fc from "fast-check";
-import { readDecimal, decimalValue, NOT_DECIMAL, NOT_EXACT, ByteSink } from "../harness/core/bytes.js";
+import { codec, PARSE_NOT_DECIMAL as NOT_DECIMAL, PARSE_UNSURE as NOT_EXACT } from "../harness/core/codec.js";
 import { shortest } from "../harness/core/float.js";
 import { evaluateBytes, evaluateLines, prepareEval } from "../harness/run/evaluate.js";
 import { findRoutine } from "../harness/module/routines.js";
@@ -19,9 +20,8 @@ const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 const enc = new TextEncoder();
 
 function read(s: string): { code: number; v: number } {
-  const b = enc.encode(`,${s},`); // the cell inside a line, as evaluateBytes passes it
-  const code = readDecimal(b, 1, b.length - 1);
-  return { code, v: decimalValue[0]! };
+  const [code, v] = codec().parseText(s);
+  return { code, v };
 }
 
 /** Decimal strings of every shape: shortest forms, fixed and exponent forms, long digit runs, zeros. */
@@ -41,7 +41,7 @@ function decimals(n: number): string[] {
   return out;
 }
 
-describe("readDecimal", () => {
+describe("the codec's parse", () => {
   it("gives the bits of Number() on every decimal it converts, and declines only decimals (checked on about 120,000 strings)", () => {
     let converted = 0;
     for (const s of decimals(20000)) {
@@ -107,19 +107,18 @@ describe("readDecimal", () => {
   });
 });
 
-describe("ByteSink.number", () => {
+describe("the codec's format", () => {
   it("writes the bytes of String() (shortest round trip; -0 as -0)", () => {
     const rng = new Rng(7);
     const xs = [0, -0, NaN, Infinity, -Infinity, 1, -1, 9, 10, 2147483647, -2147483648, 2147483648, -2147483649, 1e21, 123456789012, 0.1, 5e-324, 1.7976931348623157e308];
     for (let i = 0; i < 20000; i++) xs.push((rng.uniform() - 0.5) * Math.pow(10, rng.between(-20, 25)), Math.round(rng.between(-1e6, 1e6)));
-    const sink = new ByteSink(4);
+    let got = "";
     let want = "";
     for (const x of xs) {
-      sink.number(x);
-      sink.byte(10);
+      got += codec().formatOne(x) + "\n";
       want += shortest(x) + "\n";
     }
-    expect(new TextDecoder().decode(sink.take())).toBe(want);
+    expect(got).toBe(want);
   });
 });
 
@@ -159,5 +158,20 @@ describe("evaluateBytes", () => {
       }),
       { numRuns: 3000, seed: 20261205 },
     );
+  });
+});
+
+describe("evaluateBytes on a table wider than the codec's layout", () => {
+  it("reads it through the string path: the same bytes as evaluateLines (17,000 columns)", () => {
+    const elliptic = findRoutine("kepler-elliptic")!;
+    const extra = Array.from({ length: 16998 }, (_, i) => `c${i}`);
+    const columns = ["e", "M", ...extra];
+    const k = release();
+    const plan = prepareEval(elliptic, columns, "wide.csv", k);
+    const text = `0.5,1,${extra.map(() => "7").join(",")}\n0.25,-2,${extra.map(() => "x").join(",")}\n`;
+    const want = evaluateLines(elliptic, plan, columns.length, "wide.csv", k, text, 2);
+    const got = evaluateBytes(elliptic, plan, columns.length, "wide.csv", k, enc.encode(text), 2);
+    expect(new TextDecoder().decode(got.bytes)).toBe(want.text);
+    expect(got.rows).toBe(2);
   });
 });

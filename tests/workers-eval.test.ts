@@ -186,6 +186,22 @@ describe("the streaming reader", () => {
     );
   });
 
+  it("a file of several reads (3.5 MB, over three of the reader's 1 MB reads): the chunks are its bytes after the header, in order, and one worker's output equals the whole-text path's", async () => {
+    const text = makeInput(120000);
+    expect(text.length).toBeGreaterThan(3 * (1 << 20));
+    const p = join(dir, "several-reads.csv");
+    writeFileSync(p, text);
+    const s = new CsvFileStream(p, "several-reads.csv");
+    s.head();
+    const parts: Buffer[] = [];
+    for (let c = s.nextChunk(); c !== undefined; c = s.nextChunk()) parts.push(Buffer.from(c)); // a copy: the reader reuses its buffer
+    s.close();
+    expect(Buffer.concat(parts).toString("utf8")).toBe(text.slice(text.indexOf("id,e,M\n") + 7));
+    const out = join(dir, "several-reads.out.csv");
+    await evaluateFile(elliptic, p, "several-reads.csv", { workers: 1, load: { build: "f64" }, kernels: release(), out });
+    expect(readFileSync(out, "utf8")).toBe(evaluateCsv(elliptic, text, "several-reads.csv", release()).csv);
+  });
+
   it("an empty file and a file of comments only give parseCsv's message", () => {
     for (const [name, text] of [["empty.csv", ""], ["comments.csv", "# only\n\n# comments\n"]] as const) {
       const p = join(dir, name);

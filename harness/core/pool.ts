@@ -185,3 +185,55 @@ export function parseWorkers(v: string | undefined, flag = "--workers"): number 
   return Number(v);
 }
 
+
+/** Bytes a worker left in one of its shared output slots (OutputSlots): this thread reads them, then releases the slot. */
+export interface SharedBytes {
+  readonly sab: SharedArrayBuffer;
+  readonly count: number;
+  readonly slot: number;
+  readonly length: number;
+}
+
+/** Offset of the slots' data after their flags (one Int32 a slot), 16-byte aligned. */
+const slotsData = (count: number): number => (4 * count + 15) & ~15;
+
+/**
+ * A worker's output slots: shared memory it writes a job's output bytes into, reused job after job, so that a
+ * job's output costs one copy and no fresh buffer or transfer (a copy into a new buffer and its transfer were a
+ * quarter of an eval worker's time). A slot is taken by the worker (its flag 0 -> 1) and given back by the
+ * thread that wrote the bytes out (releaseShared). Bytes that do not fit a slot, or a job finding every slot
+ * still taken (more jobs out than slots), go the old way: a buffer of their own, transferred.
+ */
+export class OutputSlots {
+  private readonly sab: SharedArrayBuffer;
+  private readonly flags: Int32Array;
+  private readonly data: Uint8Array;
+
+  constructor(readonly slotBytes: number, readonly count: number) {
+    this.sab = new SharedArrayBuffer(slotsData(count) + count * slotBytes);
+    this.flags = new Int32Array(this.sab, 0, count);
+    this.data = new Uint8Array(this.sab, slotsData(count));
+  }
+
+  /** Copy `bytes` into a free slot; undefined when they do not fit or no slot is free. */
+  put(bytes: Uint8Array): SharedBytes | undefined {
+    if (bytes.length > this.slotBytes) return undefined;
+    for (let i = 0; i < this.count; i++) {
+      if (Atomics.compareExchange(this.flags, i, 0, 1) !== 0) continue;
+      this.data.set(bytes, i * this.slotBytes);
+      return { sab: this.sab, count: this.count, slot: i, length: bytes.length };
+    }
+    return undefined;
+  }
+}
+
+/** The bytes of a shared slot (a view: read them before releaseShared). */
+export function sharedView(s: SharedBytes): Uint8Array {
+  const slotBytes = (s.sab.byteLength - slotsData(s.count)) / s.count;
+  return new Uint8Array(s.sab, slotsData(s.count) + s.slot * slotBytes, s.length);
+}
+
+/** Give a slot back to its worker. */
+export function releaseShared(s: SharedBytes): void {
+  Atomics.store(new Int32Array(s.sab, 0, s.count), s.slot, 0);
+}

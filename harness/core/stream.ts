@@ -1,8 +1,8 @@
 /**
  * Reading a CSV file of any size in bounded memory: the header first, then chunks of whole lines (about
- * CHUNK_BYTES each). A chunk is raw bytes ending at a line end, so it can be handed to a worker thread as it
- * is and parsed there (evaluate.ts evaluateLines: lines split on LF with one CR before it removed, cells
- * checked with parseCsv's rules and messages).
+ * CHUNK_BYTES each). A chunk is raw bytes ending at a line end (evaluate.ts evaluateBytes: lines split on LF
+ * with one CR before it removed, cells checked with parseCsv's rules and messages). Eval's workers read their
+ * own byte ranges of the file instead (readOwnedLines).
  */
 import { openSync, readSync, closeSync, fstatSync } from "node:fs";
 import { parseCsv, CsvError } from "./csv.js";
@@ -54,6 +54,8 @@ export interface CsvHead {
 export class CsvFileStream {
   private fd: number;
   private pending: Buffer = Buffer.alloc(0);
+  /** The read buffer (fill), reused; `pending` is a view of it. */
+  private buf: Buffer = Buffer.alloc(0);
   private eof = false;
   /** Total size of the file in bytes (for progress). */
   readonly size: number;
@@ -74,17 +76,28 @@ export class CsvFileStream {
     }
   }
 
-  /** Read more of the file into `pending` (READ_BYTES at a time, or a chunk if larger); false at the end of the file. */
+  /**
+   * Read more of the file into `pending` (READ_BYTES at a time, or a chunk if larger); false at the end of the
+   * file. One buffer is reused: the bytes not yet returned move to its front and the read goes after them (a
+   * larger buffer only when they fill it: a line longer than a read), so nothing but that tail is copied and no
+   * fresh memory is touched per read. Chunks returned before are overwritten (nextChunk says so).
+   */
   private fill(): boolean {
     if (this.eof) return false;
-    const buf = Buffer.allocUnsafe(Math.max(READ_BYTES, this.chunkBytes));
-    const n = readSync(this.fd, buf, 0, buf.length, null);
+    const keep = this.pending.length;
+    const want = keep + Math.max(READ_BYTES, this.chunkBytes);
+    if (this.buf.length < want) {
+      const next = Buffer.allocUnsafe(Math.max(want, 2 * this.buf.length));
+      this.pending.copy(next, 0);
+      this.buf = next;
+    } else if (keep > 0) this.pending.copy(this.buf, 0); // Buffer.copy allows the regions to overlap
+    const n = readSync(this.fd, this.buf, keep, this.buf.length - keep, null);
+    this.pending = this.buf.subarray(0, keep + n);
     if (n === 0) {
       this.eof = true;
       return false;
     }
     this.bytesRead += n;
-    this.pending = this.pending.length === 0 ? buf.subarray(0, n) : Buffer.concat([this.pending, buf.subarray(0, n)]);
     return true;
   }
 
@@ -119,7 +132,8 @@ export class CsvFileStream {
 
   /**
    * The next run of whole lines: up to chunkBytes, ending at a line end (more only when one line is longer), or
-   * undefined at the end. The bytes are a copy with their own buffer: they are sent to a worker as they are.
+   * undefined at the end. The bytes are a view of the reader's buffer (no copy): use them before the next call,
+   * which may overwrite them.
    */
   nextChunk(): Uint8Array | undefined {
     for (;;) {
@@ -127,13 +141,13 @@ export class CsvFileStream {
         let lf = this.pending.lastIndexOf(LF, this.chunkBytes - 1);
         if (lf < 0) lf = this.pending.indexOf(LF, this.chunkBytes); // a line longer than a chunk
         if (lf >= 0) {
-          const out = new Uint8Array(this.pending.subarray(0, lf + 1));
+          const out = this.pending.subarray(0, lf + 1);
           this.pending = this.pending.subarray(lf + 1);
           return out;
         }
         if (this.eof) {
           if (this.pending.length === 0) return undefined;
-          const out = new Uint8Array(this.pending); // an unterminated last line
+          const out = this.pending; // an unterminated last line
           this.pending = Buffer.alloc(0);
           return out;
         }
@@ -171,25 +185,55 @@ export interface OwnedLines {
  * read their own ranges of the file and the outputs, joined in range order, are those of one sequential pass.
  */
 export function readOwnedLines(path: string, first: number, size: number, start: number, end: number, source = path): OwnedLines {
-  const fd = openSync(path, "r");
-  try {
+  const own = new RangeReader(path, first, size, source).read(start, end);
+  return { ...own, bytes: Buffer.from(own.bytes) }; // a copy of its own
+}
+
+/**
+ * readOwnedLines for many ranges of one file (an eval worker's): one buffer is reused, so a range costs its
+ * reads (and the file's opening and closing: no descriptor is held between ranges, so a worker ended by
+ * terminate() leaves none open). The bytes of a range are a view of that buffer, valid until the next read.
+ */
+export class RangeReader {
+  private fd = -1;
+  private buf: Buffer = Buffer.alloc(0);
+
+  constructor(private readonly path: string, private readonly first: number, private readonly size: number, private readonly source = path) {}
+
+  /** The lines that start in [start, end) (readOwnedLines). */
+  read(start: number, end: number): OwnedLines {
+    this.fd = openSync(this.path, "r");
+    try {
+      return this.readOpen(start, end);
+    } finally {
+      closeSync(this.fd);
+      this.fd = -1;
+    }
+  }
+
+  private readOpen(start: number, end: number): OwnedLines {
+    const { first, size, source } = this;
     const lo = Math.max(first, start - 1);
-    let buf = Buffer.allocUnsafe(0);
-    let have = lo; // buf holds the file's bytes [lo, have)
-    // Read until `buf` holds a LF at or after file offset `from`, or the end of the file; the LF's offset or -1.
-    // Each read is at least as large as what is held, so the copies add up to a multiple of the bytes read
-    // (linear in the line length); a line longer than MAX_LINE_BYTES is an error.
+    let held = 0; // this.buf[0, held) holds the file's bytes [lo, lo + held)
+    // Read until the buffer holds a LF at or after file offset `from`, or the end of the file; the LF's offset
+    // or -1. Each read is at least as large as what is held (the buffer at least doubles when it must grow), so
+    // the copies add up to a multiple of the bytes read; a line longer than MAX_LINE_BYTES is an error.
     const lfFrom = (from: number): number => {
       for (;;) {
-        const i = buf.indexOf(LF, Math.max(0, from - lo));
+        const i = this.buf.subarray(0, held).indexOf(LF, Math.max(0, from - lo));
         if (i >= 0) return lo + i;
+        const have = lo + held;
         if (have >= size) return -1;
         if (have - Math.max(from, lo) > MAX_LINE_BYTES) throw new LineTooLong(source, Math.max(from, lo));
-        const more = Buffer.allocUnsafe(Math.max(READ_AHEAD, end - have + READ_AHEAD, buf.length));
-        const n = readSync(fd, more, 0, more.length, have);
+        const more = Math.max(READ_AHEAD, end - have + READ_AHEAD, held);
+        if (this.buf.length < held + more) {
+          const next = Buffer.allocUnsafe(Math.max(held + more, 2 * this.buf.length));
+          this.buf.copy(next, 0, 0, held);
+          this.buf = next;
+        }
+        const n = readSync(this.fd, this.buf, held, more, have);
         if (n === 0) return -1;
-        buf = buf.length === 0 ? more.subarray(0, n) : Buffer.concat([buf, more.subarray(0, n)]);
-        have += n;
+        held += n;
       }
     };
     let begin: number;
@@ -202,10 +246,8 @@ export function readOwnedLines(path: string, first: number, size: number, start:
     if (begin >= end || begin >= size) return { begin, finish: begin, bytes: Buffer.alloc(0) };
     const lf = end >= size ? -1 : lfFrom(end - 1);
     const finish = lf < 0 ? size : lf + 1;
-    if (have < finish) lfFrom(finish); // the unterminated last line: read to the end
-    return { begin, finish, bytes: buf.subarray(begin - lo, finish - lo) };
-  } finally {
-    closeSync(fd);
+    if (lo + held < finish) lfFrom(finish); // the unterminated last line: read to the end
+    return { begin, finish, bytes: this.buf.subarray(begin - lo, finish - lo) };
   }
 }
 

@@ -19,7 +19,7 @@ import { createRequire } from "node:module";
 import { constants, tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { compiledScript } from "../core/paths.js";
-import { ModuleError, setRowCaller, type Kernels, type RowCaller } from "./load.js";
+import { ModuleError, setRowCaller, rowByRow, forEachRow, type Kernels } from "./load.js";
 import { ROUTINES } from "./routines.js";
 import { ABI_VERSION, CORE_EXPORTS, OUT_SLOTS, kernelExports, kernelSignature, type ExportInfo, type ValType } from "./signatures.js";
 
@@ -93,7 +93,7 @@ export function openLibrary(path: string, label = path): { kernels: Kernels; tab
     }
   }
   if (rowFns.size > 0) {
-    const each = rowsByCall(kernels);
+    const each = rowByRow(kernels);
     setRowCaller(kernels, (name, args, na, rows, o, nOut, status) => {
       const fn = rowFns.get(name);
       if (!fn || nOut > OUT_SLOTS) return each(name, args, na, rows, o, nOut, status);
@@ -102,18 +102,6 @@ export function openLibrary(path: string, label = path): { kernels: Kernels; tab
     });
   }
   return { kernels, table };
-}
-
-/** A RowCaller through `call`, one row at a time. */
-function rowsByCall(k: Kernels): RowCaller {
-  return (name, args, na, rows, o, nOut, status) => {
-    const a = new Array<number>(na).fill(0);
-    for (let r = 0; r < rows; r++) {
-      for (let i = 0; i < na; i++) a[i] = args[r * na + i]!;
-      status[r] = k.call(name, a);
-      for (let i = 0; i < nOut; i++) o[r * nOut + i] = k.out[i]!;
-    }
-  };
 }
 
 /** Kernels over a table of exports and a function that calls one (checks the name and the argument count). */
@@ -330,11 +318,7 @@ export function loadLibrary(path: string, label = path): { kernels: Kernels; sig
   // The child ended during a batch: a fresh child runs its rows one call at a time; the call that ends it is named.
   const replay = (name: string, args: Float64Array, at: number, na: number, rows: number, first: ModuleError): never => {
     proc = startChild(path, label);
-    const a = new Array<number>(na).fill(0);
-    for (let r = 0; r < rows; r++) {
-      for (let i = 0; i < na; i++) a[i] = args[(at + r) * na + i]!;
-      raw(name, a); // throws, naming the call, when the child ends
-    }
+    forEachRow(args, na, at, rows, (a) => raw(name, a)); // throws, naming the call, when the child ends
     proc.close();
     throw first;
   };
@@ -343,7 +327,7 @@ export function loadLibrary(path: string, label = path): { kernels: Kernels; sig
     if (!params) throw new ModuleError(`${label}: no export named ${name}`);
     if (na !== params.length) throw new ModuleError(`${label}: ${name} takes ${params.length} arguments, got ${na}`);
     if (proc.closed) throw new ModuleError(`${label}: the library process was closed`);
-    if (nOut > OUT_SLOTS) return rowsByCall(kernels)(name, args, na, rows, o, nOut, status);
+    if (nOut > OUT_SLOTS) return rowByRow(kernels)(name, args, na, rows, o, nOut, status);
     for (let at = 0; at < rows; at += LIBRARY_BATCH_ROWS) batch(name, args, at, na, Math.min(LIBRARY_BATCH_ROWS, rows - at), o, nOut, status);
   });
   return { kernels, signatures: librarySignatures(table) };

@@ -166,13 +166,29 @@ export function setRowCaller(k: Kernels, caller: RowCaller): void {
 export function callRows(k: Kernels, name: string, args: Float64Array, na: number, rows: number, out: Float64Array, nOut: number, status: Int32Array): void {
   const own = ROW_CALLERS.get(k);
   if (own) return own(name, args, na, rows, out, nOut, status);
+  rowByRow(k)(name, args, na, rows, out, nOut, status);
+}
+
+/**
+ * Rows from..from + rows - 1 of `args` (na a row), each as an array of its arguments (one array, refilled),
+ * handed to `fn` with its row index: the one loop of the harness that takes a batch one call at a time.
+ */
+export function forEachRow(args: Float64Array, na: number, from: number, rows: number, fn: (a: number[], r: number) => void): void {
   const a = new Array<number>(na).fill(0);
-  for (let r = 0; r < rows; r++) {
+  for (let r = from; r < from + rows; r++) {
     for (let i = 0; i < na; i++) a[i] = args[r * na + i]!;
-    status[r] = k.call(name, a);
-    const o = k.out;
-    for (let i = 0; i < nOut; i++) out[r * nOut + i] = o[i]!;
+    fn(a, r);
   }
+}
+
+/** A RowCaller through `k.call`, one row at a time (for objects without a batch caller, and as a fallback). */
+export function rowByRow(k: Kernels): RowCaller {
+  return (name, args, na, rows, out, nOut, status) =>
+    forEachRow(args, na, 0, rows, (a, r) => {
+      status[r] = k.call(name, a);
+      const o = k.out;
+      for (let i = 0; i < nOut; i++) out[r * nOut + i] = o[i]!;
+    });
 }
 
 /** Load a module file. */

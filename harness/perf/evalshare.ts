@@ -2,7 +2,8 @@
  * The kernel's share of `areal eval` time, for `areal bench`: one generated input of kepler-elliptic rows (e
  * uniform in [0, 1), M uniform in [-pi, pi], written as shortest round-trip decimals, the form eval writes),
  * cut into chunks of whole lines as evaluateFile cuts a file (CHUNK_BYTES), then timed in one run:
- *   bytes    evaluateBytes over every chunk (what eval runs, without the file reading and writing);
+ *   bytes    evaluateBytes over every chunk (what eval runs, without the file reading and writing: the codec
+ *            module parses and formats, core/codec.ts);
  *   string   evaluateLines over the same chunks decoded (the string path eval used before, kept as reference);
  *   kernel   the kernel alone over the same rows, parsed beforehand (callRows: one batch per chunk).
  * Each is run `reps` times interleaved (bytes, string, kernel, bytes, ...); the figure is the fastest pass (the
@@ -10,6 +11,7 @@
  */
 import { Rng } from "../core/rng.js";
 import { CHUNK_BYTES } from "../core/stream.js";
+import { codec } from "../core/codec.js";
 import { callRows, type Kernels } from "../module/load.js";
 import { findRoutine } from "../module/routines.js";
 import { evaluateBytes, evaluateLines, prepareEval } from "../run/evaluate.js";
@@ -29,6 +31,8 @@ export interface EvalShare {
   readonly kernelShare: number;
   /** t(string) / t(bytes). */
   readonly bytesVsString: number;
+  /** Cells the codec left to Number() in the bytes passes (it decides every decimal of up to 19 digits: 0 here). */
+  readonly parsesLeftToNumber: number;
 }
 
 /** The generated input: the header, then chunks of whole lines (UTF-8). */
@@ -80,6 +84,7 @@ export function measureEvalShare(k: Kernels, rows: number, reps = 3): EvalShare 
     },
   };
   const best = { bytes: Infinity, string: Infinity, kernel: Infinity };
+  const unsure0 = codec().unsureCount;
   for (let r = 0; r < reps; r++) {
     for (const name of ["bytes", "string", "kernel"] as const) {
       const t0 = performance.now();
@@ -92,5 +97,6 @@ export function measureEvalShare(k: Kernels, rows: number, reps = 3): EvalShare 
     routine: routine.name, rows, chunkBytes: CHUNK_BYTES, reps,
     bytesRowsPerS: rows / best.bytes, stringRowsPerS: rows / best.string, kernelCallsPerS: rows / best.kernel,
     kernelShare: best.kernel / best.bytes, bytesVsString: best.string / best.bytes,
+    parsesLeftToNumber: codec().unsureCount - unsure0,
   };
 }

@@ -16,9 +16,9 @@ import type { Routine, InputSpec } from "../module/routines.js";
 import { callRows, type Kernels } from "../module/load.js";
 import { statusWord, isOk, abiViolation, abiViolationMessage } from "../module/status.js";
 import { ModuleError } from "../module/load.js";
-import { ByteSink, readDecimal, decimalValue, NOT_EXACT } from "../core/bytes.js";
-import { CsvFileStream, CHUNK_BYTES, readOwnedLines, isSkippedBeforeHeader, LineTooLong, MAX_LINE_BYTES } from "../core/stream.js";
-import { WorkerPool, type KernelSource } from "../core/pool.js";
+import { codec, PARSE_OK, PARSE_UNSURE, COL_DEFAULT, COL_HOST, LINE_CELLS, LINE_SLOW, SCAN_FALL_BACK, type Codec, type ChunkLayout } from "../core/codec.js";
+import { CsvFileStream, CHUNK_BYTES, readOwnedLines, RangeReader, isSkippedBeforeHeader, LineTooLong, MAX_LINE_BYTES } from "../core/stream.js";
+import { WorkerPool, sharedView, releaseShared, type KernelSource, type SharedBytes } from "../core/pool.js";
 
 export class EvalError extends Error {}
 
@@ -168,12 +168,13 @@ export function shardBytes(first: number, size: number, k: number, n: number): {
 /**
  * Evaluate a routine over a CSV file of any size, streamed in chunks. With one worker this thread reads the
  * file in chunks of whole lines and evaluates them; with more, this thread reads only the header and hands out
- * byte ranges, each worker reads the lines that start in its ranges (readOwnedLines) and sends back their output
- * bytes, and this thread writes them in range order (when this thread read, copied and posted every chunk,
- * `npm run bench:workers` measured 1.30x for 2 workers on 4,000,000 rows; 1.34x-1.45x since). The output
- * goes to a temporary file that is renamed to `out` (or copied to stdout) only when every row has passed; on
- * any error the temporary file is removed and nothing is written. The bytes do not depend on the number of
- * workers. Throws EvalError or CsvError with the same messages as `evaluateCsv`.
+ * byte ranges, each worker reads the lines that start in its ranges (RangeReader) and leaves their output bytes
+ * in a shared slot (OutputSlots), and this thread writes them in range order; while the workers start, this
+ * thread runs the first ranges itself. (When this thread read, copied and posted every chunk, `npm run
+ * bench:workers` measured 1.30x for 2 workers on 4,000,000 rows.) The output goes to a temporary file that is
+ * renamed to `out` (or copied to stdout) only when every row has passed; on any error the temporary file is
+ * removed and nothing is written. The bytes do not depend on the number of workers. Throws EvalError or
+ * CsvError with the same messages as `evaluateCsv`.
  */
 export async function evaluateFile(routine: Routine, path: string, source: string, opts: FileEvalOptions): Promise<{ rows: number; statuses: Record<string, number> }> {
   const target = opts.out;
@@ -185,6 +186,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
   let tmp: string | undefined;
   let tmpDir: string | undefined;
   let pool: WorkerPool | undefined;
+  let starting: Promise<void> | undefined; // the pool's start, which never rejects (its error is kept)
   let line = 0;
   const cannotWrite = (err: unknown): Error => cannotWriteFile(target ?? "stdout", err);
   try {
@@ -232,7 +234,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
     // bad cell is named by its byte offset, as with workers).
     const shard = opts.shard === undefined ? undefined : shardBytes(stream.position, stream.size, opts.shard.k, opts.shard.n);
     if (shard !== undefined && opts.workers <= 1) {
-      const init = { columns: head.columns, source, path, first: stream.position, size: stream.size };
+      const init = { reader: new RangeReader(path, stream.position, stream.size, source), columns: head.columns, source };
       const step = opts.chunkBytes ?? CHUNK_BYTES;
       for (let start = shard.lo; start < shard.hi; start += step) {
         const r = evalRange(routine, plan, init, opts.kernels, start, Math.min(shard.hi, start + step));
@@ -249,13 +251,49 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
       }
     } else {
       // Each worker reads its own byte ranges of the file (readOwnedLines: the lines starting in the range), so
-      // this thread only hands out ranges and writes the results, in range order.
+      // this thread only hands out ranges and writes the results, in range order. While the workers start (a
+      // fifth of a 2,000,000-row run), this thread runs the first ranges itself: the same bytes, in the same order.
       const first = stream.position;
       const size = stream.size;
       const step = opts.chunkBytes ?? CHUNK_BYTES;
-      pool = await WorkerPool.start(opts.workers, { kind: "eval", load: opts.load, routine: routine.name, columns: head.columns, source, path, first, size });
       let next = shard?.lo ?? first;
       const stop = shard?.hi ?? size;
+      let startError: unknown;
+      let started = false;
+      starting = WorkerPool.start(opts.workers, { kind: "eval", load: opts.load, routine: routine.name, columns: head.columns, source, path, first, size }).then(
+        (p) => {
+          pool = p;
+          started = true;
+        },
+        (err: unknown) => {
+          startError = err;
+          started = true;
+        },
+      );
+      const take = (v: EvalChunkResult): void => {
+        if (v.error === undefined) {
+          if (v.shared === undefined) write(v.bytes);
+          else {
+            write(sharedView(v.shared));
+            releaseShared(v.shared);
+          }
+          line += v.lineCount;
+          add(v.rows, v.statuses, v.finish);
+          return;
+        }
+        // The lines were numbered from 1: run them here, where the line numbers are known, for the message.
+        here(readOwnedLines(path, first, size, v.begin, v.finish).bytes);
+        throw new EvalError(`${source}: a worker failed on lines from ${line}: ${v.error}`);
+      };
+      const own = { reader: new RangeReader(path, first, size, source), columns: head.columns, source };
+      while (!started && next < stop) {
+        const end = Math.min(stop, next + step);
+        take(evalRange(routine, plan, own, opts.kernels, next, end));
+        next = end;
+        await turn(); // the workers' messages, and an interrupt (cleanup.ts)
+      }
+      await starting;
+      if (startError !== undefined) throw startError;
       const ranges: Iterator<{ start: number; end: number }> = {
         next: () => {
           if (next >= stop) return { done: true, value: undefined };
@@ -264,16 +302,9 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
           return { done: false, value: r };
         },
       };
-      await pool.runOrdered<{ start: number; end: number }, EvalChunkResult>(ranges, (r) => {
-        if (r.ok && r.value.error === undefined) {
-          write(r.value.bytes);
-          line += r.value.lineCount;
-          add(r.value.rows, r.value.statuses, r.value.finish);
-          return;
-        }
-        // The worker numbered lines from 1: run its lines here, where the line numbers are known, for the message.
-        if (r.ok) here(readOwnedLines(path, first, size, r.value.begin, r.value.finish).bytes);
-        throw new EvalError(`${source}: a worker failed on lines from ${line}: ${r.ok ? r.value.error : r.message}`);
+      await pool!.runOrdered<{ start: number; end: number }, EvalChunkResult>(ranges, (r) => {
+        if (r.ok) return take(r.value);
+        throw new EvalError(`${source}: a worker failed on lines from ${line}: ${r.message}`);
       });
     }
     try {
@@ -291,6 +322,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
     throw err;
   } finally {
     stream.close();
+    if (starting) await starting;
     if (pool) await pool.close();
     if (fd >= 0) closeSync(fd);
     if (tmp !== undefined && target !== undefined) rmSync(tmp, { force: true });
@@ -301,8 +333,13 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
 
 /** What a worker sends back for one byte range of an eval. */
 export interface EvalChunkResult {
-  /** The output lines, UTF-8. */
+  /**
+   * The output lines, UTF-8: from evalRange a view of the codec's memory (valid until its next call); from a
+   * worker a buffer of its own, or empty with the bytes in `shared`.
+   */
   readonly bytes: Uint8Array;
+  /** The output lines in a worker's shared slot (core/pool.ts OutputSlots), when they went that way. */
+  readonly shared?: SharedBytes;
   readonly rows: number;
   /** Line ends in the range's lines. */
   readonly lineCount: number;
@@ -314,9 +351,16 @@ export interface EvalChunkResult {
   readonly error?: string;
 }
 
+/** The file an eval's ranges are read from: its reader (the file kept open), its columns and name. */
+export interface RangeSource {
+  readonly reader: RangeReader;
+  readonly columns: readonly string[];
+  readonly source: string;
+}
+
 /** A worker's half of evaluateFile: the lines starting in the file's bytes [start, end), numbered from 1. */
-export function evalRange(routine: Routine, plan: Plan, init: { readonly columns: readonly string[]; readonly source: string; readonly path: string; readonly first: number; readonly size: number }, k: Kernels, start: number, end: number): EvalChunkResult {
-  const own = readOwnedLines(init.path, init.first, init.size, start, end, init.source);
+export function evalRange(routine: Routine, plan: Plan, init: RangeSource, k: Kernels, start: number, end: number): EvalChunkResult {
+  const own = init.reader.read(start, end);
   const none = { bytes: new Uint8Array(0), rows: 0, lineCount: 0, statuses: {}, begin: own.begin, finish: own.finish };
   let res: ReturnType<typeof evaluateBytes>;
   try {
@@ -325,8 +369,7 @@ export function evalRange(routine: Routine, plan: Plan, init: { readonly columns
     if (err instanceof CsvError || err instanceof EvalError) return { ...none, error: err.message };
     throw err;
   }
-  // A buffer of its own (the output of evaluateBytes is a view of a buffer it reuses), transferred back without a copy.
-  return { bytes: res.bytes.slice(), rows: res.rows, lineCount: res.lineCount, statuses: res.statuses, begin: own.begin, finish: own.finish };
+  return { bytes: res.bytes, rows: res.rows, lineCount: res.lineCount, statuses: res.statuses, begin: own.begin, finish: own.finish };
 }
 
 const ENCODER = new TextEncoder();
@@ -410,44 +453,85 @@ export function evaluateLines(routine: Routine, plan: Plan, width: number, sourc
     rows++;
   }
   const lineCount = lfs;
-  const statuses: Record<string, number> = {};
   const nOut = routine.outputs.length;
   const failed = ",NaN".repeat(nOut) + ",";
-  const budgets = budgetSlots(routine);
+  const tally = new RowTally(routine, plan, k);
   const a: number[] = new Array<number>(na).fill(0);
   let out = "";
-  const single = k.realBytes === 4;
   for (let r = 0; r < rows; r++) {
     for (let i = 0; i < na; i++) a[i] = args[r * na + i]!;
-    if (single) countLosses(plan.specs, a, statuses);
     const st = k.call(plan.exportName, a);
-    const broken = abiViolation(st, k.out, routine.outputs);
-    if (broken !== undefined) throw new ModuleError(abiViolationMessage(k.label, plan.exportName, a, broken));
-    const word = statusWord(st);
-    statuses[word] = (statuses[word] ?? 0) + 1;
     let line = trimmed[r] ? text.slice(starts[r], ends[r]).split(",").map((c) => c.trim()).join(",") : text.slice(starts[r], ends[r]);
-    if (isOk(st)) {
-      if (budgets.length > 0 && budgets.some((i) => k.out[i]! >= 0)) statuses[BUDGET_BROKEN] = (statuses[BUDGET_BROKEN] ?? 0) + 1;
+    if (tally.row(st, k.out, 0, a, 0)) {
       for (let i = 0; i < nOut; i++) line += "," + cell(k.out[i]!);
       line += ",";
     } else line += failed;
-    out += line + word + "\n";
+    out += line + statusText(st).word + "\n";
   }
+  const statuses = tally.statuses();
   return { text: out, rows, lineCount, statuses };
 }
 
-/** Count a row's single-precision losses of meaning into `statuses` (LOST_IN_F32 once, and once per kind). */
-function countLosses(specs: readonly InputSpec[], a: ArrayLike<number>, statuses: Record<string, number>): void {
-  let lost = false;
-  for (let i = 0; i < specs.length; i++) {
-    if (specs[i]!.choices) continue;
-    const what = singlePrecisionLoss(specs[i]!.name, a[i]!);
-    if (what === undefined) continue;
-    const key = `${LOST_IN_F32}:${what}`;
-    statuses[key] = (statuses[key] ?? 0) + 1;
-    lost = true;
+/**
+ * Eval's accounting of each row, one home for the string and the byte path: the ABI check of its status and
+ * outputs (a violation throws ModuleError naming the call), the count per status word, the ok rows that broke
+ * a budget (BUDGET_BROKEN) and, on a single-precision build, the inputs that lost their meaning (LOST_IN_F32).
+ * The counts come out as one record: the status words in the order first seen, then the two other kinds.
+ */
+class RowTally {
+  private readonly counts = new Map<number, number>();
+  private readonly losses = new Map<string, number>();
+  private lost = 0;
+  private broken = 0;
+  private readonly budgets: number[];
+  private readonly one: Float64Array;
+  private readonly single: boolean;
+  constructor(private readonly routine: Routine, private readonly plan: Plan, private readonly k: Kernels) {
+    this.budgets = budgetSlots(routine);
+    this.one = new Float64Array(routine.outputs.length);
+    this.single = k.realBytes === 4;
   }
-  if (lost) statuses[LOST_IN_F32] = (statuses[LOST_IN_F32] ?? 0) + 1;
+
+  /** The row of status `st`, outputs outs[o, o + outputs), arguments args[at, at + inputs): true when it is ok. */
+  row(st: number, outs: ArrayLike<number>, o: number, args: ArrayLike<number>, at: number): boolean {
+    const one = this.one;
+    for (let i = 0; i < one.length; i++) one[i] = outs[o + i]!;
+    const na = this.plan.specs.length;
+    const bad = abiViolation(st, one, this.routine.outputs);
+    if (bad !== undefined) throw new ModuleError(abiViolationMessage(this.k.label, this.plan.exportName, Array.from({ length: na }, (_, i) => args[at + i]!), bad));
+    this.counts.set(st, (this.counts.get(st) ?? 0) + 1);
+    if (this.single) this.countLosses(args, at);
+    if (!isOk(st)) return false;
+    if (this.budgets.length > 0 && this.budgets.some((i) => one[i]! >= 0)) this.broken++;
+    return true;
+  }
+
+  /** A row's single-precision losses of meaning (singlePrecisionLoss), once a row and once per kind. */
+  private countLosses(args: ArrayLike<number>, at: number): void {
+    const specs = this.plan.specs;
+    let lost = false;
+    for (let i = 0; i < specs.length; i++) {
+      if (specs[i]!.choices) continue;
+      const what = singlePrecisionLoss(specs[i]!.name, args[at + i]!);
+      if (what === undefined) continue;
+      const key = `${LOST_IN_F32}:${what}`;
+      this.losses.set(key, (this.losses.get(key) ?? 0) + 1);
+      lost = true;
+    }
+    if (lost) this.lost++;
+  }
+
+  statuses(): Record<string, number> {
+    const out: Record<string, number> = {};
+    for (const [code, n] of this.counts) {
+      const w = statusText(code).word;
+      out[w] = (out[w] ?? 0) + n;
+    }
+    if (this.broken > 0) out[BUDGET_BROKEN] = this.broken;
+    if (this.lost > 0) out[LOST_IN_F32] = this.lost;
+    for (const [key, n] of this.losses) out[key] = n;
+    return out;
+  }
 }
 
 function copyToStdout(path: string): Promise<void> {
@@ -468,6 +552,7 @@ interface StatusText {
   readonly bytes: Uint8Array;
 }
 const STATUS_TEXT = new Map<number, StatusText>();
+/** The word and bytes of a status code (cached). */
 function statusText(code: number): StatusText {
   let t = STATUS_TEXT.get(code);
   if (t === undefined) {
@@ -477,9 +562,6 @@ function statusText(code: number): StatusText {
   }
   return t;
 }
-
-/** The output of evaluateBytes is written here: one buffer for the thread, grown as needed, never shrunk. */
-const SINK = new ByteSink(1 << 18);
 
 /** Thrown inside evaluateBytes to hand the whole run to evaluateLines (the reference for messages and bytes). */
 const FALL_BACK = new Error("fall back to evaluateLines");
@@ -498,14 +580,16 @@ function slowLine(line: string, width: number): { cells: string[]; echo: string 
 
 /**
  * evaluateLines on bytes: the same checks, messages and output bytes, without decoding the text or building a
- * string per cell or per line. A line of printable ASCII with no space around its cells is read in place: its
- * cells are found by their commas, numbers read by readDecimal (Number() on the cell where it cannot be exact,
- * the string path for anything else: enumerations, nan, inf, hex patterns), the line echoed as its bytes. Any
- * other line (a space, a CR, a byte beyond ASCII) is decoded and read as evaluateLines reads it. The kernel runs
- * once over all rows (Kernels.callRows); numbers are written as bytes (ByteSink.number). Any bad cell, bad row
- * or over-long line hands the whole run to evaluateLines, which throws its message (the line numbers and
- * messages are its own). tests/eval-bytes.test.ts compares the bytes with evaluateLines on generated text.
- * The bytes returned are a view of a buffer the next call writes over: write or copy them before calling again.
+ * string per cell or per line. The chunk goes to the codec module (core/codec.ts), which cuts it into lines and
+ * reads a line of printable ASCII with no space around its cells in place: its cells found by their commas, its
+ * numbers parsed exactly (Eisel-Lemire). What the codec leaves is read here: a line with a space, a CR or a byte
+ * beyond ASCII (decoded and read as evaluateLines reads it), a word of an enumeration, nan, inf, a hex pattern,
+ * a decimal the codec could not decide (Number()). The kernel runs once over all rows (Kernels.callRows, into
+ * the codec's memory); each row is accounted (RowTally), and the codec writes the output: each line's echo, its
+ * outputs in shortest form (Schubfach), its status word. Any bad cell, bad row or over-long line hands the whole
+ * run to evaluateLines, which throws its message (the line numbers and messages are its own).
+ * tests/eval-bytes.test.ts compares the bytes with evaluateLines on generated text. The bytes returned are a
+ * view of the codec's memory, which the next call writes over: write or copy them before calling again.
  */
 export function evaluateBytes(routine: Routine, plan: Plan, width: number, source: string, k: Kernels, b: Uint8Array, firstLine: number): { bytes: Uint8Array; rows: number; lineCount: number; statuses: Record<string, number> } {
   try {
@@ -518,67 +602,78 @@ export function evaluateBytes(routine: Routine, plan: Plan, width: number, sourc
 }
 
 function evaluateBytesFast(routine: Routine, plan: Plan, width: number, source: string, k: Kernels, b: Uint8Array): { bytes: Uint8Array; rows: number; lineCount: number; statuses: Record<string, number> } {
-  const len = b.length;
-  let lfs = 0;
-  for (let i = b.indexOf(10); i >= 0; i = b.indexOf(10, i + 1)) lfs++;
-  const maxRows = lfs + 1;
   const na = plan.specs.length;
-  const args = new Float64Array(maxRows * na);
-  const starts = new Int32Array(maxRows);
-  const ends = new Int32Array(maxRows);
-  const echoes: (Uint8Array | undefined)[] = [];
-  const cs = new Int32Array(width + 1); // cell j is bytes [cs[j], cs[j + 1] - 1)
-  const wanted = plan.cols;
+  const nOut = routine.outputs.length;
+  const cd = codec();
+  const cols = plan.cols.map((c, i) => (c < 0 ? COL_DEFAULT : plan.specs[i]!.choices ? COL_HOST : c));
+  const l = cd.begin(b, width, cols, plan.specs.map((s) => s.default ?? 0), nOut);
+  if (l === undefined) throw FALL_BACK; // a table too wide for the codec's layout
+  const records = cd.scan(l, width, MAX_LINE_BYTES);
+  if (records === SCAN_FALL_BACK) throw FALL_BACK;
+  const rows = hostLines(cd, l, records, plan, width, b);
+  callRows(k, plan.exportName, l.args, na, rows, l.outs, nOut, l.status);
+  const tally = new RowTally(routine, plan, k);
+  const st = l.st;
+  const status = l.status;
+  for (let r = 0; r < rows; r++) {
+    const code = status[r]!;
+    const ok = tally.row(code, l.outs, r * nOut, l.args, r * na);
+    st[r] = cd.statusAt(code, statusText(code).word, ok);
+  }
+  return { bytes: cd.assemble(l, rows), rows, lineCount: l.lineEnds, statuses: tally.statuses() };
+}
+
+/**
+ * The lines the codec's scan left to this thread (evaluateLines' rules): a line with space, a CR or bytes beyond
+ * ASCII (read as a string, its echo written after the chunk), or cells that are words or decimals the codec did
+ * not decide. Blank lines among them are dropped (the records and arguments after them move up). Returns the
+ * row count.
+ */
+function hostLines(cd: Codec, l: ChunkLayout, records: number, plan: Plan, width: number, b: Uint8Array): number {
+  const na = plan.specs.length;
+  const recs = l.recs;
+  const args = l.args;
   const buf = Buffer.from(b.buffer, b.byteOffset, b.byteLength);
+  let echoAt = l.echoFrom;
   let rows = 0;
-  for (let pos = 0; pos < len; ) {
-    let lf = b.indexOf(10, pos);
-    if (lf < 0) lf = len;
-    const start = pos;
-    const end = lf < len && lf > pos && b[lf - 1] === 13 ? lf - 1 : lf;
-    pos = lf + 1;
-    if (end - start > MAX_LINE_BYTES) throw FALL_BACK;
-    if (end > start && b[start] === 35) continue; // '#': a comment
-    // Cut at commas; any byte that needs the string path makes the line slow.
-    let n = 0;
-    let slow = end === start || !keptByTrim(b[start]!) || !keptByTrim(b[end - 1]!);
-    cs[0] = start;
-    for (let p = start; !slow && p < end; p++) {
-      const c = b[p]!;
-      if (c === 44) {
-        if (++n >= width || p === start || !keptByTrim(b[p - 1]!) || p + 1 === end || !keptByTrim(b[p + 1]!)) slow = true;
-        else cs[n] = p + 1;
-      } else if (c >= 128) slow = true;
-    }
-    const at = rows * na;
-    if (!slow) {
-      if (n + 1 !== width) throw FALL_BACK;
-      cs[width] = end + 1;
-      for (let i = 0; i < na; i++) {
-        const c = wanted[i]!;
-        const spec = plan.specs[i]!;
-        if (c < 0) args[at + i] = spec.default!;
-        else args[at + i] = spec.choices ? stringCell(latin1(buf, cs[c]!, cs[c + 1]! - 1), spec) : numberCell(b, buf, cs[c]!, cs[c + 1]! - 1, spec);
-      }
-    } else {
+  for (let r = 0; r < records; r++) {
+    const flag = recs[3 * r + 2]!;
+    const start = recs[3 * r]!;
+    const end = recs[3 * r + 1]!;
+    if (flag === LINE_SLOW) {
       const line = slowLine(buf.toString("utf8", start, end), width);
-      if (line === undefined) continue;
+      if (line === undefined) continue; // blank: no row
       for (let i = 0; i < na; i++) {
-        const c = wanted[i]!;
+        const c = plan.cols[i]!;
         const spec = plan.specs[i]!;
-        args[at + i] = c < 0 ? spec.default! : stringCell(line.cells[c]!, spec);
+        args[rows * na + i] = c < 0 ? spec.default! : stringCell(line.cells[c]!, spec);
       }
-      echoes[rows] = ENCODER.encode(line.echo);
+      const echo = Buffer.from(line.echo, "utf8");
+      cd.mem.set(echo, cd.inputAt + echoAt);
+      recs[3 * rows] = echoAt;
+      recs[3 * rows + 1] = echoAt + echo.length;
+      echoAt += echo.length;
+    } else {
+      if (flag === LINE_CELLS) {
+        const cs = [start];
+        for (let p = b.indexOf(44, start); p >= 0 && p < end; p = b.indexOf(44, p + 1)) cs.push(p + 1);
+        cs.push(end + 1);
+        for (let i = 0; i < na; i++) {
+          const c = plan.cols[i]!;
+          const spec = plan.specs[i]!;
+          if (c < 0) args[r * na + i] = spec.default!;
+          else args[r * na + i] = spec.choices ? stringCell(latin1(buf, cs[c]!, cs[c + 1]! - 1), spec) : numberCell(cd, buf, cs[c]!, cs[c + 1]! - 1, spec);
+        }
+      }
+      if (rows !== r) {
+        recs[3 * rows] = start;
+        recs[3 * rows + 1] = end;
+        args.copyWithin(rows * na, r * na, r * na + na);
+      }
     }
-    starts[rows] = start;
-    ends[rows] = end;
     rows++;
   }
-  const nOut = routine.outputs.length;
-  const outs = new Float64Array(Math.max(1, rows * nOut));
-  const status = new Int32Array(Math.max(1, rows));
-  callRows(k, plan.exportName, args, na, rows, outs, nOut, status);
-  return { ...formatRows(routine, plan, k, b, rows, starts, ends, echoes, args, outs, status), lineCount: lfs };
+  return rows;
 }
 
 /** Bytes [p, end) as text, one character a byte (Buffer's latin1Slice without toString's argument checks). */
@@ -596,56 +691,20 @@ function stringCell(word: string, spec: InputSpec): number {
   }
 }
 
-/** A number cell, bytes [p, end) of printable ASCII: readDecimal, else Number(), else the string path. */
-function numberCell(b: Uint8Array, buf: Buffer, p: number, end: number, spec: InputSpec): number {
-  const r = readDecimal(b, p, end);
+/**
+ * A number cell, bytes [p, end) of printable ASCII, the chunk placed in the codec: the codec's exact parse,
+ * Number() where the codec cannot prove its answer or the value under- or overflows (lostOnParse names it),
+ * the string path for anything that is not a decimal.
+ */
+function numberCell(cd: Codec, buf: Buffer, p: number, end: number, spec: InputSpec): number {
+  const r = cd.parse(p, end);
   let v: number;
-  if (r === 0) v = decimalValue[0]!;
-  else if (r === NOT_EXACT) {
+  if (r === PARSE_OK) v = cd.value;
+  else if (r === PARSE_UNSURE) {
     const word = latin1(buf, p, end);
     v = Number(word);
     if (lostOnParse(word, v)) throw FALL_BACK;
   } else return stringCell(latin1(buf, p, end), spec);
   if (spec.integer && !Number.isInteger(v)) throw FALL_BACK;
   return v;
-}
-
-/** The output bytes of the rows (evaluateLines' second pass): echo, outputs, status word; counts per status. */
-function formatRows(routine: Routine, plan: Plan, k: Kernels, b: Uint8Array, rows: number, starts: Int32Array, ends: Int32Array, echoes: readonly (Uint8Array | undefined)[], args: Float64Array, outs: Float64Array, status: Int32Array): { bytes: Uint8Array; rows: number; statuses: Record<string, number> } {
-  const nOut = routine.outputs.length;
-  const na = plan.specs.length;
-  const counts = new Map<number, number>();
-  let broken = 0;
-  const budgets = budgetSlots(routine);
-  const failed = ENCODER.encode(",NaN".repeat(nOut) + ",");
-  const one = new Float64Array(nOut);
-  const sink = SINK;
-  sink.len = 0;
-  sink.room(b.length + rows * (nOut * 24 + 12));
-  for (let r = 0; r < rows; r++) {
-    const st = status[r]!;
-    const o = r * nOut;
-    for (let i = 0; i < nOut; i++) one[i] = outs[o + i]!;
-    const bad = abiViolation(st, one, routine.outputs);
-    if (bad !== undefined) throw new ModuleError(abiViolationMessage(k.label, plan.exportName, Array.from(args.subarray(r * na, r * na + na)), bad));
-    counts.set(st, (counts.get(st) ?? 0) + 1);
-    const echo = echoes[r];
-    if (echo === undefined) sink.copy(b, starts[r]!, ends[r]!);
-    else sink.copy(echo, 0, echo.length);
-    if (isOk(st)) {
-      if (budgets.length > 0 && budgets.some((i) => one[i]! >= 0)) broken++;
-      for (let i = 0; i < nOut; i++) {
-        sink.byte(44);
-        sink.number(one[i]!);
-      }
-      sink.byte(44);
-    } else sink.copy(failed, 0, failed.length);
-    const t = statusText(st).bytes;
-    sink.copy(t, 0, t.length);
-  }
-  const statuses: Record<string, number> = {};
-  for (const [code, n] of counts) statuses[statusText(code).word] = (statuses[statusText(code).word] ?? 0) + n;
-  if (broken > 0) statuses[BUDGET_BROKEN] = broken;
-  if (k.realBytes === 4) for (let r = 0; r < rows; r++) countLosses(plan.specs, args.subarray(r * na, r * na + na), statuses);
-  return { bytes: sink.buf.subarray(0, sink.len), rows, statuses };
 }

@@ -8,12 +8,20 @@ import type { FromWorker, JobResult, KernelSource, ToWorker, WorkerInit } from "
 import type { Kernels } from "../module/load.js";
 import { loadModule, loadNamedBuild, isBuildName } from "../module/builds.js";
 import { findRoutine, type Routine } from "../module/routines.js";
-import { prepareEval, evalRange } from "./evaluate.js";
-import { runSuite, type CheckJob } from "../verify/check.js";
-import { findSpec } from "../verify/specs/index.js";
-import { sweepRange, type Grid } from "./sweep.js";
+import { RangeReader, CHUNK_BYTES } from "../core/stream.js";
+import { OutputSlots } from "../core/pool.js";
+import type { Grid } from "./sweep.js";
+import type { CheckJob } from "../verify/check.js";
 
 type Handler = (job: unknown) => { value: unknown; transfer?: ArrayBuffer[] };
+
+/**
+ * An eval worker's output slots: more than the jobs the pool has out at once for two workers (4 a worker and
+ * 2, core/pool.ts runOrdered), each four default chunks (an output of about 1.5 times its input for two
+ * inputs and two outputs); a larger output goes as a buffer of its own.
+ */
+const EVAL_SLOTS = 12;
+const EVAL_SLOT_BYTES = 4 * CHUNK_BYTES;
 
 function load(src: KernelSource): Kernels {
   if (src.module !== undefined) return loadModule(src.module, src.callLimit).kernels;
@@ -28,26 +36,36 @@ function routineOf(name: string): Routine {
   return r;
 }
 
-function setUp(init: WorkerInit): Handler {
+/** The handler of a worker's jobs; each kind imports only what it runs (a worker starts sooner). */
+async function setUp(init: WorkerInit): Promise<Handler> {
   const k = load(init.load);
   switch (init.kind) {
     case "eval": {
+      const { prepareEval, evalRange } = await import("./evaluate.js");
       const routine = routineOf(init.routine);
       const plan = prepareEval(routine, init.columns, init.source);
+      const src = { reader: new RangeReader(init.path, init.first, init.size, init.source), columns: init.columns, source: init.source };
+      const slots = new OutputSlots(EVAL_SLOT_BYTES, EVAL_SLOTS);
       return (job) => {
         const { start, end } = job as { start: number; end: number };
-        const r = evalRange(routine, plan, init, k, start, end);
-        return { value: r, transfer: [r.bytes.buffer as ArrayBuffer] };
+        const r = evalRange(routine, plan, src, k, start, end); // r.bytes: a view of the codec's memory
+        const shared = slots.put(r.bytes);
+        if (shared !== undefined) return { value: { ...r, bytes: new Uint8Array(0), shared } };
+        const own = r.bytes.slice();
+        return { value: { ...r, bytes: own }, transfer: [own.buffer] };
       };
     }
-    case "check":
+    case "check": {
+      const [{ runSuite }, { findSpec }] = await Promise.all([import("../verify/check.js"), import("../verify/specs/index.js")]);
       return (job) => {
         const { suite, limits } = job as CheckJob;
         const spec = findSpec(suite);
         if (!spec) throw new Error(`unknown suite '${String(suite)}'`);
         return { value: runSuite(spec, k, { limits }) };
       };
+    }
     case "sweep": {
+      const { sweepRange } = await import("./sweep.js");
       const routine = routineOf(init.routine);
       const g = init.grid as Grid;
       return (job) => {
@@ -63,12 +81,13 @@ if (!port) throw new Error("worker-entry.js runs as a worker thread (workers.ts 
 let handler: Handler | undefined;
 port.on("message", (m: ToWorker) => {
   if (m.type === "init") {
-    try {
-      handler = setUp(m.init);
-      port.postMessage({ type: "ready" } satisfies FromWorker);
-    } catch (err) {
-      port.postMessage({ type: "fatal", name: (err as Error).name ?? "Error", message: (err as Error).message ?? String(err) } satisfies FromWorker);
-    }
+    setUp(m.init).then(
+      (h) => {
+        handler = h;
+        port.postMessage({ type: "ready" } satisfies FromWorker);
+      },
+      (err: unknown) => port.postMessage({ type: "fatal", name: (err as Error).name ?? "Error", message: (err as Error).message ?? String(err) } satisfies FromWorker),
+    );
     return;
   }
   let result: JobResult<unknown>;
