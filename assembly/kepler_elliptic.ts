@@ -47,26 +47,40 @@ import { IS_F32, INTEGER_LIMIT, PI, EPS, THIRD, SIXTH, TWENTYFOURTH, KEPLER_LINE
 import { reduceTurns, reducedLo, reducedTurns } from "./reduce";
 import { F5 as C5, F7 as C7, F9 as C9, F6 as C6, F8 as C8 } from "./factorials";
 import { SINCOS_TABLE, SINCOS_SHIFT, SINCOS_STEP, SINCOS_PER_RAD } from "./sincos_table";
+import { STARTER_TABLE, STARTER_SHIFT, STARTER_M_CELLS, STARTER_E_PER_UNIT, STARTER_M_PER_RAD } from "./kepler_starter_table";
 
 /** Iteration cap of the correction loop. */
 export const ELLIPTIC_MAX_ITER: i32 = 6;
 /**
  * Stop once a step is below this fraction of E. The step is of fifth order, so a step of 2^-11 E leaves an
- * error of about (2^-11)^5 = 2^-55 relative, below half an ulp (f32: 2^-9 leaves 2^-45). Markley's starter is
- * within 2^-11 of the root on every case measured (3e6 random cases, every vector case), so one step is the rule
- * and a second step happens only for a starter worse than any seen.
+ * error of about (2^-11)^5 = 2^-55 relative, below half an ulp (f32: 2^-9 leaves 2^-45). Both starters are
+ * within 2^-11 of the root on every case measured (the table within 2^-13.3 on its cells, Markley's within 2^-11
+ * in the corner), so one step is the rule and a second step happens only for a starter worse than any seen.
  */
 const ELLIPTIC_STOP_REL: real = IS_F32 ? <real>0.001953125 : <real>0.00048828125; // 2^-9, 2^-11; f64 0x3F40000000000000, f32 0x3B000000
 // Markley's alpha = (3 pi^2 + 1.6 pi (pi - M) / (1 + e)) / (pi^2 - 6), written A0 + A1 (pi - M) / (1 + e) with
-// A0 = 3 pi^2 / (pi^2 - 6) and A1 = 1.6 pi / (pi^2 - 6), correctly rounded (tests/kernels-constants.test.ts); 1 / (1 + e)
-// depends on e alone, so its division runs beside the reduction instead of on the chain from M.
+// A0 = 3 pi^2 / (pi^2 - 6) and A1 = 1.6 pi / (pi^2 - 6), correctly rounded (tests/kernels-constants.test.ts).
 const MARKLEY_A0: real = <real>7.651638290191292; // f64 0x401E9B471164C596, f32 0x40F4DA39
 const MARKLEY_A1: real = <real>1.2989824604108398; // f64 0x3FF4C8A1D518ACBC, f32 0x3FA6450F
 /** Below this |M| no whole turn is removed (nearest(M / 2 pi) = 0 there): the reduction is skipped. */
 const NO_TURN_MAX: real = <real>3.0;
+/**
+ * The one-block common path takes 0 < e < 1 and KEPLER_LINEAR_MAX <= |M| <= FAST_M_MAX: no special case and no
+ * whole turn there (3.125 / 2 pi < 1/2), so the general path would compute the same bits. f64 0x4009000000000000,
+ * f32 0x40480000.
+ */
+const FAST_M_MAX: real = <real>3.125;
 const NAN_REAL: real = <real>NaN;
-/** Largest starter the node table covers (its last node is 4); the root itself is below pi + 1. */
+/** Largest starter the node table covers (its last node is 4); the root itself is at most pi. */
 const STARTER_MAX: real = <real>4.0;
+/**
+ * 1.5 2^52 (f64 0x4338000000000000) or 1.5 2^23 (f32 0x4B400000): t + ROUND_MAGIC rounds t (|t| < 2^22) to the
+ * nearest integer, ties to even, which then sits in the low bits of the sum (common practice). Used instead of
+ * floor and an integer conversion for the two table indices: fewer instructions, and no rounding instruction
+ * whose destination register ties one call to the previous one in the engine's code (measured here, 2026-12).
+ */
+const ROUND_MAGIC: real = IS_F32 ? <real>12582912.0 : <real>6755399441055744.0; // 1.5 * 2^23, 1.5 * 2^52; f64 0x4338000000000000, f32 0x4B400000
+const ROUND_MAGIC_BITS_F32: i32 = 0x4B400000;
 // invCbrt's constants: the bit-trick seeds (high word of a double, whole binary32), tuned numerically here.
 const INV_CBRT_MAGIC_F64_HI: u32 = 0x553EE95E;
 const INV_CBRT_MAGIC_F32: u32 = 0x54A1F5AF;
@@ -77,6 +91,33 @@ const THIRTYFIVE_243: real = <real>0.1440329218106996; // f64 0x3FC26FABB85CB534
 
 /** Solve E - e sin E = M. Writes E to slot 0 and the step count to slot 1. */
 export function kepler_elliptic(e: real, M: real): i32 {
+  const mh = abs(M);
+  // The common case in one block: one starter, one step, one test (NaN inputs fail every comparison here).
+  if ((<i32>(e > 0) & <i32>(e < 1) & <i32>(mh <= FAST_M_MAX) & <i32>(mh >= KEPLER_LINEAR_MAX)) != 0) {
+    const E = oneStep(e, mh);
+    if (E == E) {
+      put(0, copysign<real>(E, M));
+      put(1, 1);
+      return OK;
+    }
+  }
+  return keplerGeneral(e, M);
+}
+
+// The common path's solve for 0 < e < 1, KEPLER_LINEAR_MAX <= mh <= FAST_M_MAX: the root after one step, or NaN
+// when the step did not meet the stopping rule (keplerGeneral then repeats the same step and goes on).
+// @ts-ignore: decorator
+@inline function oneStep(e: real, mh: real): real {
+  const q: real = <real>1.0 - e;
+  const E0 = starter(e, q, mh);
+  if (!(abs(E0 - <real>2.0) <= <real>2.0)) return NAN_REAL; // outside [0, 4]: keplerGeneral's fallback
+  const step = correctionCore(e, q, mh, 0, E0);
+  const E = E0 + step;
+  return abs(step) <= ELLIPTIC_STOP_REL * E ? E : NAN_REAL;
+}
+
+// Every input: the special cases, the reduction by whole turns and the correction loop.
+function keplerGeneral(e: real, M: real): i32 {
   put(1, 0);
   if (!isFinite(e) || !isFinite(M)) return ERR_NONFINITE;
   if (!(e >= 0 && e < 1)) return ERR_DOMAIN;
@@ -84,7 +125,6 @@ export function kepler_elliptic(e: real, M: real): i32 {
     put(0, M);
     return OK;
   }
-  const inv = <real>1.0 / (<real>1.0 + e); // for the starter; depends on e only
   let mh0 = M;
   let ml0: real = 0;
   let k: real = 0;
@@ -98,7 +138,7 @@ export function kepler_elliptic(e: real, M: real): i32 {
   const ml = neg ? -ml0 : ml0;
   let E: real = 0;
   if (mh != 0) {
-    E = solveReduced(e, inv, mh, ml); // writes the step count to slot 1
+    E = solveReduced(e, mh, ml); // writes the step count to slot 1
     if (!(E == E)) {
       put(1, <real>ELLIPTIC_MAX_ITER);
       return ERR_NOT_CONVERGED;
@@ -118,12 +158,12 @@ export function kepler_elliptic(e: real, M: real): i32 {
   return OK;
 }
 
-// Root of (1 - e) E + e (E - sin E) = mh + ml for 0 < mh <= ~pi, 0 < e < 1, inv = 1 / (1 + e): returns E and
-// writes the step count to slot 1, or returns NaN when the cap is reached.
-function solveReduced(e: real, inv: real, mh: real, ml: real): real {
+// Root of (1 - e) E + e (E - sin E) = mh + ml for 0 < mh <= ~pi, 0 < e < 1: returns E and writes the step count
+// to slot 1, or returns NaN when the cap is reached.
+function solveReduced(e: real, mh: real, ml: real): real {
   const q: real = <real>1.0 - e;
   if (mh < KEPLER_LINEAR_MAX) return (mh + ml) / q; // slot 1 keeps its 0
-  let E = markleyStarter(e, inv, q, mh);
+  let E = starter(e, q, mh);
   if (!(E > 0 && E <= STARTER_MAX)) E = mh + <real>0.85 * e; // Danby-Burkardt fallback; not expected
   for (let it = 1; it <= ELLIPTIC_MAX_ITER; it++) {
     const step = correctionStep(e, q, mh, ml, E);
@@ -137,22 +177,70 @@ function solveReduced(e: real, inv: real, mh: real, ml: real): real {
   return NAN_REAL;
 }
 
+// The nearest integer to r - ROUND_MAGIC, read from the low bits of r = t + ROUND_MAGIC.
+// @ts-ignore: decorator
+@inline function roundedIndex(r: real): i32 {
+  return IS_F32 ? reinterpret<i32>(<f32>r) - ROUND_MAGIC_BITS_F32 : <i32>reinterpret<i64>(<f64>r);
+}
+
+// Starter for 0 < e < 1, mh > 0, q = 1 - e: E0 = mh Q(x, y) from the cell of (e, mh) in the starter table, or
+// Markley's starter in the corner cells (j < (i >> 1) - 1) and beyond the last cell (mh > 3.1459: a reduction
+// whose quotient rounded to the next turn leaves |m| a little above pi). Cell indices by rounding t - 1/2
+// (t = 8 e or K mh) to the nearest integer: the cell below t (one below at a tie, where t is a cell edge and the
+// centred coordinate is +1/2: the cubic holds on the closed cell).
+// @ts-ignore: decorator
+@inline function starter(e: real, q: real, mh: real): real {
+  const xs = e * STARTER_E_PER_UNIT - <real>0.5;
+  const ri = xs + ROUND_MAGIC;
+  const ys = mh * STARTER_M_PER_RAD - <real>0.5;
+  const rj = ys + ROUND_MAGIC;
+  const i = roundedIndex(ri);
+  const j = roundedIndex(rj);
+  let E0: real;
+  // (An if-else, not an early return: the optimizer turns `if (c) return f()` into a branch that evaluates f()
+  // on every call.)
+  if (j < (i >> 1) - 1 || j >= STARTER_M_CELLS) {
+    E0 = markleyStarter(e, <real>1.0 / (<real>1.0 + e), q, mh);
+  } else {
+    const x = xs - (ri - ROUND_MAGIC); // centred coordinates in [-1/2, 1/2], exact
+    const y = ys - (rj - ROUND_MAGIC);
+    const p = STARTER_TABLE + ((<usize>(i * STARTER_M_CELLS + j) << STARTER_SHIFT) << alignof<real>());
+    const x2 = x * x;
+    const x3 = x2 * x;
+    const y2 = y * y;
+    // c_b = sum over a of c[a][b] x^a (four independent sums), then Q = c_0 + c_1 y + c_2 y^2 + c_3 y^3.
+    const c0 = (load<real>(p) + x * load<real>(p, 4 * sizeof<real>())) + (x2 * load<real>(p, 8 * sizeof<real>()) + x3 * load<real>(p, 12 * sizeof<real>()));
+    const c1 = (load<real>(p, sizeof<real>()) + x * load<real>(p, 5 * sizeof<real>())) + (x2 * load<real>(p, 9 * sizeof<real>()) + x3 * load<real>(p, 13 * sizeof<real>()));
+    const c2 = (load<real>(p, 2 * sizeof<real>()) + x * load<real>(p, 6 * sizeof<real>())) + (x2 * load<real>(p, 10 * sizeof<real>()) + x3 * load<real>(p, 14 * sizeof<real>()));
+    const c3 = (load<real>(p, 3 * sizeof<real>()) + x * load<real>(p, 7 * sizeof<real>())) + (x2 * load<real>(p, 11 * sizeof<real>()) + x3 * load<real>(p, 15 * sizeof<real>()));
+    E0 = mh * ((c0 + y * c1) + y2 * (c2 + y * c3));
+  }
+  return E0;
+}
+
 /**
  * One correction step from E (0 < E <= STARTER_MAX) for (1 - e) E + e (E - sin E) = mh + ml, q = 1 - e: returns
- * the step. sin E, cos E, E - sin E and 1 - cos E come from the node table and short series in d = E - x_j.
- * (Exported for the bench's floor measurement, bench/baseline.ts; not a module export.)
+ * the step. (Exported for the bench's floor measurement, bench/baseline.ts; not a module export.)
  */
 export function correctionStep(e: real, q: real, mh: real, ml: real, E: real): real {
-  // Node x_j <= E < x_j + 1/64 of the table (floor: every term below is then >= 0 for E <= pi/2, no cancellation).
-  const fj = floor(E * SINCOS_PER_RAD);
-  const j = <i32>fj;
-  const d = E - fj * SINCOS_STEP; // exact (Sterbenz for j >= 1; d = E for j = 0)
+  return correctionCore(e, q, mh, ml, E);
+}
+
+// The step itself (inlined into the common path): sin E, cos E, E - sin E and 1 - cos E from the node table and
+// short series in d = E - x_j.
+// @ts-ignore: decorator
+@inline function correctionCore(e: real, q: real, mh: real, ml: real, E: real): real {
+  // Node x_j <= E <= x_j + 1/64 (the node below E; at a node itself possibly the one below it, then d = 1/64):
+  // every term below is then >= 0 for E <= pi/2, no cancellation.
+  const rj = (E * SINCOS_PER_RAD - <real>0.5) + ROUND_MAGIC; // E * 64 exact, and - 1/2 exact for E <= 4
+  const j = roundedIndex(rj);
+  const d = E - (rj - ROUND_MAGIC) * SINCOS_STEP; // exact (Sterbenz for j >= 1; d = E for j = 0)
   const p = SINCOS_TABLE + ((<usize>j << SINCOS_SHIFT) << alignof<real>());
   const sj = load<real>(p);
   const cj = load<real>(p, sizeof<real>());
   const tj = load<real>(p, 2 * sizeof<real>()); // x_j - sin x_j
   const uj = load<real>(p, 3 * sizeof<real>()); // 1 - cos x_j
-  // 0 <= d < 2^-6: d - sin d and cos d - 1 by their Taylor series to d^9 and d^8 (next terms below 2^-60 relative).
+  // 0 <= d <= 2^-6: d - sin d and cos d - 1 by their Taylor series to d^9 and d^8 (next terms below 2^-60 relative).
   // Estrin's scheme in d^2 and d^4 (two short chains instead of one long one).
   const d2 = d * d;
   const d4 = d2 * d2;
@@ -174,17 +262,17 @@ export function correctionStep(e: real, q: real, mh: real, ml: real, E: real): r
   const u = f0 * r1;
   const A = <real>0.5 * f2 * r1;
   const B = SIXTH * f3 * r1;
-  const C = -TWENTYFOURTH * f2 * r1; // f'''' = -e sin E
+  const C = -TWENTYFOURTH * f2 * r1; // the fourth derivative is -e sin E
   // -u (1 + A u + P2 u^2 + P3 u^3), P2 = 2A^2 - B, P3 = 5A^3 - 5AB + C, by Estrin's scheme.
   const AA = A * A;
   const P2 = <real>2.0 * AA - B;
   const P3 = A * (<real>5.0 * (AA - B)) + C;
-  const step = -u * ((<real>1.0 + u * A) + (u * u) * (P2 + u * P3));
-  return step;
+  return -u * ((<real>1.0 + u * A) + (u * u) * (P2 + u * P3));
 }
 
-// Markley (1995) starter for 0 < mh <= ~pi: sin E replaced by a Pade approximant, the cubic solved in closed
-// form. The cube root is w0 = X^(1/3) with w = w0^2 = X * X^(-1/3), X^(-1/3) from invCbrt (no division).
+// Markley (1995) starter for 0 < mh <= ~pi (the corner cells): sin E replaced by a Pade approximant, the cubic
+// solved in closed form. The cube root is w0 = X^(1/3) with w = w0^2 = X * X^(-1/3), X^(-1/3) from invCbrt (no
+// division). inv = 1 / (1 + e). (Exported for the bench; not a module export.)
 export function markleyStarter(e: real, inv: real, q: real, mh: real): real {
   const alpha = MARKLEY_A0 + (PI - mh) * (MARKLEY_A1 * inv);
   const d = <real>3.0 * q + alpha * e;
