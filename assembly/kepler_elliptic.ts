@@ -288,8 +288,8 @@ export function markleyStarter(e: real, inv: real, q: real, mh: real): real {
 // 1. y0 from the bits: the exponent field divided by 3 (the idea of C. Lomont, "Fast inverse square root", 2003,
 //    applied to the cube root; the constant was tuned numerically here for |1 - X y0^3| <= 0.103 on every binade).
 // 2. y = y0 (1 - t)^(-1/3), t = 1 - X y0^3, by the binomial series to t^4: 1 + t/3 + 2t^2/9 + 14t^3/81 + 35t^4/243
-//    (truncation below 91/729 |t|^5 = 1.4e-6). No division, no loop.
-function invCbrt2(X: real): real {
+//    (truncation below 91/729 |t|^5 = 1.4e-6). No division, no loop. (Also the hyperbolic solver's cubic starter.)
+export function invCbrt2(X: real): real {
   let y0: real;
   // (Integer quotients and 64-bit shifts written with explicit conversions, so the host-JS build reads them alike.)
   if (IS_F32) {
