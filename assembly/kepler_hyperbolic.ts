@@ -9,7 +9,8 @@
 //     no cancellation, written 2b t^2 / (t^2 (t^2 + p) + p^2) (one division) with t^2 = X^(2/3) from the short
 //     power of kepler_elliptic.ts (invCbrt2: a bit-trick seed and a binomial series, 1.5e-6 relative, no cube
 //     root call); used when that root is below CUBIC_MAX. Otherwise the lower bound
-//     h2 = asinh((M + asinh(M / e)) / e) (from e sinh H = M + H >= M + asinh(M / e)).
+//     h2 = asinh((M + asinh(M / e)) / e) (from e sinh H = M + H >= M + asinh(M / e)), each asinh as
+//     ln(y + sqrt(y^2 + 1)) (ln y + ln 2 for y >= 2^27): one log and one sqrt, no library asinh.
 //     The cubic starter is the one in the numerics notes; compare A. W. Odell and R. H. Gooding,
 //     "Procedures for solving Kepler's equation", Celest. Mech. 38 (1986) 307-334.
 //  3. Small H (<= LOG_FORM_H), on f = (e - 1) H + e (sinh H - H) - M (series for sinh H - H when H <= 1; e - 1
@@ -51,6 +52,8 @@ const HYPERBOLIC_STOP_REL_5: real = IS_F32 ? <real>0.001953125 : <real>0.0004882
 const LOG_FORM_H: real = 20.0;
 /** The cubic starter is used below this H (there it is within 9% of the root; beyond, the asinh bound is closer). */
 const CUBIC_MAX: real = 2.2; // f64 0x400199999999999A, f32 0x400CCCCD
+/** asinhRough's switch to ln y + ln 2: 2^27 (f64), 2^13 (f32), where y^2 + 1 rounds to y^2. */
+const ASINH_LOG_FORM: real = IS_F32 ? <real>8192.0 : <real>134217728.0; // 2^13, 2^27; f64 0x41A0000000000000, f32 0x46000000
 /** Above this e the small-H residual is evaluated divided through by e (2^1000, 2^120). */
 const HUGE_E: real = IS_F32 ? <real>1.329227995784916e36 : <real>1.0715086071862673e301; // f64 0x7E70000000000000, f32 0x7B800000
 
@@ -88,8 +91,20 @@ function starter(e: real, em1: real, m: real): real {
       if (Hc < CUBIC_MAX && Hc > 0) return Hc;
     }
   }
-  const h1 = RMath.asinh(m / e);
-  return RMath.asinh((m + h1) / e);
+  const h1 = asinhRough(m / e);
+  return asinhRough((m + h1) / e);
+}
+
+// asinh y for y >= 0, to a few ulp, for the starter: ln(y + sqrt(y^2 + 1)) (one log, one sqrt, no division),
+// ln y + ln 2 beyond ASINH_LOG_FORM (there y^2 + 1 rounds to y^2; also keeps y^2 from overflowing).
+function asinhRough(y: real): real {
+  let h: real;
+  if (y < ASINH_LOG_FORM) {
+    h = RMath.log(y + RMath.sqrt(y * y + <real>1.0));
+  } else {
+    h = RMath.log(y) + LN2;
+  }
+  return h;
 }
 
 // Root H > 0 of e sinh H - H = m for m > 0: OK with H in slot 0 and the step count in slot 1, or
