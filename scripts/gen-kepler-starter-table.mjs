@@ -18,6 +18,7 @@ import { readFileSync, writeFileSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { Decimal } from "decimal.js";
+import { roundingFor } from "./decimal-rounding.mjs";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const target = join(root, "assembly", "kepler_starter_table.ts");
@@ -26,42 +27,7 @@ const M_CELLS = 16;
 const M_PER_RAD = 5.0859375; // 651 / 128, exact in binary32: 16 cells reach 3.1459 > pi (rounding margin)
 const D = Decimal.clone({ precision: 40, rounding: Decimal.ROUND_HALF_EVEN });
 
-/** Exact decimal value of a double (finite). */
-function exactOf(x) {
-  if (x === 0) return new D(0);
-  const buf = new DataView(new ArrayBuffer(8));
-  buf.setFloat64(0, x);
-  const bits = buf.getBigUint64(0);
-  const biased = Number((bits >> 52n) & 0x7ffn);
-  const field = bits & ((1n << 52n) - 1n);
-  const sig = biased === 0 ? field : field | (1n << 52n);
-  const v = new D(sig.toString()).times(new D(2).pow(biased === 0 ? -1074 : biased - 1075));
-  return bits >> 63n ? v.neg() : v;
-}
-
-/** Nearest binary64 to a decimal (Number() of the full string is correctly rounded). */
-const toF64 = (v) => (v.isZero() ? 0 : Number(v.toExponential()));
-
-/** Nearest binary32 to a decimal: the f32 neighbours of fround(nearest double), compared exactly. */
-function toF32(v) {
-  if (v.isZero()) return 0;
-  const f = Math.fround(toF64(v));
-  const fb = new DataView(new ArrayBuffer(4));
-  fb.setFloat32(0, f);
-  const u = fb.getUint32(0);
-  let best = f;
-  let bestErr = null;
-  for (const b of [u - 1, u, u + 1]) {
-    fb.setUint32(0, b >>> 0);
-    const c = fb.getFloat32(0);
-    const err = exactOf(c).minus(v).abs();
-    if (bestErr === null || err.lt(bestErr)) {
-      best = c;
-      bestErr = err;
-    }
-  }
-  return best;
-}
+const { toF64, toF32 } = roundingFor(D);
 
 /** Root of E - e sin E = M (0 <= e < 1, M > 0) at the working precision: double Newton, then decimal Newton. */
 export function rootOf(e, M) {
