@@ -14,11 +14,16 @@ export interface KernelSource {
   readonly module?: string;
   /** Time limit of each call into `module`, in seconds. */
   readonly callLimit?: number;
+  /**
+   * The compiled module of `build` (a WebAssembly build), compiled once by the thread that starts the pool:
+   * the worker instantiates it without compiling, and without loading the code of the other builds.
+   */
+  readonly compiled?: WebAssembly.Module;
 }
 
 /** What a worker is set up to do; it then takes jobs of the matching kind. */
 export type WorkerInit =
-  | { readonly kind: "eval"; readonly load: KernelSource; readonly routine: string; readonly columns: readonly string[]; readonly source: string; readonly path: string; readonly first: number; readonly size: number }
+  | { readonly kind: "eval"; readonly load: KernelSource; readonly routine: string; readonly columns: readonly string[]; readonly source: string; readonly path: string; readonly first: number; readonly size: number; readonly codec?: WebAssembly.Module }
   | { readonly kind: "check"; readonly load: KernelSource }
   | { readonly kind: "sweep"; readonly load: KernelSource; readonly routine: string; readonly grid: unknown };
 

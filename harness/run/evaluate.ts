@@ -13,10 +13,10 @@ import { parseNumber, singlePrecisionLoss } from "../core/float.js";
 import { cannotWrite as cannotWriteFile, makeDirs, outputIsInput } from "../core/atomic.js";
 import { armSignalCleanup, removeOnSignal } from "../core/cleanup.js";
 import type { Routine, InputSpec } from "../module/routines.js";
-import { callRows, type Kernels } from "../module/load.js";
+import { callRows, withCompiled, type Kernels } from "../module/load.js";
 import { statusWord, isOk, abiViolation, abiViolationMessage } from "../module/status.js";
 import { ModuleError } from "../module/load.js";
-import { codec, PARSE_OK, PARSE_UNSURE, COL_DEFAULT, COL_HOST, LINE_CELLS, LINE_SLOW, SCAN_FALL_BACK, type Codec, type ChunkLayout } from "../core/codec.js";
+import { codec, codecModule, PARSE_OK, PARSE_UNSURE, COL_DEFAULT, COL_HOST, LINE_CELLS, LINE_SLOW, SCAN_FALL_BACK, type Codec, type ChunkLayout } from "../core/codec.js";
 import { CsvFileStream, CHUNK_BYTES, readOwnedLines, RangeReader, isSkippedBeforeHeader, LineTooLong, MAX_LINE_BYTES } from "../core/stream.js";
 import { WorkerPool, sharedView, releaseShared, type KernelSource, type SharedBytes } from "../core/pool.js";
 
@@ -260,7 +260,8 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
       const stop = shard?.hi ?? size;
       let startError: unknown;
       let started = false;
-      starting = WorkerPool.start(opts.workers, { kind: "eval", load: opts.load, routine: routine.name, columns: head.columns, source, path, first, size }).then(
+      // The kernel and codec modules go compiled (this thread compiled them): a worker compiles neither.
+      starting = WorkerPool.start(opts.workers, { kind: "eval", load: withCompiled(opts.load), routine: routine.name, columns: head.columns, source, path, first, size, codec: codecModule() }).then(
         (p) => {
           pool = p;
           started = true;
