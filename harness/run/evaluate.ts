@@ -274,8 +274,10 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
       );
       const take = (v: EvalChunkResult): void => {
         if (v.error === undefined) {
-          if (v.shared === undefined) write(v.bytes);
-          else {
+          if (v.shared === undefined) {
+            write(v.bytes);
+            kept.release(v.bytes);
+          } else {
             write(sharedView(v.shared));
             releaseShared(v.shared);
           }
@@ -288,6 +290,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
         throw new EvalError(`${source}: a worker failed on lines from ${line}: ${v.error}`);
       };
       const own = { reader: new RangeReader(path, first, size, source), columns: head.columns, source };
+      const kept = new KeptBytes();
       while (!started && next < stop) {
         const end = Math.min(stop, next + step);
         take(evalRange(routine, plan, own, opts.kernels, next, end));
@@ -308,12 +311,12 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
       // (a view of the codec's memory is copied when the range waits for an earlier one).
       const local = (r: { start: number; end: number }, atOnce: boolean): EvalChunkResult => {
         const v = evalRange(routine, plan, own, opts.kernels, r.start, r.end);
-        return atOnce ? v : { ...v, bytes: v.bytes.slice() };
+        return atOnce ? v : { ...v, bytes: kept.keep(v.bytes) };
       };
       await pool!.runOrdered<{ start: number; end: number }, EvalChunkResult>(ranges, (r) => {
         if (r.ok) return take(r.value);
         throw new EvalError(`${source}: a worker failed on lines from ${line}: ${r.message}`);
-      }, undefined, undefined, local);
+      }, 4 * opts.workers + 2, undefined, local); // in flight: as many as with N worker threads (4 each and 2)
     }
     try {
       closeSync(fd);
@@ -336,6 +339,34 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
     if (tmp !== undefined && target !== undefined) rmSync(tmp, { force: true });
     if (tmpDir !== undefined) rmSync(tmpDir, { recursive: true, force: true });
     forget();
+  }
+}
+
+/**
+ * Buffers for the output of the ranges the main thread ran that wait for an earlier range (runOrdered's `local`),
+ * reused range after range: a fresh copy of each (about 100 KB) cost 0.14 s of a 2,000,000-row run. A buffer
+ * comes back when its bytes are written (release), so there are no more than ranges in flight.
+ */
+class KeptBytes {
+  private readonly free: Uint8Array[] = [];
+  private readonly held = new Map<Uint8Array, Uint8Array>();
+
+  /** A copy of `bytes` (a view of the codec's memory) in a buffer of this set. */
+  keep(bytes: Uint8Array): Uint8Array {
+    let buf = this.free.pop();
+    if (buf === undefined || buf.length < bytes.length) buf = new Uint8Array(bytes.length);
+    buf.set(bytes);
+    const view = buf.subarray(0, bytes.length);
+    this.held.set(view, buf);
+    return view;
+  }
+
+  /** The buffer of a view `keep` returned is free again (any other bytes are not this set's: nothing happens). */
+  release(view: Uint8Array): void {
+    const buf = this.held.get(view);
+    if (buf === undefined) return;
+    this.held.delete(view);
+    this.free.push(buf);
   }
 }
 
