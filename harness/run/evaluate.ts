@@ -309,10 +309,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
       };
       // This thread is one of the `workers`: it runs a range whenever the worker threads have theirs queued
       // (a view of the codec's memory is copied when the range waits for an earlier one).
-      const local = (r: { start: number; end: number }, atOnce: boolean): EvalChunkResult => {
-        const v = evalRange(routine, plan, own, opts.kernels, r.start, r.end);
-        return atOnce ? v : { ...v, bytes: kept.keep(v.bytes) };
-      };
+      const local = localRanges(routine, plan, own, opts.kernels, kept);
       await pool!.runOrdered<{ start: number; end: number }, EvalChunkResult>(ranges, (r) => {
         if (r.ok) return take(r.value);
         throw new EvalError(`${source}: a worker failed on lines from ${line}: ${r.message}`);
@@ -347,7 +344,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
  * reused range after range: a fresh copy of each (about 100 KB) cost 0.14 s of a 2,000,000-row run. A buffer
  * comes back when its bytes are written (release), so there are no more than ranges in flight.
  */
-class KeptBytes {
+export class KeptBytes {
   private readonly free: Uint8Array[] = [];
   private readonly held = new Map<Uint8Array, Uint8Array>();
 
@@ -368,6 +365,17 @@ class KeptBytes {
     this.held.delete(view);
     this.free.push(buf);
   }
+}
+
+/**
+ * The main thread's runner of ranges for runOrdered's `local`: evalRange, its output kept in `kept` when it is
+ * not written at once (evalRange's bytes are a view of the codec's memory, which the next range overwrites).
+ */
+export function localRanges(routine: Routine, plan: Plan, own: RangeSource, k: Kernels, kept: KeptBytes): (r: { start: number; end: number }, atOnce: boolean) => EvalChunkResult {
+  return (r, atOnce) => {
+    const v = evalRange(routine, plan, own, k, r.start, r.end);
+    return atOnce ? v : { ...v, bytes: kept.keep(v.bytes) };
+  };
 }
 
 /** What a worker sends back for one byte range of an eval. */
