@@ -187,6 +187,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
   let tmp: string | undefined;
   let tmpDir: string | undefined;
   let pool: WorkerPool | undefined;
+  let stopping: Promise<void> | undefined; // the pool's close, begun once the last range is back
   let starting: Promise<void> | undefined; // the pool's start, which never rejects (its error is kept)
   let line = 0;
   const cannotWrite = (err: unknown): Error => cannotWriteFile(target ?? "stdout", err);
@@ -314,6 +315,9 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
         if (r.ok) return take(r.value);
         throw new EvalError(`${source}: a worker failed on lines from ${line}: ${r.message}`);
       }, 4 * opts.workers + 2, undefined, local); // in flight: as many as with N worker threads (4 each and 2)
+      // The workers have nothing left to do: they stop while this thread closes and renames the output.
+      stopping = pool!.close();
+      pool = undefined;
     }
     try {
       closeSync(fd);
@@ -332,6 +336,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
     stream.close();
     if (starting) await starting;
     if (pool) await pool.close();
+    if (stopping) await stopping;
     if (fd >= 0) closeSync(fd);
     if (tmp !== undefined && target !== undefined) rmSync(tmp, { force: true });
     if (tmpDir !== undefined) rmSync(tmpDir, { recursive: true, force: true });
