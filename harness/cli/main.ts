@@ -5,43 +5,47 @@
  * input (the message names the flag, file, line or column, or the module and the export).
  */
 import { parseArgs } from "node:util";
-import { ModuleError } from "../module/load.js";
-import { EvalError } from "../run/evaluate.js";
-import { CsvError } from "../core/csv.js";
 import { OPTIONS, UsageError, commandHelp, hang, suggest, unknownName, type Command, type OptionDef } from "./options.js";
-import { evalCommand } from "./commands/eval.js";
-import { checkCommand } from "./commands/check.js";
-import { vectorsCommand } from "./commands/vectors.js";
-import { demoCommand } from "./commands/demo.js";
-import { startCommand } from "./commands/start.js";
-import { trajectoryCommand } from "./commands/trajectory.js";
-import { compareCommand } from "./commands/compare.js";
-import { sweepCommand, mergeCommand } from "./commands/sweep.js";
-import { benchCommand } from "./commands/bench.js";
-import { routinesCommand } from "./commands/routines.js";
-import { countCommand } from "./commands/count.js";
 
 export { UsageError } from "./options.js";
 
-/** Every command, in the order help lists them. */
-export const COMMANDS: Readonly<Record<string, Command>> = {
-  start: startCommand,
-  check: checkCommand,
-  eval: evalCommand,
-  trajectory: trajectoryCommand,
-  compare: compareCommand,
-  sweep: sweepCommand,
-  merge: mergeCommand,
-  vectors: vectorsCommand,
-  bench: benchCommand,
-  count: countCommand,
-  demo: demoCommand,
-  routines: routinesCommand,
+/**
+ * Every command, in the order help lists them, with the loader of its module (commands/): a command's module,
+ * and what it imports, is loaded only when that command runs or its help is shown (loading all of them cost
+ * every run 100-170 ms of start-up; the trajectory command's schema validator alone about 80 ms).
+ */
+const COMMAND_MODULES: Readonly<Record<string, () => Promise<Command>>> = {
+  start: async () => (await import("./commands/start.js")).startCommand,
+  check: async () => (await import("./commands/check.js")).checkCommand,
+  eval: async () => (await import("./commands/eval.js")).evalCommand,
+  trajectory: async () => (await import("./commands/trajectory.js")).trajectoryCommand,
+  compare: async () => (await import("./commands/compare.js")).compareCommand,
+  sweep: async () => (await import("./commands/sweep.js")).sweepCommand,
+  merge: async () => (await import("./commands/sweep.js")).mergeCommand,
+  vectors: async () => (await import("./commands/vectors.js")).vectorsCommand,
+  bench: async () => (await import("./commands/bench.js")).benchCommand,
+  count: async () => (await import("./commands/count.js")).countCommand,
+  demo: async () => (await import("./commands/demo.js")).demoCommand,
+  routines: async () => (await import("./commands/routines.js")).routinesCommand,
 };
 
-function overview(): string {
+/** The command names, in the order help lists them. */
+export const COMMAND_NAMES: readonly string[] = Object.keys(COMMAND_MODULES);
+
+/** One command (its module loaded now), or undefined for an unknown name. */
+export async function loadCommand(name: string): Promise<Command | undefined> {
+  return Object.hasOwn(COMMAND_MODULES, name) ? COMMAND_MODULES[name]!() : undefined;
+}
+
+/** Every command, in help's order (every command module loaded). */
+export async function loadCommands(): Promise<Record<string, Command>> {
+  const all = await Promise.all(COMMAND_NAMES.map(async (n) => [n, (await loadCommand(n))!] as const));
+  return Object.fromEntries(all);
+}
+
+async function overview(): Promise<string> {
   const lines = ["usage: areal <command> [options]", "", "commands:"];
-  for (const [name, c] of Object.entries(COMMANDS)) lines.push(...hang(`  ${name.padEnd(11)} `, c.summary));
+  for (const [name, c] of Object.entries(await loadCommands())) lines.push(...hang(`  ${name.padEnd(11)} `, c.summary));
   lines.push("", "areal <command> --help shows a command's options.",
     "Exit codes: 0 ok, 1 a check failed or a budget was broken, 2 bad usage or input.",
     "Not flight-qualified: flight use needs qualified verification and validation under your own process.");
@@ -73,8 +77,12 @@ function parseOptions(cmd: string, command: Command, rest: readonly string[]): {
   return { positionals: parsed.positionals, values };
 }
 
-/** The message and exit code of an error that reached the top. */
-function report(err: unknown): number {
+/**
+ * The message and exit code of an error that reached the top. The error classes of modules a command may not
+ * have loaded are loaded here (on the error path only).
+ */
+async function report(err: unknown): Promise<number> {
+  const [{ ModuleError }, { EvalError }, { CsvError }] = await Promise.all([import("../module/load.js"), import("../run/evaluate.js"), import("../core/csv.js")]);
   if (err instanceof UsageError || err instanceof CsvError || err instanceof EvalError || err instanceof ModuleError) {
     process.stderr.write(`areal: ${err.message}\n`);
     return 2;
@@ -92,12 +100,12 @@ function report(err: unknown): number {
 export async function main(argv: readonly string[]): Promise<number> {
   const [cmd, ...rest] = argv;
   if (cmd === undefined || cmd === "help" || cmd === "--help" || cmd === "-h") {
-    process.stdout.write(overview());
+    process.stdout.write(await overview());
     return cmd === undefined ? 2 : 0;
   }
   try {
-    const command = COMMANDS[cmd];
-    if (!command) throw unknownName("command", cmd, Object.keys(COMMANDS));
+    const command = await loadCommand(cmd);
+    if (!command) throw unknownName("command", cmd, COMMAND_NAMES);
     const { positionals, values } = parseOptions(cmd, command, rest);
     if (values.help) {
       process.stdout.write(commandHelp(cmd, command));
@@ -105,6 +113,6 @@ export async function main(argv: readonly string[]): Promise<number> {
     }
     return await command.run(positionals, values);
   } catch (err) {
-    return report(err);
+    return await report(err);
   }
 }

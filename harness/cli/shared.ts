@@ -5,9 +5,7 @@ import { loadModule, loadNamedBuild, type BuildName } from "../module/builds.js"
 import { parseCallLimit } from "../module/bounded.js";
 import { loadLibrary } from "../module/library.js";
 import type { KernelSource } from "../core/pool.js";
-import { runSuite, type SuiteResult } from "../verify/check.js";
-import { SPECS } from "../verify/specs/index.js";
-import { selectSpecs } from "../verify/generate.js";
+import type { SuiteResult } from "../verify/check.js";
 import { UsageError, unknownName } from "./options.js";
 
 /** `--call-limit SECONDS` (default 10): the time limit of each call into a `--module`. */
@@ -57,8 +55,12 @@ export function dateOption(values: Record<string, unknown>): string {
   return date;
 }
 
-/** Run the selected suites (all when none are named) in this thread. */
-export function runChecks(k: Kernels, suites: readonly string[]): SuiteResult[] {
+/**
+ * Run the selected suites (all when none are named) in this thread. The suites and their references are loaded
+ * here, not when this file is (every command that runs kernels imports it).
+ */
+export async function runChecks(k: Kernels, suites: readonly string[]): Promise<SuiteResult[]> {
+  const [{ runSuite }, { SPECS }, { selectSpecs }] = await Promise.all([import("../verify/check.js"), import("../verify/specs/index.js"), import("../verify/generate.js")]);
   const specs = suites.length === 0 ? SPECS : selectSpecs(suites);
   return specs.map((s) => runSuite(s, k));
 }

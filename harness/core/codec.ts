@@ -85,8 +85,8 @@ export class Codec {
   private readonly statusIndex = new Map<number, number>();
   private at = { recs: 0, args: 0, outs: 0, status: 0, st: 0, text: 0, cs: 0, defaults: 0 };
 
-  constructor(bytes: Uint8Array<ArrayBuffer>) {
-    const inst = new WebAssembly.Instance(new WebAssembly.Module(bytes), {});
+  constructor(mod: WebAssembly.Module) {
+    const inst = new WebAssembly.Instance(mod, {});
     this.ex = inst.exports as unknown as CodecExports;
     const heap = this.ex.codec_heap();
     this.valueAt = this.ex.parse_value_ptr();
@@ -216,11 +216,26 @@ export class Codec {
 }
 
 let mine: Codec | undefined;
+let compiled: WebAssembly.Module | undefined;
+
+/**
+ * The codec module compiled, once a thread (or as given by useCodecModule); throws naming the file when it is
+ * not built. Eval sends it to its worker threads, which then compile nothing (structured clone shares the code).
+ */
+export function codecModule(): WebAssembly.Module {
+  if (compiled) return compiled;
+  if (!existsSync(CODEC_FILE)) throw new Error(`the codec module is missing (${CODEC_FILE}); run 'npm run build'`);
+  compiled = new WebAssembly.Module(readFileSync(CODEC_FILE));
+  return compiled;
+}
+
+/** Use a codec module compiled elsewhere (a worker thread's parent, codecModule there) for this thread's codec. */
+export function useCodecModule(mod: WebAssembly.Module): void {
+  compiled ??= mod;
+}
 
 /** This thread's codec (loaded on first use); throws naming the file when it is not built. */
 export function codec(): Codec {
-  if (mine) return mine;
-  if (!existsSync(CODEC_FILE)) throw new Error(`the codec module is missing (${CODEC_FILE}); run 'npm run build'`);
-  mine = new Codec(readFileSync(CODEC_FILE));
+  mine ??= new Codec(codecModule());
   return mine;
 }

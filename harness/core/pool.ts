@@ -14,11 +14,16 @@ export interface KernelSource {
   readonly module?: string;
   /** Time limit of each call into `module`, in seconds. */
   readonly callLimit?: number;
+  /**
+   * The compiled module of `build` (a WebAssembly build), compiled once by the thread that starts the pool:
+   * the worker instantiates it without compiling, and without loading the code of the other builds.
+   */
+  readonly compiled?: WebAssembly.Module;
 }
 
 /** What a worker is set up to do; it then takes jobs of the matching kind. */
 export type WorkerInit =
-  | { readonly kind: "eval"; readonly load: KernelSource; readonly routine: string; readonly columns: readonly string[]; readonly source: string; readonly path: string; readonly first: number; readonly size: number }
+  | { readonly kind: "eval"; readonly load: KernelSource; readonly routine: string; readonly columns: readonly string[]; readonly source: string; readonly path: string; readonly first: number; readonly size: number; readonly codec?: WebAssembly.Module }
   | { readonly kind: "check"; readonly load: KernelSource }
   | { readonly kind: "sweep"; readonly load: KernelSource; readonly routine: string; readonly grid: unknown };
 
@@ -92,8 +97,13 @@ export class WorkerPool {
    * job each, a worker sat idle for a quarter of a run with 64 KB chunks), and at most `maxInFlight` jobs are
    * out or waiting for their turn at once. When `onResult` throws, no further job is sent and the promise
    * rejects with that error once the jobs already out have come back.
+   *
+   * With `local`, this thread is a worker too: whenever every worker has its jobs queued, this thread takes the
+   * next job and runs it itself (one job a turn of the event loop, so the workers' answers are taken between
+   * two), within the same `maxInFlight`. `local` is told whether its result is handed to `onResult` at once
+   * (it is the next in order), before `local` runs again; a throw of `local` fails the run as `onResult`'s does.
    */
-  runOrdered<J, R>(jobs: Iterator<J>, onResult: (r: JobResult<R>, job: J, index: number) => void, maxInFlight = 4 * this.workers.length + 2, perWorker = 3): Promise<void> {
+  runOrdered<J, R>(jobs: Iterator<J>, onResult: (r: JobResult<R>, job: J, index: number) => void, maxInFlight = 4 * this.workers.length + 2, perWorker = 3, local?: (job: J, handedAtOnce: boolean) => R): Promise<void> {
     return new Promise<void>((resolve, reject) => {
       // Jobs queued at each worker; a job goes to the worker with the fewest.
       const queued = new Map<Worker, number>(this.workers.map((w) => [w, 0]));
@@ -110,7 +120,10 @@ export class WorkerPool {
       let failure: unknown;
       let out = 0;
       const listeners: [Worker, (m: FromWorker) => void, (e: Error) => void][] = [];
+      let finished = false;
+      let localDue = false;
       const finish = (): void => {
+        finished = true;
         for (const [w, onMsg, onErr] of listeners) {
           w.off("message", onMsg);
           w.off("error", onErr);
@@ -131,7 +144,30 @@ export class WorkerPool {
           w.postMessage({ type: "job", id: next, job: it.value } satisfies ToWorker);
           next++;
         }
-        if (out === 0 && (exhausted || failure !== undefined)) finish();
+        if (local && !localDue && failure === undefined && !exhausted && next - flushed < maxInFlight) {
+          localDue = true;
+          setImmediate(runLocal);
+        }
+        if (out === 0 && (exhausted || failure !== undefined) && !localDue && !finished) finish();
+      };
+      // One job in this thread (`local`), when the workers are busy: its result is accounted like a worker's.
+      const runLocal = (): void => {
+        localDue = false;
+        if (finished || failure !== undefined || exhausted || next - flushed >= maxInFlight) return pump();
+        const it = jobs.next();
+        if (it.done) {
+          exhausted = true;
+          return pump();
+        }
+        const id = next++;
+        sent.set(id, it.value);
+        try {
+          done.set(id, { ok: true, value: local!(it.value, id === flushed) });
+        } catch (err) {
+          failure ??= err;
+        }
+        flush();
+        pump();
       };
       const flush = (): void => {
         while (failure === undefined && done.has(flushed)) {

@@ -5,6 +5,7 @@
  */
 import { readFileSync, existsSync } from "node:fs";
 import { BUILD_FILES } from "../core/paths.js";
+import type { KernelSource } from "../core/pool.js";
 
 /** A loaded module, ready to call. */
 export interface Kernels {
@@ -38,14 +39,25 @@ export interface Kernels {
 
 export class ModuleError extends Error {}
 
-/** Instantiate a module from bytes. Throws ModuleError with a plain message on anything that is not a kernel module. */
-export function instantiate(bytes: Uint8Array<ArrayBuffer>, label: string): Kernels {
-  let mod: WebAssembly.Module;
+/** Compile module bytes; throws ModuleError naming `label` when they are not a WebAssembly module. */
+function compile(bytes: Uint8Array<ArrayBuffer>, label: string): WebAssembly.Module {
   try {
-    mod = new WebAssembly.Module(bytes);
+    return new WebAssembly.Module(bytes);
   } catch (err) {
     throw new ModuleError(`${label}: not a WebAssembly module (${(err as Error).message})`);
   }
+}
+
+/** Instantiate a module from bytes. Throws ModuleError with a plain message on anything that is not a kernel module. */
+export function instantiate(bytes: Uint8Array<ArrayBuffer>, label: string): Kernels {
+  return instantiateModule(compile(bytes, label), label);
+}
+
+/**
+ * Instantiate a compiled module (instantiate's checks and messages). A worker thread gets the module its
+ * parent compiled (compiledBuild): structured clone shares the compiled code, so the worker compiles nothing.
+ */
+export function instantiateModule(mod: WebAssembly.Module, label: string): Kernels {
   const imports: Record<string, Record<string, WebAssembly.ImportValue>> = {};
   for (const imp of WebAssembly.Module.imports(mod)) {
     if (imp.module === "env" && imp.name === "abort" && imp.kind === "function") {
@@ -200,9 +212,37 @@ export function loadFile(path: string, label = path): Kernels {
 /** The built-in WebAssembly builds. */
 export type WasmBuild = keyof typeof BUILD_FILES;
 
-/** Load one of the built-in builds; says how to build it when the file is missing. */
+/** This thread's compiled built-in builds (compiledBuild). */
+const COMPILED = new Map<WasmBuild, WebAssembly.Module>();
+
+/**
+ * A built-in build compiled, once a thread; says how to build it when the file is missing. Worker threads are
+ * sent this module (core/pool.ts KernelSource.compiled) instead of compiling their own.
+ */
+export function compiledBuild(build: WasmBuild): WebAssembly.Module {
+  let mod = COMPILED.get(build);
+  if (mod === undefined) {
+    const path = BUILD_FILES[build];
+    if (!existsSync(path)) throw new ModuleError(`the ${build} build is missing (${path}); run 'npm run build'`);
+    mod = compile(readFileSync(path), build);
+    COMPILED.set(build, mod);
+  }
+  return mod;
+}
+
+/** Load one of the built-in builds (a new instance of its compiled module); says how to build it when the file is missing. */
 export function loadBuild(build: WasmBuild): Kernels {
-  const path = BUILD_FILES[build];
-  if (!existsSync(path)) throw new ModuleError(`the ${build} build is missing (${path}); run 'npm run build'`);
-  return loadFile(path, build);
+  return instantiateModule(compiledBuild(build), build);
+}
+
+/** True for the name of a built-in WebAssembly build. */
+export function isWasmBuild(name: string): name is WasmBuild {
+  return Object.hasOwn(BUILD_FILES, name);
+}
+
+/** `src` with the compiled module of its build (compiledBuild) when it names a WebAssembly build, for a worker's set-up. */
+export function withCompiled(src: KernelSource): KernelSource {
+  if (src.module !== undefined || src.compiled !== undefined) return src;
+  const b = src.build ?? "f64";
+  return isWasmBuild(b) ? { ...src, compiled: compiledBuild(b) } : src;
 }

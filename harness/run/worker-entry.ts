@@ -5,8 +5,7 @@
  */
 import { parentPort } from "node:worker_threads";
 import type { FromWorker, JobResult, KernelSource, ToWorker, WorkerInit } from "../core/pool.js";
-import type { Kernels } from "../module/load.js";
-import { loadModule, loadNamedBuild, isBuildName } from "../module/builds.js";
+import { instantiateModule, isWasmBuild, type Kernels } from "../module/load.js";
 import { findRoutine, type Routine } from "../module/routines.js";
 import { RangeReader, CHUNK_BYTES } from "../core/stream.js";
 import { OutputSlots } from "../core/pool.js";
@@ -23,9 +22,16 @@ type Handler = (job: unknown) => { value: unknown; transfer?: ArrayBuffer[] };
 const EVAL_SLOTS = 12;
 const EVAL_SLOT_BYTES = 4 * CHUNK_BYTES;
 
-function load(src: KernelSource): Kernels {
-  if (src.module !== undefined) return loadModule(src.module, src.callLimit).kernels;
+/**
+ * The worker's kernels: a WebAssembly build from the module its parent compiled (nothing compiled here, nor the
+ * code of the other builds loaded: builds.ts with its JavaScript build takes a worker tens of milliseconds to
+ * load), anything else through builds.ts.
+ */
+async function load(src: KernelSource): Promise<Kernels> {
   const b = src.build ?? "f64";
+  if (src.module === undefined && src.compiled !== undefined && isWasmBuild(b)) return instantiateModule(src.compiled, b);
+  const { loadModule, loadNamedBuild, isBuildName } = await import("../module/builds.js");
+  if (src.module !== undefined) return loadModule(src.module, src.callLimit).kernels;
   if (!isBuildName(b)) throw new Error(`unknown build '${b}'`);
   return loadNamedBuild(b);
 }
@@ -38,10 +44,11 @@ function routineOf(name: string): Routine {
 
 /** The handler of a worker's jobs; each kind imports only what it runs (a worker starts sooner). */
 async function setUp(init: WorkerInit): Promise<Handler> {
-  const k = load(init.load);
+  const k = await load(init.load);
   switch (init.kind) {
     case "eval": {
-      const { prepareEval, evalRange } = await import("./evaluate.js");
+      const [{ prepareEval, evalRange }, { useCodecModule }] = await Promise.all([import("./evaluate.js"), import("../core/codec.js")]);
+      if (init.codec !== undefined) useCodecModule(init.codec);
       const routine = routineOf(init.routine);
       const plan = prepareEval(routine, init.columns, init.source);
       const src = { reader: new RangeReader(init.path, init.first, init.size, init.source), columns: init.columns, source: init.source };

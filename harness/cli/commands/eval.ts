@@ -1,7 +1,6 @@
 /** `areal eval <routine>`: run a routine over a CSV of inputs. */
 import { existsSync } from "node:fs";
 import { evaluateFile, BUDGET_BROKEN, LOST_IN_F32 } from "../../run/evaluate.js";
-import { parseShard } from "../../run/sweep.js";
 import { parseWorkers } from "../../core/pool.js";
 import { progressLine, progressWanted } from "../../core/progress.js";
 import { UsageError, type Command } from "../options.js";
@@ -19,7 +18,8 @@ export const evalCommand: Command = {
     if (!existsSync(input)) throw new UsageError(`--input: no such file: ${input}`);
     // A library runs in one child process: no worker threads.
     const workers = values.library !== undefined ? 1 : parseWorkers(values.workers as string | undefined);
-    const shard = values.shard === undefined ? undefined : parseShard(values.shard as string);
+    // run/sweep.js (and the decimal references it imports) is loaded only for --shard.
+    const shard = values.shard === undefined ? undefined : (await import("../../run/sweep.js")).parseShard(values.shard as string);
     const k = loadKernels(values);
     const out = values.out as string | undefined;
     // Streamed in chunks through the workers; the output appears whole at the end, or not at all.

@@ -11,7 +11,7 @@ export const startCommand: Command = {
   options: ["verbose", "report", "bench-json", "counts-json"],
   async run(_pos, values) {
     const k = loadBuild("f64");
-    const results = runChecks(k, []);
+    const results = await runChecks(k, []);
     process.stdout.write(formatCheckTable(results, k, Boolean(values.verbose)) + "\n");
     process.stdout.write(demoLines(k).join("\n") + "\n");
     const rep = await writeReport((values.report as string | undefined) ?? "out/report", results, k, reportFiles(values));
