@@ -14,6 +14,7 @@ import { cpSync, mkdtempSync, readFileSync, rmSync, symlinkSync, writeFileSync, 
 import { tmpdir } from "node:os";
 import { dirname, join, relative } from "node:path";
 import { fileURLToPath } from "node:url";
+import { CODEC_TARGET, ascArgs } from "./asc-targets.mjs";
 
 export const ROOT = join(dirname(fileURLToPath(import.meta.url)), "..");
 export const CATALOGUE = join(ROOT, "mutants", "catalogue.json");
@@ -79,26 +80,18 @@ export function runIn(cwd, cmd, args, timeoutMs = 20 * 60_000) {
  */
 function targetsFor(m) {
   if (m.file.startsWith("harness/")) return ["tsc"];
-  if (m.file.startsWith("codec/")) return ["codec"]; // the harness's codec module (codec/asconfig.json)
+  if (m.file.startsWith("codec/")) return [CODEC_TARGET];
   if (!m.file.startsWith("assembly/")) return [];
   return m.targets ?? ["release"];
 }
 
-/** Build what a changed kernel or harness file needs, in `dir`. */
+/** Build what a changed kernel or harness file needs, in `dir`, as scripts/build.mjs builds it. */
 export async function buildTargets(dir, targets) {
   for (const t of targets) {
-    if (t === "tsc") {
-      const r = await runIn(dir, process.execPath, [join(dir, "node_modules", "typescript", "bin", "tsc"), "-p", "tsconfig.json"]);
-      if (r.code !== 0) return r;
-      continue;
-    }
-    if (t === "codec") {
-      const r = await runIn(dir, process.execPath, [join(dir, "node_modules", "assemblyscript", "bin", "asc.js"), "--config", "codec/asconfig.json", "--target", "release"]);
-      if (r.code !== 0) return r;
-      continue;
-    }
-    const entry = t === "single" ? "assembly/index_f32.ts" : "assembly/index.ts"; // as scripts/build.mjs
-    const r = await runIn(dir, process.execPath, [join(dir, "node_modules", "assemblyscript", "bin", "asc.js"), entry, "--target", t]);
+    const args = t === "tsc"
+      ? [join(dir, "node_modules", "typescript", "bin", "tsc"), "-p", "tsconfig.json"]
+      : [join(dir, "node_modules", "assemblyscript", "bin", "asc.js"), ...ascArgs(t)];
+    const r = await runIn(dir, process.execPath, args);
     if (r.code !== 0) return r;
   }
   return { code: 0, out: "" };
