@@ -15,10 +15,11 @@
  * Inputs: vectors/count-inputs.json (typical and worst inputs per export, with the argument for the worst).
  */
 import { execFile } from "node:child_process";
-import { existsSync, mkdirSync, renameSync, readFileSync, writeFileSync } from "node:fs";
+import { existsSync, mkdirSync, renameSync, readFileSync } from "node:fs";
 import { basename, join } from "node:path";
 import { promisify } from "node:util";
 import { BUILD_DIR, ROOT, VECTORS_DIR } from "../core/paths.js";
+import { writeAtomic } from "../core/atomic.js";
 import { abiExport, choicesOf } from "../module/routines.js";
 import { TARGET_SPECS, WASM2C_RUNTIME, COMMON_CFLAGS, onPath, type TargetName } from "./toolchain.js";
 
@@ -183,9 +184,7 @@ export function runtimeDir(bareMetal: boolean): string {
  */
 function keep(path: string, text: string): void {
   if (existsSync(path) && readFileSync(path, "utf8") === text) return;
-  const tmp = `${path}.${process.pid}.tmp`;
-  writeFileSync(tmp, text);
-  renameSync(tmp, path);
+  writeAtomic(path, text);
 }
 
 /** Build the plugin (host gcc) into build/count/, once per run. */

@@ -80,19 +80,24 @@ function classOf(tag: string): string {
 const BLOCKS: Readonly<Record<string, string>> = { rx: "r", vx: "v", v1x: "v1", v2x: "v2", phi_11: "Phi~ block dr/dr0", phi_14: "Phi~ block dr/dv0", phi_41: "Phi~ block dv/dr0", phi_44: "Phi~ block dv/dv0" };
 const outputLabel = (o: string): string => BLOCKS[o] ?? o;
 
-/** Propagation: each case's error over its limit against the conditioning of r (both r and v compared). */
-export function propagationCases(k: Kernels): { points: CasePoint[]; result: SuiteResult } | string {
+/** Run a family's suite and place each compared case: x and class from `place`, its error over its own limit. */
+function casePoints(base: string, k: Kernels, place: (v: VectorSet, c: CaseError) => { x: number; group: string }): { points: CasePoint[]; result: SuiteResult } | string {
   const points: CasePoint[] = [];
-  const got = perCase("propagate", k, (v, c) => {
-    points.push({ x: Math.max(c.cond ?? 0, 1e-17), ratio: c.limit > 0 ? c.err / c.limit : 0, err: c.err, group: classOf(v.tags[c.row]!), output: outputLabel(c.output), tag: v.tags[c.row]! });
+  const got = perCase(base, k, (v, c) => {
+    const { x, group } = place(v, c);
+    points.push({ x, ratio: c.limit > 0 ? c.err / c.limit : 0, err: c.err, group, output: outputLabel(c.output), tag: v.tags[c.row]! });
   });
   return typeof got === "string" ? got : { points, result: got.result };
 }
 
+/** Propagation: each case's error over its limit against the conditioning of r (both r and v compared). */
+export function propagationCases(k: Kernels): { points: CasePoint[]; result: SuiteResult } | string {
+  return casePoints("propagate", k, (v, c) => ({ x: Math.max(c.cond ?? 0, 1e-17), group: classOf(v.tags[c.row]!) }));
+}
+
 /** Lambert: each case's error over its limit against the transfer angle (deg, 0 to 360), grouped by revolutions. */
 export function lambertCases(k: Kernels): { points: CasePoint[]; result: SuiteResult } | string {
-  const points: CasePoint[] = [];
-  const got = perCase("lambert", k, (v, c) => {
+  return casePoints("lambert", k, (v, c) => {
     const row = v.values[c.row]!;
     const g = (n: string): number => row[col(v, n)]!;
     const r1 = [g("r1x"), g("r1y"), g("r1z")];
@@ -103,16 +108,11 @@ export function lambertCases(k: Kernels): { points: CasePoint[]; result: SuiteRe
     let angle = (Math.atan2(cross, dot) * 180) / Math.PI;
     // The transfer goes the long way when the motion's sense and the z of r1 x r2 disagree.
     if ((cz < 0) !== (g("retrograde") !== 0)) angle = 360 - angle;
-    points.push({ x: angle, ratio: c.limit > 0 ? c.err / c.limit : 0, err: c.err, group: String(g("revs")), output: outputLabel(c.output), tag: v.tags[c.row]! });
+    return { x: angle, group: String(g("revs")) };
   });
-  return typeof got === "string" ? got : { points, result: got.result };
 }
 
 /** Transition matrix: each case's error over its limit, per orbit class (the x is the class's place). */
 export function transitionCases(k: Kernels): { points: CasePoint[]; result: SuiteResult } | string {
-  const points: CasePoint[] = [];
-  const got = perCase("transition", k, (v, c) => {
-    points.push({ x: 0, ratio: c.limit > 0 ? c.err / c.limit : 0, err: c.err, group: classOf(v.tags[c.row]!), output: outputLabel(c.output), tag: v.tags[c.row]! });
-  });
-  return typeof got === "string" ? got : { points, result: got.result };
+  return casePoints("transition", k, (v, c) => ({ x: 0, group: classOf(v.tags[c.row]!) }));
 }

@@ -31,9 +31,14 @@ export interface CountRow {
   readonly worstInputs: string;
 }
 
-function readJson(file: string, what: string): unknown {
-  if (!existsSync(file)) throw new Error(`${file}: no such file (${what})`);
-  return parseJsonText(readFileSync(file, "utf8"), file, (m) => new Error(m));
+/** A measurement file parsed, or the message saying why it cannot be read. */
+function readJson(file: string, what: string): { json: unknown } | string {
+  if (!existsSync(file)) return `${file}: no such file (${what})`;
+  try {
+    return { json: parseJsonText(readFileSync(file, "utf8"), file, (m) => new Error(m)) };
+  } catch (err) {
+    return (err as Error).message;
+  }
 }
 
 const isObj = (x: unknown): x is Record<string, unknown> => typeof x === "object" && x !== null && !Array.isArray(x);
@@ -42,12 +47,9 @@ const num = (x: unknown): number | undefined => (typeof x === "number" && Number
 /** Timings from a bench JSON file; a string saying why when there is none or it is not one. */
 export function readSpeed(file: string | undefined): Speed | string {
   if (file === undefined) return "not measured: run `areal bench --json FILE` and pass the file to the report (`--bench-json FILE`)";
-  let j: unknown;
-  try {
-    j = readJson(file, "areal bench --json");
-  } catch (err) {
-    return (err as Error).message;
-  }
+  const got = readJson(file, "areal bench --json");
+  if (typeof got === "string") return got;
+  const j = got.json;
   if (!isObj(j) || !Array.isArray(j.kernels)) return `${file}: expected the output of \`areal bench --json\` (an object with a "kernels" array)`;
   const rows: SpeedRow[] = [];
   for (const [i, x] of (j.kernels as unknown[]).entries()) {
@@ -65,12 +67,9 @@ export function readSpeed(file: string | undefined): Speed | string {
 /** Instruction counts from a count JSON file; a string saying why when there is none or it is not one. */
 export function readCounts(file: string | undefined): CountRow[] | string {
   if (file === undefined) return "not measured: run `areal count --json FILE` (instruction counts on target instruction sets) and pass the file to the report (`--counts-json FILE`)";
-  let j: unknown;
-  try {
-    j = readJson(file, "areal count --json");
-  } catch (err) {
-    return (err as Error).message;
-  }
+  const got = readJson(file, "areal count --json");
+  if (typeof got === "string") return got;
+  const j = got.json;
   const shape = `expected { "targets": { TARGET: { BUILD: { KERNEL: { "typical": N, "worst": N, "worst_inputs": {...} } } } } }`;
   if (!isObj(j) || !isObj(j.targets)) return `${file}: no "targets" object; ${shape}`;
   const rows: CountRow[] = [];

@@ -56,34 +56,36 @@ async function hyperbolic(k: Kernels): Promise<Section> {
     data: { x: "log10(e - 1)", y: "log10 |M|", value: "largest error (ulp)", cells: m.cells }, outcome: outcome(m.result), pass: m.result.pass };
 }
 
-async function propagation(k: Kernels): Promise<Section> {
-  const id = "propagation";
-  const title = "Propagation (universal variables)";
-  const p = propagationCases(k);
-  if (typeof p === "string") return { id, title, intro: "", absent: p };
-  return { id, title, intro: `Every case of the propagate suite: the error of r and of v (relative, as vectors) over that case's own limit, max(1e-13 (1 + revolutions), 10 x cond), against the case's conditioning (the relative change of r when one input moves by one ulp, computed at high precision). Near-parabolic cases have the largest conditioning, and the limit grows with it. ${esc(outcome(p.result))}`,
-    svg: await renderSvg(ratioSpec("error / limit per case against conditioning", ratioPoints(p.points, (q) => q.x), { title: "conditioning of r (relative change per input ulp, log)", log: true }, { title: "orbit class" })),
-    data: { columns: ["tag", "output", "cond", "error (rel)", "error / limit"], cases: compact(p.points) }, outcome: outcome(p.result), pass: p.result.pass };
+/** How a per-case family is drawn: the plot's title, its x (from a case) and axes, the JSON's column names. */
+interface CasePlot {
+  readonly plot: string;
+  readonly x: (q: CasePoint) => number | string;
+  readonly xAxis: Parameters<typeof ratioSpec>[2];
+  readonly colour: Parameters<typeof ratioSpec>[3];
+  readonly columns: readonly string[];
 }
 
-async function lambert(k: Kernels): Promise<Section> {
-  const id = "lambert";
-  const title = "Lambert targeting";
-  const p = lambertCases(k);
+/** A section of error / limit per case (families.ts), or why it is absent; the intro ends with the suite's outcome. */
+async function caseSection(id: string, title: string, p: { points: CasePoint[]; result: SuiteResult } | string, intro: string, how: CasePlot): Promise<Section> {
   if (typeof p === "string") return { id, title, intro: "", absent: p };
-  return { id, title, intro: `Every case of the lambert suite: the error of v1 and of v2 (relative, as vectors) over that case's limit, max(1e-13, 16 x cond), against the transfer angle; colour is the number of whole revolutions (0 to 5). The conditioning, and with it the limit, grows next to 180 deg, where the transfer plane is undefined. ${esc(outcome(p.result))}`,
-    svg: await renderSvg(ratioSpec("error / limit per case against the transfer angle", ratioPoints(p.points, (q) => q.x), { title: "transfer angle (deg)", domain: [0, 360] }, { title: "revolutions", ordinal: true })),
-    data: { columns: ["tag", "output", "transfer angle (deg)", "error (rel)", "error / limit"], cases: compact(p.points) }, outcome: outcome(p.result), pass: p.result.pass };
+  return { id, title, intro: `${intro} ${esc(outcome(p.result))}`,
+    svg: await renderSvg(ratioSpec(how.plot, ratioPoints(p.points, how.x), how.xAxis, how.colour)),
+    data: { columns: how.columns, cases: compact(p.points) }, outcome: outcome(p.result), pass: p.result.pass };
 }
 
-async function transition(k: Kernels): Promise<Section> {
-  const id = "transition";
-  const title = "State transition matrices";
-  const p = transitionCases(k);
-  if (typeof p === "string") return { id, title, intro: "", absent: p };
-  return { id, title, intro: `Every case of the transition suite (up to 25 revolutions, forwards and backwards), per orbit class: r and v as in propagation, and each 3x3 block of the scale-free matrix Phi~ = D^-1 Phi D against central differences of the 60-digit propagation, over the largest entry, each over its case's limit. ${esc(outcome(p.result))}`,
-    svg: await renderSvg(ratioSpec("error / limit per case and orbit class", ratioPoints(p.points, (q) => q.group), { title: "orbit class", nominal: true }, { title: "orbit class" })),
-    data: { columns: ["tag", "output", "-", "error", "error / limit"], cases: compact(p.points) }, outcome: outcome(p.result), pass: p.result.pass };
+function propagation(k: Kernels): Promise<Section> {
+  return caseSection("propagation", "Propagation (universal variables)", propagationCases(k), "Every case of the propagate suite: the error of r and of v (relative, as vectors) over that case's own limit, max(1e-13 (1 + revolutions), 10 x cond), against the case's conditioning (the relative change of r when one input moves by one ulp, computed at high precision). Near-parabolic cases have the largest conditioning, and the limit grows with it.",
+    { plot: "error / limit per case against conditioning", x: (q) => q.x, xAxis: { title: "conditioning of r (relative change per input ulp, log)", log: true }, colour: { title: "orbit class" }, columns: ["tag", "output", "cond", "error (rel)", "error / limit"] });
+}
+
+function lambert(k: Kernels): Promise<Section> {
+  return caseSection("lambert", "Lambert targeting", lambertCases(k), "Every case of the lambert suite: the error of v1 and of v2 (relative, as vectors) over that case's limit, max(1e-13, 16 x cond), against the transfer angle; colour is the number of whole revolutions (0 to 5). The conditioning, and with it the limit, grows next to 180 deg, where the transfer plane is undefined.",
+    { plot: "error / limit per case against the transfer angle", x: (q) => q.x, xAxis: { title: "transfer angle (deg)", domain: [0, 360] }, colour: { title: "revolutions", ordinal: true }, columns: ["tag", "output", "transfer angle (deg)", "error (rel)", "error / limit"] });
+}
+
+function transition(k: Kernels): Promise<Section> {
+  return caseSection("transition", "State transition matrices", transitionCases(k), "Every case of the transition suite (up to 25 revolutions, forwards and backwards), per orbit class: r and v as in propagation, and each 3x3 block of the scale-free matrix Phi~ = D^-1 Phi D against central differences of the 60-digit propagation, over the largest entry, each over its case's limit.",
+    { plot: "error / limit per case and orbit class", x: (q) => q.group, xAxis: { title: "orbit class", nominal: true }, colour: { title: "orbit class" }, columns: ["tag", "output", "-", "error", "error / limit"] });
 }
 
 /** The f32 build against the release build in metres and metres a second. */

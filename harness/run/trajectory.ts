@@ -12,7 +12,7 @@
  */
 import { parseJsonText } from "../core/json.js";
 import type { Kernels } from "../module/load.js";
-import { statusWord } from "../module/status.js";
+import { isOk, statusWord } from "../module/status.js";
 import { shortest } from "../core/float.js";
 import { abiExport, choicesOf, slotsOf } from "../module/routines.js";
 import { schemaErrors } from "./plan-schema.js";
@@ -331,14 +331,15 @@ export function initialState(k: Kernels, sc: Plan): { r: [number, number, number
   let nu = (el.true_anomaly_deg ?? 0) * DEG;
   if (el.mean_anomaly_deg !== undefined) {
     const st = k.call("mean_to_true", [el.e, el.mean_anomaly_deg * DEG]);
-    if (st >= 16) fail(`the mean anomaly is rejected by mean_to_true (e ${shortest(el.e)}): ${statusWord(st)}`);
+    if (!isOk(st)) fail(`the mean anomaly is rejected by mean_to_true (e ${shortest(el.e)}): ${statusWord(st)}`);
     nu = k.out[NU.nu]!;
   }
   const [name, size] = el.a_km !== undefined ? ["state", el.a_km] : ["state_p", el.p_km!];
   if (name === "state" && el.e === 1) fail("e = 1 (a parabola) has no semi-major axis; give p_km");
   if (name === "state" && (el.e < 1) !== (size > 0)) fail(`a_km ${shortest(size)} with e ${shortest(el.e)}: expected a_km > 0 for e < 1 (ellipse), a_km < 0 for e > 1 (hyperbola)`);
   const st = k.call(name, [sc.mu, size, el.e, el.i_deg * DEG, el.raan_deg * DEG, el.argp_deg * DEG, nu]);
-  if (st >= 16) fail(`rejected by the ${name} kernel: ${statusWord(st)}${statusWord(st) === "unreachable" ? " (the true anomaly is beyond the hyperbola's asymptote)" : ""}`);
+  const word = statusWord(st);
+  if (!isOk(st)) fail(`rejected by the ${name} kernel: ${word}${word === "unreachable" ? " (the true anomaly is beyond the hyperbola's asymptote)" : ""}`);
   const o = k.out;
   return { r: [o[SV.rx]!, o[SV.ry]!, o[SV.rz]!], v: [o[SV.vx]!, o[SV.vy]!, o[SV.vz]!], nu };
 }
