@@ -7,3 +7,5 @@
 export const GM_EARTH = 398600.4418;
 /** The text of GM_EARTH with its source, for the notes of suites and reports. */
 export const GM_EARTH_NOTE = `${GM_EARTH} km^3/s^2 (WGS 84, NIMA TR8350.2)`;
+/** Earth's equatorial radius, km: the WGS 84 semi-major axis a = 6378137 m (NIMA TR8350.2, table 3.1). */
+export const R_EARTH = 6378.137;

@@ -21,7 +21,7 @@ import { abiExport } from "../module/routines.js";
 import { readVectors } from "../verify/vectors.js";
 import { COUNT_DIR, INPUTS_FILE, argValues, buildObjects, buildPlugin, countRun, driverSource, linkDriver, translate, type CountCase } from "./count.js";
 import { BUILD_FILES } from "../core/paths.js";
-import { GM_EARTH } from "../core/constants.js";
+import { GM_EARTH, R_EARTH } from "../core/constants.js";
 
 const TOP_ITER = 12;
 const MAX_TAGS = 24;
@@ -60,7 +60,7 @@ const SOURCES: Readonly<Record<string, readonly Source[]>> = {
 
 const MU = GM_EARTH;
 const LEO = { r0x: 7000, r0y: 100, r0z: 1300, v0x: -0.2, v0y: 7.3, v0z: 1.1 };
-const ZONAL = { j2: 1.08263e-3, j3: -2.5327e-6, radius: 6378.137 }; // Earth's J2, J3, equatorial radius (km): recalled from memory
+const ZONAL = { j2: 1.08263e-3, j3: -2.5327e-6, radius: R_EARTH }; // Earth's J2, J3 (recalled from memory), equatorial radius
 const BUDGETS = { energy_budget: 1e-6, h_budget: 1e-6, ecc_budget: 1e-6, areal_budget: 1e-6 };
 const METHODS = ["rk4", "verlet", "yoshida4", "butcher6"];
 

@@ -8,12 +8,10 @@
 import type { Kernels } from "../module/load.js";
 import { slotsOf } from "../module/routines.js";
 import { isOk } from "../module/status.js";
-import { GM_EARTH } from "../core/constants.js";
+import { GM_EARTH, R_EARTH } from "../core/constants.js";
 
-/** Earth GM, km^3/s^2 (WGS 84 value, NIMA TR8350.2). */
 const MU = GM_EARTH;
-/** Earth equatorial radius, km (WGS 84). */
-const RE = 6378.137;
+const RE = R_EARTH;
 
 export interface PhysicalRow {
   readonly scenario: string;

@@ -8,7 +8,7 @@ import { referenceElliptic, referenceHyperbolic, referenceParabolic } from "../r
 import { referenceTrueToAnomaly, referenceAnomalyToTrue, referenceTrueToMean, referenceTimeOfFlight } from "../reference/anomaly.js";
 import { fromBits, toBits } from "../../core/float.js";
 import type { Case, VectorSpec } from "./types.js";
-import { GM_EARTH } from "../../core/constants.js";
+import { GM_EARTH, R_EARTH } from "../../core/constants.js";
 
 const KEPLER_GENERATOR = "areal vectors: harness/reference/kepler.ts (decimal.js, bracketed Newton to 1e-52, exact input doubles)";
 const CONVERSION_GENERATOR = "areal vectors: harness/reference/anomaly.ts (decimal.js, textbook closed forms, exact input doubles)";
@@ -402,7 +402,7 @@ function flightEdges(seed: number): Case[] {
     if (Math.abs(b - a) < 0.05) b = a + (a < 0 ? 0.05 : -0.05);
     return [a, b];
   };
-  for (const [mu, p] of [[1e-20, 1], [1e20, 1], [1, 1e-10], [1, 1e15], [1e-10, 1e-10], [1e25, 1e12], [GM_EARTH, 6378.137]] as const) {
+  for (const [mu, p] of [[1e-20, 1], [1e20, 1], [1, 1e-10], [1, 1e15], [1e-10, 1e-10], [1e25, 1e12], [GM_EARTH, R_EARTH]] as const) {
     for (const e of [0, 0.5, 1, 3]) push("edge-scale", mu, p, e, ...pair(e));
   }
   for (const e of [0, TINY, 1e-300, 1e-16, ...E_BELOW_1, 1, 1 + 2 ** -52, 1 + 2 ** -45, 1e3, 1e15, 1e120, 1e300]) push(e < 0.5 ? "edge-e0" : e > 100 ? "edge-huge-e" : "edge-e1", GM_EARTH, 7000, e, ...pair(e));
