@@ -38,7 +38,7 @@
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED } from "./status";
 import { put, got } from "./io";
 import { IS_F32, MIN_NORMAL, SIXTH, TWENTYFOURTH, LN2, KEPLER_LINEAR_MAX } from "./real";
-import { ODD_SERIES_MAX, sinhMinusXSeries } from "./series";
+import { ODD_SERIES_MAX, sinhMinusXSeries, reversionStep5 } from "./series";
 import { invCbrt2 } from "./kepler_elliptic";
 
 export const HYPERBOLIC_MAX_ITER: i32 = 8;
@@ -160,10 +160,7 @@ function solvePositive(e: real, m: real): i32 {
         const A = <real>0.5 * f2 * r;
         const B = SIXTH * f3 * r;
         const C = TWENTYFOURTH * f2 * r;
-        const AA = A * A;
-        const P2 = <real>2.0 * AA - B;
-        const P3 = A * (<real>5.0 * (AA - B)) + C;
-        step = -u * ((<real>1.0 + u * A) + (u * u) * (P2 + u * P3));
+        step = reversionStep5(u, A, B, C);
         stopRel = HYPERBOLIC_STOP_REL_5;
       }
     }
