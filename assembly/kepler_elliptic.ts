@@ -64,6 +64,7 @@ import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED } from "./status";
 import { put } from "./io";
 import { IS_F32, INTEGER_LIMIT, PI, EPS, THIRD, SIXTH, TWENTYFOURTH, KEPLER_LINEAR_MAX } from "./real";
 import { reduceTurns, reducedLo, reducedTurns } from "./reduce";
+import { reversionStep5 } from "./series";
 import { F5 as C5, F7 as C7, F9 as C9, F6 as C6, F8 as C8 } from "./factorials";
 import { SINCOS_TABLE, SINCOS_SHIFT, SINCOS_STEP, SINCOS_PER_RAD } from "./sincos_table";
 import { STARTER_TABLE, STARTER_SHIFT, STARTER_M_CELLS, STARTER_E_PER_UNIT, STARTER_M_PER_RAD } from "./kepler_starter_table";
@@ -282,11 +283,7 @@ export function correctionStep(e: real, q: real, mh: real, ml: real, E: real): r
   const A = <real>0.5 * f2 * r1;
   const B = SIXTH * f3 * r1;
   const C = -TWENTYFOURTH * f2 * r1; // the fourth derivative is -e sin E
-  // -u (1 + A u + P2 u^2 + P3 u^3), P2 = 2A^2 - B, P3 = 5A^3 - 5AB + C, by Estrin's scheme.
-  const AA = A * A;
-  const P2 = <real>2.0 * AA - B;
-  const P3 = A * (<real>5.0 * (AA - B)) + C;
-  return -u * ((<real>1.0 + u * A) + (u * u) * (P2 + u * P3));
+  return reversionStep5(u, A, B, C);
 }
 
 // Markley (1995) starter for 0 < mh <= ~pi (the corner cells): sin E replaced by a Pade approximant, the cubic

@@ -38,7 +38,7 @@
 import { OK, ERR_NONFINITE, ERR_DOMAIN, ERR_NOT_CONVERGED } from "./status";
 import { put, got } from "./io";
 import { IS_F32, MIN_NORMAL, SIXTH, TWENTYFOURTH, LN2, KEPLER_LINEAR_MAX } from "./real";
-import { ODD_SERIES_MAX, sinhMinusXSeries } from "./series";
+import { ODD_SERIES_MAX, sinhMinusXSeries, reversionStep5 } from "./series";
 import { invCbrt2 } from "./kepler_elliptic";
 
 export const HYPERBOLIC_MAX_ITER: i32 = 8;
@@ -126,7 +126,7 @@ function solvePositive(e: real, m: real): i32 {
   const ms: real = scaled ? m / e : m;
   for (let it = 1; it <= HYPERBOLIC_MAX_ITER; it++) {
     let step: real;
-    let order5 = false;
+    let stopRel = HYPERBOLIC_STOP_REL; // HYPERBOLIC_STOP_REL_5 after a fifth-order step
     if (H > LOG_FORM_H) {
       // g = ln e - ln(M + H) + H - ln 2 + log1p(-exp(-2H)). With e and M both huge the two logarithms are
       // large and nearly equal; take them as one logarithm of the ratio while the ratio is a normal real.
@@ -149,7 +149,6 @@ function solvePositive(e: real, m: real): i32 {
         const d1 = -f0 / f1;
         const d2 = -f0 / (f1 + <real>0.5 * d1 * f2);
         step = -f0 / (f1 + <real>0.5 * d2 * f2 + d2 * d2 * f3 * SIXTH);
-        order5 = false;
       } else {
         // Later steps (|u| small): the fifth-order series reversion of f(H + d) = 0 with one division,
         // d = -u (1 + A u + (2A^2 - B) u^2 + (5A^3 - 5AB + C) u^3), u = f / f', A = f''/2f', B = f'''/6f',
@@ -161,18 +160,15 @@ function solvePositive(e: real, m: real): i32 {
         const A = <real>0.5 * f2 * r;
         const B = SIXTH * f3 * r;
         const C = TWENTYFOURTH * f2 * r;
-        const AA = A * A;
-        const P2 = <real>2.0 * AA - B;
-        const P3 = A * (<real>5.0 * (AA - B)) + C;
-        step = -u * ((<real>1.0 + u * A) + (u * u) * (P2 + u * P3));
-        order5 = true;
+        step = reversionStep5(u, A, B, C);
+        stopRel = HYPERBOLIC_STOP_REL_5;
       }
     }
     let Hn = H + step;
     if (!(Hn > 0)) Hn = H * <real>0.25; // stay on the positive branch (the root is positive)
     const moved = abs(Hn - H);
     H = Hn;
-    if (moved <= (order5 ? HYPERBOLIC_STOP_REL_5 : HYPERBOLIC_STOP_REL) * H) {
+    if (moved <= stopRel * H) {
       put(0, H);
       put(1, <real>it);
       return OK;

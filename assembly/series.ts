@@ -24,3 +24,17 @@ export function sinhMinusXSeries(x: real): real {
   const p = C3 + y * (C5 + y * (C7 + y * (C9 + y * (C11 + y * (C13 + y * (C15 + y * (C17 + y * C19)))))));
   return x * y * p;
 }
+
+/**
+ * The fifth-order correction of Householder's method as a series reversion (used by kepler_elliptic.ts and
+ * kepler_hyperbolic.ts): the root of f(x + d) = 0 is d = -u (1 + A u + (2A^2 - B) u^2 + (5A^3 - 5AB + C) u^3) to
+ * fifth order, u = f/f', A = f''/2f', B = f'''/6f', C = f''''/24f' (J. M. A. Danby and T. M. Burkardt, Celest.
+ * Mech. 31 (1983) 95-107, give the same order as nested denominators). Estrin's scheme in u: two short chains.
+ */
+// @ts-ignore: decorator
+@inline export function reversionStep5(u: real, A: real, B: real, C: real): real {
+  const AA = A * A;
+  const P2 = <real>2.0 * AA - B;
+  const P3 = A * (<real>5.0 * (AA - B)) + C;
+  return -u * ((<real>1.0 + u * A) + (u * u) * (P2 + u * P3));
+}

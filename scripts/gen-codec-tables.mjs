@@ -6,11 +6,9 @@
 //    gigabyte per second", section 5): 5^q truncated for q >= 0; for q < 0, floor(2^b / 5^-q) + 1 with b chosen
 //    to give exactly 128 bits when q >= -27, at least 128 bits (then truncated to 128) below. Stored as (high 64 bits, low 64 bits).
 // `node scripts/gen-codec-tables.mjs` writes the file; `--check` fails when the file differs (tests run it too).
-import { readFileSync, writeFileSync } from "node:fs";
-import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
+import { writeOrCheck } from "./generated-file.mjs";
 
-const OUT = join(dirname(fileURLToPath(import.meta.url)), "..", "codec", "tables.ts");
 export const K_MIN = -324;
 export const K_MAX = 292;
 export const Q5_MIN = -342;
@@ -90,19 +88,6 @@ ${p5.join("\n")}
 }
 
 if (process.argv[1] === fileURLToPath(import.meta.url)) {
-  const text = render();
-  if (process.argv.includes("--check")) {
-    let old = "";
-    try {
-      old = readFileSync(OUT, "utf8");
-    } catch {}
-    if (old !== text) {
-      process.stderr.write("codec/tables.ts is stale: run node scripts/gen-codec-tables.mjs\n");
-      process.exit(1);
-    }
-  } else {
-    writeFileSync(OUT, text);
-    process.stderr.write(`wrote ${OUT}\n`);
-  }
+  writeOrCheck("codec/tables.ts", render(), "scripts/gen-codec-tables.mjs");
 }
 export { render };

@@ -14,14 +14,11 @@
 // corner near e -> 1, M -> 0 where a cubic in M cannot follow the root; the solver takes Markley's starter there
 // and never reads those cells (they are filled all the same, so the layout stays a plain array).
 // Usage: node scripts/gen-kepler-starter-table.mjs [--check]   (--check: exit 1 when the committed file differs)
-import { readFileSync, writeFileSync } from "node:fs";
-import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { Decimal } from "decimal.js";
 import { roundingFor } from "./decimal-rounding.mjs";
+import { writeOrCheck } from "./generated-file.mjs";
 
-const root = join(dirname(fileURLToPath(import.meta.url)), "..");
-const target = join(root, "assembly", "kepler_starter_table.ts");
 const E_CELLS = 8;
 const M_CELLS = 16;
 const M_PER_RAD = 5.0859375; // 651 / 128, exact in binary32: 16 cells reach 3.1459 > pi (rounding margin)
@@ -122,15 +119,5 @@ export const STARTER_TABLE: usize = IS_F32 ? STARTER_F32 : STARTER_F64;
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
-  const text = generate();
-  if (process.argv.includes("--check")) {
-    const now = readFileSync(target, "utf8");
-    if (now !== text) {
-      process.stderr.write("assembly/kepler_starter_table.ts is stale: run node scripts/gen-kepler-starter-table.mjs\n");
-      process.exit(1);
-    }
-  } else {
-    writeFileSync(target, text);
-    process.stderr.write(`wrote assembly/kepler_starter_table.ts (${E_CELLS * M_CELLS} cells)\n`);
-  }
+  writeOrCheck("assembly/kepler_starter_table.ts", generate(), "scripts/gen-kepler-starter-table.mjs", ` (${E_CELLS * M_CELLS} cells)`);
 }

@@ -7,14 +7,10 @@
 // in the e -> 1 corner. Two copies are written: binary64 for the release build, binary32 for the f32 build
 // (each rounded once from the decimal value: no double rounding).
 // Usage: node scripts/gen-sincos-table.mjs [--check]   (--check: exit 1 when the committed file differs)
-import { readFileSync, writeFileSync } from "node:fs";
-import { dirname, join } from "node:path";
-import { fileURLToPath } from "node:url";
 import { Decimal } from "decimal.js";
 import { roundingFor } from "./decimal-rounding.mjs";
+import { writeOrCheck } from "./generated-file.mjs";
 
-const root = join(dirname(fileURLToPath(import.meta.url)), "..");
-const target = join(root, "assembly", "sincos_table.ts");
 const NODES = 257; // x_j = 0 .. 4 in steps of 1/64 (the solver's starter is checked to lie in (0, 4])
 const D = Decimal.clone({ precision: 60, rounding: Decimal.ROUND_HALF_EVEN });
 
@@ -60,13 +56,4 @@ ${rows32.map((r) => `  ${r},`).join("\n")}
 export const SINCOS_TABLE: usize = IS_F32 ? TABLE_F32 : TABLE_F64;
 `;
 
-if (process.argv.includes("--check")) {
-  const now = readFileSync(target, "utf8");
-  if (now !== text) {
-    process.stderr.write("assembly/sincos_table.ts is stale: run node scripts/gen-sincos-table.mjs\n");
-    process.exit(1);
-  }
-} else {
-  writeFileSync(target, text);
-  process.stderr.write(`wrote assembly/sincos_table.ts (${NODES} nodes)\n`);
-}
+writeOrCheck("assembly/sincos_table.ts", text, "scripts/gen-sincos-table.mjs", ` (${NODES} nodes)`);

@@ -6,7 +6,7 @@
 // (after `npm run build`). Exit 1 when a case takes more than one step or returns a status other than OK.
 import { readFileSync } from "node:fs";
 import { dirname, join } from "node:path";
-import { fileURLToPath } from "node:url";
+import { fileURLToPath, pathToFileURL } from "node:url";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const arg = (name, dflt) => {
@@ -24,17 +24,10 @@ const out = build === "f32" ? new Float32Array(k.memory.buffer, k.areal_out(), 2
 const fmt = build === "f32" ? (x) => Math.fround(x) : (x) => x;
 const below1 = build === "f32" ? 1 - 2 ** -24 : 1 - 2 ** -53;
 
-// splitmix64 (S. Vigna, 2015): a small seeded generator, uniform doubles in [0, 1).
-let state = BigInt(seed);
-const MASK = (1n << 64n) - 1n;
-function uniform() {
-  state = (state + 0x9e3779b97f4a7c15n) & MASK;
-  let z = state;
-  z = ((z ^ (z >> 30n)) * 0xbf58476d1ce4e5b9n) & MASK;
-  z = ((z ^ (z >> 27n)) * 0x94d049bb133111ebn) & MASK;
-  z ^= z >> 31n;
-  return Number(z >> 11n) / 2 ** 53;
-}
+// The project's seeded generator (harness/core/rng.ts, compiled to dist/ by `npm run build`).
+const { Rng } = await import(pathToFileURL(join(root, "dist", "harness", "core", "rng.js")).href);
+const rng = new Rng(seed);
+const uniform = () => rng.uniform();
 
 const steps = new Map();
 let bad = 0;
