@@ -33,7 +33,7 @@ const COMMAND_MODULES: Readonly<Record<string, () => Promise<Command>>> = {
 export const COMMAND_NAMES: readonly string[] = Object.keys(COMMAND_MODULES);
 
 /** One command (its module loaded now), or undefined for an unknown name. */
-export async function loadCommand(name: string): Promise<Command | undefined> {
+async function loadCommand(name: string): Promise<Command | undefined> {
   return Object.hasOwn(COMMAND_MODULES, name) ? COMMAND_MODULES[name]!() : undefined;
 }
 

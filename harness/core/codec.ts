@@ -16,7 +16,7 @@ import { join } from "node:path";
 import { BUILD_DIR } from "./paths.js";
 
 /** The codec module file. */
-export const CODEC_FILE = join(BUILD_DIR, "codec.wasm");
+const CODEC_FILE = join(BUILD_DIR, "codec.wasm");
 
 /** parse's answers (codec/index.ts PARSE_*). */
 export const PARSE_OK = 0;

@@ -219,7 +219,7 @@ const COMPILED = new Map<WasmBuild, WebAssembly.Module>();
  * A built-in build compiled, once a thread; says how to build it when the file is missing. Worker threads are
  * sent this module (core/pool.ts KernelSource.compiled) instead of compiling their own.
  */
-export function compiledBuild(build: WasmBuild): WebAssembly.Module {
+function compiledBuild(build: WasmBuild): WebAssembly.Module {
   let mod = COMPILED.get(build);
   if (mod === undefined) {
     const path = BUILD_FILES[build];

@@ -235,9 +235,9 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
     // A shard: the lines starting in its byte range, in chunks of ranges (lines numbered from the range, so a
     // bad cell is named by its byte offset, as with workers).
     const shard = opts.shard === undefined ? undefined : shardBytes(stream.position, stream.size, opts.shard.k, opts.shard.n);
+    const step = opts.chunkBytes ?? CHUNK_BYTES;
     if (shard !== undefined && opts.workers <= 1) {
       const init = { reader: new RangeReader(path, stream.position, stream.size, source), columns: head.columns, source };
-      const step = opts.chunkBytes ?? CHUNK_BYTES;
       for (let start = shard.lo; start < shard.hi; start += step) {
         const r = evalRange(routine, plan, init, opts.kernels, start, Math.min(shard.hi, start + step));
         if (r.error !== undefined) throw new EvalError(`${source}: in the lines from byte ${r.begin}: ${r.error}`);
@@ -245,7 +245,7 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
         add(r.rows, r.statuses, r.finish);
         await turn();
       }
-    } else if (shard === undefined && (opts.workers <= 1 || stream.size <= (opts.chunkBytes ?? CHUNK_BYTES))) {
+    } else if (shard === undefined && (opts.workers <= 1 || stream.size <= step)) {
       // A file of one chunk or less gains nothing from threads: it is run here (the bytes are the same).
       for (let c = stream.nextChunk(); c !== undefined; c = stream.nextChunk()) {
         here(c);
@@ -257,7 +257,6 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
       // fifth of a 2,000,000-row run), this thread runs the first ranges itself: the same bytes, in the same order.
       const first = stream.position;
       const size = stream.size;
-      const step = opts.chunkBytes ?? CHUNK_BYTES;
       let next = shard?.lo ?? first;
       const stop = shard?.hi ?? size;
       let startError: unknown;
@@ -290,16 +289,6 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
         here(readOwnedLines(path, first, size, v.begin, v.finish).bytes);
         throw new EvalError(`${source}: a worker failed on lines from ${line}: ${v.error}`);
       };
-      const own = { reader: new RangeReader(path, first, size, source), columns: head.columns, source };
-      const kept = new KeptBytes();
-      while (!started && next < stop) {
-        const end = Math.min(stop, next + step);
-        take(evalRange(routine, plan, own, opts.kernels, next, end));
-        next = end;
-        await turn(); // the workers' messages, and an interrupt (cleanup.ts)
-      }
-      await starting;
-      if (startError !== undefined) throw startError;
       const ranges: Iterator<{ start: number; end: number }> = {
         next: () => {
           if (next >= stop) return { done: true, value: undefined };
@@ -308,6 +297,15 @@ export async function evaluateFile(routine: Routine, path: string, source: strin
           return { done: false, value: r };
         },
       };
+      const own = { reader: new RangeReader(path, first, size, source), columns: head.columns, source };
+      const kept = new KeptBytes();
+      while (!started && next < stop) {
+        const r = ranges.next().value!;
+        take(evalRange(routine, plan, own, opts.kernels, r.start, r.end));
+        await turn(); // the workers' messages, and an interrupt (cleanup.ts)
+      }
+      await starting;
+      if (startError !== undefined) throw startError;
       // This thread is one of the `workers`: it runs a range whenever the worker threads have theirs queued
       // (a view of the codec's memory is copied when the range waits for an earlier one).
       const local = localRanges(routine, plan, own, opts.kernels, kept);
